@@ -1,0 +1,25 @@
+# Each target sets itself up: a fresh clone needs only Python 3.11 and make.
+PYTHON ?= python3
+VENV   := .venv
+BIN    := $(VENV)/bin
+STAMP  := $(VENV)/.installed
+
+.PHONY: demo test bench clean
+
+$(STAMP): pyproject.toml
+	test -d $(VENV) || $(PYTHON) -m venv $(VENV)
+	$(BIN)/pip install --quiet --upgrade pip
+	$(BIN)/pip install --quiet -e '.[test]'
+	touch $(STAMP)
+
+demo: $(STAMP)
+	$(BIN)/ledlint check fixtures/demo/dust_extractor_panel.edif --bom fixtures/demo/bom.csv --verbose || test $$? -eq 1
+
+test: $(STAMP)
+	$(BIN)/python -m pytest -q -p no:cacheprovider
+
+bench: $(STAMP)
+	@echo "make bench: the benchmark harness is not written yet (performance issue)."
+
+clean:
+	rm -rf $(VENV) build *.egg-info

@@ -1,0 +1,116 @@
+"""Command line: ``ledlint check``, ``ledlint rules``, ``ledlint --version``.
+
+Standard output carries the report (or ``--output`` receives it, written whole or not at
+all); standard error carries one-line errors. Exit codes: :data:`EXIT_CLEAN` when nothing
+is at or above the fail level, :data:`EXIT_FINDINGS` when something is, and
+:data:`EXIT_BAD_INPUT` when an input or the command line could not be used.
+"""
+
+from __future__ import annotations
+
+import argparse
+import os
+import sys
+from pathlib import Path
+from typing import NoReturn, Sequence
+
+from linter import __version__
+from linter.errors import LedlintError, UsageError
+
+__all__ = ["main", "EXIT_CLEAN", "EXIT_FINDINGS", "EXIT_BAD_INPUT"]
+
+EXIT_CLEAN = 0
+"""No finding at or above the fail level."""
+EXIT_FINDINGS = 1
+"""At least one finding at or above the fail level."""
+EXIT_BAD_INPUT = 2
+"""An input file or the command line could not be used."""
+
+
+class _Parser(argparse.ArgumentParser):
+    """argparse that reports a bad command line in one line and exits 2 through our path."""
+
+    def error(self, message: str) -> NoReturn:
+        raise UsageError(f"{self.prog}: {message}")
+
+
+def _build_parser() -> argparse.ArgumentParser:
+    parser = _Parser(prog="ledlint", description="Design-rule checker for LED drive circuits.")
+    parser.add_argument("--version", action="version", version=f"ledlint {__version__}")
+    commands = parser.add_subparsers(dest="command", required=True, parser_class=_Parser)
+
+    check = commands.add_parser("check", help="check a netlist and report findings")
+    check.add_argument("netlist", type=Path, help="EDIF 2.0.0 or SPICE netlist")
+    check.add_argument("--bom", type=Path, help="bill of materials (CSV)")
+    check.add_argument("--config", type=Path, help="settings file (default: found upward)")
+    check.add_argument("--parts", type=Path, action="append", default=[],
+                       help="extra part data (TOML); may repeat")
+    check.add_argument("--format", choices=("text", "json"), default="text")
+    check.add_argument("--output", "-o", type=Path, help="write the report here instead of stdout")
+    check.add_argument("--fail-on", choices=("error", "warning", "info"), default="error")
+    check.add_argument("--verbose", "-v", action="store_true", help="add per-group tables")
+    check.add_argument("--quiet", "-q", action="store_true", help="print only findings")
+
+    rules = commands.add_parser("rules", help="list the rules, or print one rule's page")
+    rules.add_argument("rule", nargs="?")
+    return parser
+
+
+def _run_check(args: argparse.Namespace) -> int:
+    from linter.engine import CheckRequest, run_check
+    from linter.findings import severity_rank
+    from linter.report import ReportFormat
+
+    request = CheckRequest(netlist=args.netlist, bom=args.bom, config=args.config,
+                           parts_files=tuple(args.parts))
+    result = run_check(request)
+    to_terminal = args.output is None and sys.stdout.isatty() and "NO_COLOR" not in os.environ
+    reporter = ReportFormat(args.format).reporter(verbose=args.verbose, quiet=args.quiet,
+                                                  color=to_terminal)
+    text = reporter.render(result)
+    if args.output is not None:
+        from linter.output import write_atomically
+
+        write_atomically(args.output, text)
+    else:
+        sys.stdout.write(text)
+    threshold = severity_rank(args.fail_on)
+    failing = any(severity_rank(f.severity) >= threshold for f in result.findings)
+    return EXIT_FINDINGS if failing else EXIT_CLEAN
+
+
+def _run_rules(args: argparse.Namespace) -> int:
+    from linter.rules import all_rules
+
+    registry = all_rules()
+    if args.rule is None:
+        for rule_id, rule in sorted(registry.items()):
+            sys.stdout.write(f"{rule_id:20} {rule.default_severity:8} {rule.summary()}\n")
+        return EXIT_CLEAN
+    rule = registry.get(args.rule)
+    if rule is None:
+        raise UsageError(f"ledlint rules: no rule {args.rule!r}; `ledlint rules` lists them")
+    sys.stdout.write(rule.documentation() + "\n")
+    return EXIT_CLEAN
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    """Entry point of the ``ledlint`` console script; returns the exit code."""
+    try:
+        args = _build_parser().parse_args(argv)
+        if args.command == "check":
+            return _run_check(args)
+        return _run_rules(args)
+    except LedlintError as exc:
+        sys.stderr.write(f"{exc}\n")
+        return EXIT_BAD_INPUT
+    except RecursionError:
+        sys.stderr.write("ledlint: input nested too deeply\n")
+        return EXIT_BAD_INPUT
+    except KeyboardInterrupt:
+        sys.stderr.write("ledlint: interrupted\n")
+        return 130
+
+
+if __name__ == "__main__":  # pragma: no cover
+    raise SystemExit(main())
