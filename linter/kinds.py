@@ -22,7 +22,8 @@ COLOR_WORDS: tuple[str, ...] = (
 LED_WORDS: tuple[str, ...] = ("led", "leds", "light emitting", "light-emitting", "indicator")
 """Words that mark a part as an LED wherever they appear."""
 
-_WORD = re.compile(r"[a-z]+(?:-[a-z]+)?")
+_WORD = re.compile(r"[a-z]+")
+_PHRASES = tuple(word for word in COLOR_WORDS + LED_WORDS if not word.isalpha())
 _REF_PREFIX = re.compile(r"^([A-Za-z]+)")
 
 _PREFIX_KINDS: dict[str, str] = {
@@ -50,8 +51,7 @@ def _words(texts: Iterable[str | None]) -> set[str]:
         if text:
             lowered = text.casefold()
             found.update(_WORD.findall(lowered))
-            found.update(phrase for phrase in ("light emitting", "royal blue", "warm white",
-                                               "cool white") if phrase in lowered)
+            found.update(phrase for phrase in _PHRASES if phrase in lowered)
     return found
 
 
