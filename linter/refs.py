@@ -1,0 +1,83 @@
+"""Reference designators for people: natural order and folded runs (``D1–D4, R6``).
+
+Designators are compared the way an engineer reads them, numbers as numbers (``D2`` before
+``D10``), and a run of three or more consecutive numbers with the same prefix is written as a
+range with an en dash (``D7–D10``). A run of two stays a list (``D1, D2``): a range of two
+saves nothing and hides a part.
+"""
+
+from __future__ import annotations
+
+import re
+from typing import Iterable
+
+__all__ = ["natural_key", "natural_sorted", "fold_refs", "RANGE_DASH", "MIN_RUN"]
+
+RANGE_DASH = "\u2013"
+"""The en dash between the ends of a folded run (``D1–D12``)."""
+
+MIN_RUN = 3
+"""The shortest run of consecutive designators that is folded into a range."""
+
+_CHUNKS = re.compile(r"(\d+)")
+_TRAILING_NUMBER = re.compile(r"^(?P<prefix>.*?)(?P<number>[1-9]\d*|0)$")
+
+
+def natural_key(ref: str) -> tuple[tuple[str | int, ...], str]:
+    """Sort key reading digit runs as numbers, letters without case; the text breaks ties.
+
+    >>> sorted(["D10", "D2", "d1", "R1"], key=natural_key)
+    ['d1', 'D2', 'D10', 'R1']
+    """
+    chunks = _CHUNKS.split(ref)
+    return tuple(int(chunk) if index % 2 else chunk.casefold()
+                 for index, chunk in enumerate(chunks)), ref
+
+
+def natural_sorted(refs: Iterable[str]) -> list[str]:
+    """The designators without repeats, in natural order.
+
+    >>> natural_sorted(["S2/R7", "S1/R7", "R10", "R9", "R9"])
+    ['R9', 'R10', 'S1/R7', 'S2/R7']
+    """
+    return sorted(set(refs), key=natural_key)
+
+
+def _split(ref: str) -> tuple[str, int] | None:
+    """``("S2/R", 7)`` for ``S2/R7``; None where the designator does not end in a plain number."""
+    match = _TRAILING_NUMBER.match(ref)
+    if match is None or not match.group("prefix") or match.group("prefix")[-1].isdigit():
+        return None
+    return match.group("prefix"), int(match.group("number"))
+
+
+def _runs(refs: list[str]) -> list[list[str]]:
+    """Consecutive designators (same prefix, numbers one apart) gathered into runs."""
+    runs: list[list[str]] = []
+    previous: tuple[str, int] | None = None
+    for ref in refs:
+        parts = _split(ref)
+        if runs and parts is not None and previous is not None and \
+                parts[0] == previous[0] and parts[1] == previous[1] + 1:
+            runs[-1].append(ref)
+        else:
+            runs.append([ref])
+        previous = parts
+    return runs
+
+
+def fold_refs(refs: Iterable[str], separator: str = ", ") -> str:
+    """The designators in natural order, runs of :data:`MIN_RUN` or more folded to ranges.
+
+    >>> fold_refs(["D3", "D1", "D2", "R6", "D10", "D9"])
+    'D1–D3, D9, D10, R6'
+    >>> fold_refs([])
+    ''
+    """
+    pieces: list[str] = []
+    for run in _runs(natural_sorted(refs)):
+        if len(run) >= MIN_RUN:
+            pieces.append(f"{run[0]}{RANGE_DASH}{run[-1]}")
+        else:
+            pieces.extend(run)
+    return separator.join(pieces)
