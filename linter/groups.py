@@ -35,11 +35,16 @@ TOPOLOGIES: tuple[str, ...] = Topology.__args__  # type: ignore[attr-defined]
 
 @dataclass(frozen=True)
 class PinDrive:
-    """A microcontroller output pin inside a group: ``part`` ``pin`` on ``net``."""
+    """A microcontroller output pin inside a group: ``part`` ``pin`` on ``net``.
+
+    ``supply`` is the net of the part's supply pin (the level a pin driven high reaches),
+    when topology could tell which pin that is; None when unknown.
+    """
 
     part: str
     pin: str
     net: str
+    supply: str | None = None
 
     @property
     def id(self) -> str:
@@ -88,6 +93,14 @@ class Group:
         Pin states to solve; at least one.
     reason : str or None
         For ``unrecognised`` groups (and odd ones): why, in words.
+    transistor : str or None
+        The transistor in the drive path (the sink, source or switch), also when the label
+        names something else (a ``parallel`` bank behind a low-side switch).
+    drive : str or None
+        How that transistor's base or gate is driven: ``"divider"`` (resistors between
+        rails), ``"pin"`` (a microcontroller pin, through a resistor or not), ``"reference"``
+        (diodes with a bias resistor) or ``"rail"`` (tied to one rail, directly or through a
+        resistor); None without a transistor.
     """
 
     id: str
@@ -101,6 +114,8 @@ class Group:
     pins: tuple[PinDrive, ...] = ()
     scenarios: tuple[Scenario, ...] = (Scenario("on"),)
     reason: str | None = None
+    transistor: str | None = None
+    drive: str | None = None
 
     def __post_init__(self) -> None:
         if self.topology not in TOPOLOGIES:
