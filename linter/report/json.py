@@ -1,24 +1,43 @@
-"""The JSON report (schema ``ledlint-report/1``, see DESIGN.md): stable, sorted, SI floats."""
+"""The JSON report (schema ``ledlint-report/1``, see DESIGN.md): stable, sorted, SI floats.
+
+The shape is described by ``linter/data/report.schema.json`` (JSON Schema draft 2020-12),
+which the tests hold every fixture's report to. The same input gives the same bytes: no
+timestamps, findings and groups in a fixed order, keys in a fixed order.
+"""
 
 from __future__ import annotations
 
 import json
-from typing import TYPE_CHECKING, Any
+import math
+from typing import TYPE_CHECKING, Any, Mapping
 
 from linter import __version__
-from linter.findings import SEVERITIES, Finding
+from linter.findings import Finding
 from linter.report import Reporter
+from linter.report.common import (finding_location, ordered_findings, plain_data,
+                                  severity_counts, sorted_groups)
 
 if TYPE_CHECKING:
     from linter.engine import CheckResult
+    from linter.model import Circuit
 
 __all__ = ["JsonReporter", "SCHEMA_ID", "report_dict"]
 
 SCHEMA_ID = "ledlint-report/1"
+"""The ``schema`` field: changes only when a consumer would have to change."""
 
 
-def _finding_dict(finding: Finding) -> dict[str, Any]:
-    location = finding.location
+def _si_values(values: Mapping[str, float]) -> dict[str, float | None]:
+    """Values by sorted key as floats; a figure that is not finite is unknown (None)."""
+    out: dict[str, float | None] = {}
+    for key, value in sorted(values.items()):
+        number = float(value)
+        out[str(key)] = number if math.isfinite(number) else None
+    return out
+
+
+def _finding_dict(finding: Finding, circuit: "Circuit") -> dict[str, Any]:
+    location = finding_location(finding, circuit)
     return {
         "rule": finding.rule,
         "severity": finding.severity,
@@ -26,7 +45,7 @@ def _finding_dict(finding: Finding) -> dict[str, Any]:
         "nets": list(finding.nets),
         "group": finding.group,
         "message": finding.message,
-        "values": {key: float(value) for key, value in sorted(finding.values.items())},
+        "values": _si_values(finding.values),
         "fix": finding.fix,
         "fingerprint": finding.fingerprint,
         "location": None if location is None else
@@ -34,32 +53,33 @@ def _finding_dict(finding: Finding) -> dict[str, Any]:
     }
 
 
+def _inputs(result: "CheckResult") -> dict[str, Any]:
+    request = result.request
+    return {
+        "netlist": str(request.netlist),
+        "format": result.circuit.format,
+        "bom": None if request.bom is None else str(request.bom),
+        "config": None if request.config is None else str(request.config),
+        "parts": [str(path) for path in request.parts_files],
+    }
+
+
 def report_dict(result: "CheckResult") -> dict[str, Any]:
     """The report as plain Python data, ready for :func:`json.dumps`."""
-    request = result.request
-    counts = {severity: 0 for severity in SEVERITIES}
-    for finding in result.findings:
-        counts[finding.severity] += 1
-    groups = [group.as_dict() for group in result.groups]
+    groups = sorted_groups(result.groups)
     return {
         "schema": SCHEMA_ID,
         "tool": {"name": "ledlint", "version": __version__},
-        "inputs": {
-            "netlist": str(request.netlist),
-            "format": result.circuit.format,
-            "bom": None if request.bom is None else str(request.bom),
-            "config": None if request.config is None else str(request.config),
-            "parts": [str(path) for path in request.parts_files],
-        },
+        "inputs": _inputs(result),
         "summary": {
             "parts": len(result.circuit.parts),
             "nets": len(result.circuit.nets),
             "led_groups": len(groups),
-            "findings": counts,
+            "findings": severity_counts(result.findings),
         },
         "groups": groups,
-        "findings": [_finding_dict(finding) for finding in sorted(
-            result.findings, key=lambda f: (f.rule, f.parts, f.nets, f.message))],
+        "findings": [_finding_dict(finding, result.circuit)
+                     for finding in ordered_findings(result.findings)],
     }
 
 
@@ -67,4 +87,5 @@ class JsonReporter(Reporter):
     """Byte-identical output for the same input: sorted findings, no timestamps."""
 
     def render(self, result: "CheckResult") -> str:
-        return json.dumps(report_dict(result), indent=2, ensure_ascii=False, allow_nan=False) + "\n"
+        data = plain_data(report_dict(result))
+        return json.dumps(data, indent=2, ensure_ascii=False, allow_nan=False) + "\n"

@@ -1,49 +1,156 @@
-"""The terminal report: a summary line, then findings by severity, each with its fix."""
+"""The report for people: a summary line, then findings by severity, each with its fix.
+
+Each finding is one line a terminal, an editor or grep can use,
+``FILE:LINE:COLUMN: severity rule-id [parts]: message``, and its fix on the next line,
+indented. Reference lists are folded (``D7–D10``). ``verbose`` adds a table per LED group
+(currents, forward voltages and powers at nominal and at the worst-case corners; resistor
+powers against their ratings); ``quiet`` prints the finding lines only. Colour only when the
+options ask for it (the CLI asks on a terminal without ``NO_COLOR``); otherwise plain text
+whose tables use dashes under the header and no frame.
+"""
 
 from __future__ import annotations
 
 import io
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any, Mapping
 
-from linter.findings import SEVERITIES
+from rich import box
+from rich.console import Console
+from rich.table import Table
+from rich.text import Text
+
+from linter.findings import SEVERITIES, Finding
+from linter.refs import fold_refs
 from linter.report import Reporter
+from linter.report.common import (finding_location, ordered_findings, severity_counts,
+                                  sorted_groups)
+from linter.units import format_si
 
 if TYPE_CHECKING:
     from linter.engine import CheckResult
 
-__all__ = ["TextReporter"]
+__all__ = ["TextReporter", "REPORT_WIDTH", "UNKNOWN"]
+
+REPORT_WIDTH = 100
+"""Columns of the report: fixed, so that the same input gives the same text anywhere."""
+UNKNOWN = "?"
+"""Shown in a table cell whose figure is unknown."""
+
+_PLAIN_BOX = box.Box("    \n    \n -  \n    \n    \n -  \n    \n    \n", ascii=True)
+"""No frame and no column rules: dashes under the header only (reads well in a pipe)."""
+_STYLE = {"error": "bold red", "warning": "yellow", "info": "cyan"}
+
+
+def _plural(count: int, word: str) -> str:
+    return f"{count} {word}" if count == 1 else f"{count} {word}s"
+
+
+def _count_of(count: int, severity: str) -> str:
+    """``2 errors``, ``1 warning``, ``3 info``."""
+    return f"{count} info" if severity == "info" else _plural(count, severity)
+
+
+def _summary(result: "CheckResult") -> Text:
+    circuit = result.circuit
+    counts = severity_counts(result.findings)
+    found = ", ".join(_count_of(counts[severity], severity) for severity in SEVERITIES)
+    text = Text(f"{circuit.source}", style="bold")
+    text.append(f" ({circuit.format.upper()}): {_plural(len(circuit.parts), 'part')}, "
+                f"{_plural(len(circuit.nets), 'net')}, {_plural(len(circuit.leds()), 'LED')} "
+                f"in {_plural(len(result.groups), 'LED group')}; findings: {found}")
+    return text
+
+
+def _finding_line(finding: Finding, result: "CheckResult") -> Text:
+    where = finding_location(finding, result.circuit)
+    line = Text(f"{where}: " if where is not None else "")
+    line.append(finding.severity, style=_STYLE[finding.severity])
+    line.append(" ")
+    line.append(finding.rule, style="bold")
+    if finding.parts:
+        line.append(f" [{fold_refs(finding.parts)}]")
+    line.append(f": {finding.message}")
+    return line
+
+
+def _si(value: Any, unit: str) -> str:
+    return UNKNOWN if value is None else format_si(float(value), unit)
+
+
+def _led_table(group: Mapping[str, Any], style: box.Box) -> Table:
+    table = Table(box=style, show_edge=False, pad_edge=False, header_style="bold")
+    for heading in ("LED", "part", "I nom", "I min", "I max", "Vf nom", "Vf min", "Vf max",
+                    "P nom", "P max"):
+        table.add_column(heading, justify="left" if heading in ("LED", "part") else "right")
+    for led in group.get("leds", ()):
+        current, vf, power = (led.get(k) or {} for k in ("current_a", "vf_v", "power_w"))
+        table.add_row(led.get("ref", ""), led.get("part") or UNKNOWN,
+                      *(_si(current.get(k), "A") for k in ("nom", "min", "max")),
+                      *(_si(vf.get(k), "V") for k in ("nom", "min", "max")),
+                      _si(power.get("nom"), "W"), _si(power.get("max"), "W"))
+    return table
+
+
+def _resistor_table(group: Mapping[str, Any], style: box.Box) -> Table:
+    table = Table(box=style, show_edge=False, pad_edge=False, header_style="bold")
+    for heading in ("resistor", "value", "P nom", "P max", "rating"):
+        table.add_column(heading, justify="left" if heading == "resistor" else "right")
+    for resistor in group.get("resistors", ()):
+        power = resistor.get("power_w") or {}
+        table.add_row(resistor.get("ref", ""), _si(resistor.get("ohms"), "Ω"),
+                      _si(power.get("nom"), "W"), _si(power.get("max"), "W"),
+                      _si(resistor.get("rating_w"), "W"))
+    return table
+
+
+def _group_heading(group: Mapping[str, Any]) -> Text:
+    heading = Text(str(group.get("id", "")), style="bold")
+    heading.append(f": {group.get('topology', UNKNOWN)}")
+    heading.append(f" from {group['rail']}" if group.get("rail") else ", rail unknown")
+    if group.get("setter"):
+        heading.append(f", current set by {group['setter']}")
+    if group.get("parts"):
+        heading.append(f"; parts {fold_refs(group['parts'])}")
+    return heading
 
 
 class TextReporter(Reporter):
     """Readable when piped; colour only when asked for (the CLI asks on a terminal)."""
 
-    def __init__(self, *, verbose: bool = False, quiet: bool = False, color: bool = False) -> None:
-        self.verbose = verbose
-        self.quiet = quiet
-        self.color = color
-
     def render(self, result: "CheckResult") -> str:
-        from rich.console import Console
-
         buffer = io.StringIO()
-        console = Console(file=buffer, force_terminal=self.color, no_color=not self.color,
-                          width=100, highlight=False, soft_wrap=True)
-        circuit = result.circuit
-        if not self.quiet:
-            leds = circuit.leds()
-            console.print(f"[bold]{circuit.source}[/bold] ({circuit.format}): "
-                          f"{len(circuit.parts)} parts, {len(circuit.nets)} nets, "
-                          f"{len(leds)} LEDs, {len(result.groups)} LED groups")
-            if result.rails:
-                rails = ", ".join(f"{name} {rail}" for name, rail in sorted(result.rails.items()))
-                console.print(f"rails: {rails}")
-        for severity in SEVERITIES:
-            for finding in (f for f in result.findings if f.severity == severity):
-                where = f"{finding.location}: " if finding.location else ""
-                console.print(f"{where}{severity} [{finding.rule}] {finding.message}", markup=False)
-                if finding.fix:
-                    console.print(f"    fix: {finding.fix}", markup=False)
-        if not self.quiet:
-            counts = {s: sum(f.severity == s for f in result.findings) for s in SEVERITIES}
-            console.print(", ".join(f"{n} {s}{'s' if n != 1 else ''}" for s, n in counts.items()))
+        color = self.options.color
+        console = Console(file=buffer, force_terminal=color, no_color=not color,
+                          width=REPORT_WIDTH, highlight=False, soft_wrap=True,
+                          emoji=False, markup=False)
+        if not self.options.quiet:
+            console.print(_summary(result))
+            if self.options.verbose:
+                self._print_groups(console, result)
+        self._print_findings(console, result)
         return buffer.getvalue()
+
+    def _print_groups(self, console: Console, result: "CheckResult") -> None:
+        style = box.SIMPLE_HEAD if self.options.color else _PLAIN_BOX
+        for group in sorted_groups(result.groups):
+            console.print()
+            console.print(_group_heading(group))
+            if group.get("leds"):
+                console.print(_led_table(group, style), soft_wrap=False)
+            if group.get("resistors"):
+                console.print(_resistor_table(group, style), soft_wrap=False)
+
+    def _print_findings(self, console: Console, result: "CheckResult") -> None:
+        findings = ordered_findings(result.findings)
+        for severity in SEVERITIES:
+            these = [finding for finding in findings if finding.severity == severity]
+            if not these:
+                continue
+            if not self.options.quiet:
+                console.print()
+                console.print(Text(_count_of(len(these), severity).upper(),
+                                   style=_STYLE[severity]))
+            for finding in these:
+                console.print(_finding_line(finding, result))
+                if finding.fix:
+                    console.print(Text(f"    fix: {finding.fix}"))

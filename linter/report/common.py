@@ -1,0 +1,77 @@
+"""What every report format shows alike: the order of findings, where a finding sits in the
+source, and the counts by severity."""
+
+from __future__ import annotations
+
+import math
+from typing import TYPE_CHECKING, Any, Iterable, Mapping
+
+from linter.findings import SEVERITIES, Finding, severity_rank
+from linter.refs import natural_key
+
+if TYPE_CHECKING:
+    from linter.model import Circuit, SourceLocation
+
+__all__ = ["ordered_findings", "finding_location", "severity_counts", "plain_data",
+           "sorted_groups"]
+
+
+def _order(finding: Finding) -> tuple:
+    """Most severe first, then rule id, then the parts and nets in natural order."""
+    return (-severity_rank(finding.severity), finding.rule,
+            tuple(natural_key(ref) for ref in finding.parts),
+            tuple(natural_key(net) for net in finding.nets), finding.message)
+
+
+def ordered_findings(findings: Iterable[Finding]) -> list[Finding]:
+    """The findings in report order: the same for the same input, whatever the rule order."""
+    return sorted(findings, key=_order)
+
+
+def finding_location(finding: Finding, circuit: "Circuit") -> "SourceLocation | None":
+    """Where to point for a finding: its own location, else the first named part's instance.
+
+    A pin id (``U1.PA4``) points at its part. None where neither is known.
+    """
+    if finding.location is not None:
+        return finding.location
+    for ref in finding.parts:
+        part = circuit.parts.get(ref) or circuit.parts.get(ref.split(".", 1)[0])
+        if part is not None:
+            return part.location
+    return None
+
+
+def severity_counts(findings: Iterable[Finding]) -> dict[str, int]:
+    """``{"error": n, "warning": n, "info": n}``, every severity present."""
+    counts = {severity: 0 for severity in SEVERITIES}
+    for finding in findings:
+        counts[finding.severity] += 1
+    return counts
+
+
+def plain_data(value: Any) -> Any:
+    """JSON-ready copy: mappings to dicts, sequences to lists, numbers to float or int.
+
+    A number that is not finite (an unknown or unbounded figure) becomes None: JSON has no
+    NaN, and a report says "unknown" rather than invent a number. numpy scalars become
+    Python numbers.
+    """
+    if value is None or isinstance(value, (str, bool)):
+        return value
+    if isinstance(value, Mapping):
+        return {str(key): plain_data(item) for key, item in value.items()}
+    if isinstance(value, (list, tuple)):
+        return [plain_data(item) for item in value]
+    if isinstance(value, int) and not hasattr(value, "dtype"):
+        return value
+    if hasattr(value, "item") and hasattr(value, "dtype"):  # a numpy scalar
+        return plain_data(value.item())
+    number = float(value)
+    return number if math.isfinite(number) else None
+
+
+def sorted_groups(groups: Iterable[Any]) -> list[dict[str, Any]]:
+    """Each group's ``as_dict()`` as plain data, in natural order of the group id."""
+    dicts = [plain_data(group.as_dict()) for group in groups]
+    return sorted(dicts, key=lambda entry: natural_key(str(entry.get("id", ""))))

@@ -1,0 +1,173 @@
+"""The SARIF 2.1.0 report (``--format sarif``), for code-scanning services and CI annotations.
+
+One run whose driver lists every rule (id, name, descriptions and help from the rule's
+documentation page, default level) and one result per finding: rule id and index, level,
+the message with its fix, the place of the part's instance or element in the netlist
+(an artifact URI relative to ``SRCROOT`` when the file lies below the base folder), the
+parts as logical locations, and a partial fingerprint that survives unrelated edits.
+Severity ``info`` is SARIF level ``note``. Computed fixes are text (SARIF ``fixes`` require
+file edits, which ledlint does not make); they are in the message and in ``properties.fix``.
+"""
+
+from __future__ import annotations
+
+import json
+import re
+from pathlib import Path
+from typing import TYPE_CHECKING, Any, Iterable
+from urllib.parse import quote
+
+from linter import __version__
+from linter.findings import Finding
+from linter.report import Reporter
+from linter.report.common import finding_location, ordered_findings, plain_data
+
+if TYPE_CHECKING:
+    from linter.engine import CheckResult
+    from linter.model import Circuit, SourceLocation
+
+__all__ = ["SarifReporter", "SARIF_SCHEMA_URI", "SARIF_VERSION", "FINGERPRINT_KEY",
+           "SOURCE_ROOT", "LEVELS", "sarif_log"]
+
+SARIF_VERSION = "2.1.0"
+SARIF_SCHEMA_URI = ("https://docs.oasis-open.org/sarif/sarif/v2.1.0/errata01/os/schemas/"
+                    "sarif-schema-2.1.0.json")
+"""The ``$schema`` of the log: the OASIS standard's schema (Approved Errata 01)."""
+FINGERPRINT_KEY = "ledlint/v1"
+"""Key of :attr:`linter.findings.Finding.fingerprint` in ``partialFingerprints``."""
+SOURCE_ROOT = "SRCROOT"
+"""The ``uriBaseId`` that relative artifact URIs start from."""
+LEVELS: dict[str, str] = {"error": "error", "warning": "warning", "info": "note"}
+"""Our severity → SARIF ``level``."""
+
+_MARKUP = re.compile(r"\*\*|``?")
+
+
+def _plain(markdown: str) -> str:
+    """A rule page without its emphasis and code marks, for SARIF's plain-text fields."""
+    return _MARKUP.sub("", markdown)
+
+
+def _rule_descriptor(rule_id: str, rule: Any | None) -> dict[str, Any]:
+    """``reportingDescriptor`` of one rule; a rule id with no registered class gets its id only."""
+    if rule is None:
+        return {"id": rule_id, "shortDescription": {"text": rule_id}}
+    page = rule.documentation()
+    summary = rule.summary() or rule_id
+    body = page.split("\n", 1)[1].strip() if "\n" in page else page
+    descriptor: dict[str, Any] = {
+        "id": rule_id,
+        "name": rule.__name__,
+        "shortDescription": {"text": summary},
+        "fullDescription": {"text": _plain(body or summary)},
+        "help": {"text": _plain(page), "markdown": page},
+        "defaultConfiguration": {"level": LEVELS[rule.default_severity]},
+    }
+    if getattr(rule, "aliases", ()):
+        descriptor["deprecatedIds"] = list(rule.aliases)
+    return descriptor
+
+
+def _rules(findings: Iterable[Finding]) -> list[dict[str, Any]]:
+    """Every registered rule, plus any rule id a finding names that is not registered."""
+    from linter.rules import all_rules
+
+    registry = all_rules()
+    ids = sorted(set(registry) | {finding.rule for finding in findings})
+    return [_rule_descriptor(rule_id, registry.get(rule_id)) for rule_id in ids]
+
+
+def _artifact(file: str, base: Path) -> dict[str, str]:
+    """``artifactLocation``: relative to ``SRCROOT`` below the base folder, else an absolute URI."""
+    path = Path(file)
+    absolute = (path if path.is_absolute() else Path.cwd() / path).resolve()
+    try:
+        relative = absolute.relative_to(base)
+    except ValueError:
+        return {"uri": absolute.as_uri()}
+    return {"uri": quote(relative.as_posix(), safe="/"), "uriBaseId": SOURCE_ROOT}
+
+
+def _physical(location: "SourceLocation", base: Path) -> dict[str, Any]:
+    return {"artifactLocation": _artifact(location.file, base),
+            "region": {"startLine": location.line, "startColumn": location.column}}
+
+
+def _logical(finding: Finding, circuit: "Circuit") -> list[dict[str, str]]:
+    """The parts as ``object`` logical locations (full path where it differs), then the nets."""
+    logical: list[dict[str, str]] = []
+    for ref in finding.parts:
+        part = circuit.parts.get(ref)
+        entry = {"name": ref, "kind": "object"}
+        if part is not None and part.path and part.path != ref:
+            entry["fullyQualifiedName"] = part.path
+        logical.append(entry)
+    logical.extend({"name": net, "kind": "element"} for net in finding.nets)
+    return logical
+
+
+def _related(finding: Finding, circuit: "Circuit", base: Path) -> list[dict[str, Any]]:
+    """The instances of the other named parts, so that a viewer can show each of them."""
+    related = []
+    for ref in finding.parts[1:]:
+        part = circuit.parts.get(ref)
+        if part is not None:
+            related.append({"id": len(related) + 1, "message": {"text": ref},
+                            "physicalLocation": _physical(part.location, base)})
+    return related
+
+
+def _message(finding: Finding) -> str:
+    return finding.message if not finding.fix else f"{finding.message}\nFix: {finding.fix}"
+
+
+def _result(finding: Finding, rule_index: int, circuit: "Circuit", base: Path) -> dict[str, Any]:
+    location: dict[str, Any] = {}
+    where = finding_location(finding, circuit)
+    if where is not None:
+        location["physicalLocation"] = _physical(where, base)
+    logical = _logical(finding, circuit)
+    if logical:
+        location["logicalLocations"] = logical
+    result: dict[str, Any] = {
+        "ruleId": finding.rule,
+        "ruleIndex": rule_index,
+        "level": LEVELS[finding.severity],
+        "message": {"text": _message(finding)},
+    }
+    if location:
+        result["locations"] = [location]
+    related = _related(finding, circuit, base)
+    if related:
+        result["relatedLocations"] = related
+    result["partialFingerprints"] = {FINGERPRINT_KEY: finding.fingerprint}
+    result["properties"] = {"parts": list(finding.parts), "nets": list(finding.nets),
+                            "group": finding.group, "fix": finding.fix,
+                            "values": plain_data(dict(sorted(finding.values.items())))}
+    return result
+
+
+def sarif_log(result: "CheckResult", base: Path) -> dict[str, Any]:
+    """The SARIF log as plain data; relative URIs start from ``base`` (an absolute folder)."""
+    findings = ordered_findings(result.findings)
+    rules = _rules(findings)
+    index = {descriptor["id"]: position for position, descriptor in enumerate(rules)}
+    driver = {"name": "ledlint", "version": __version__, "semanticVersion": __version__,
+              "rules": rules}
+    run = {
+        "tool": {"driver": driver},
+        "originalUriBaseIds": {SOURCE_ROOT: {"uri": base.as_uri().rstrip("/") + "/"}},
+        "columnKind": "unicodeCodePoints",
+        "results": [_result(finding, index[finding.rule], result.circuit, base)
+                    for finding in findings],
+    }
+    return {"$schema": SARIF_SCHEMA_URI, "version": SARIF_VERSION, "runs": [run]}
+
+
+class SarifReporter(Reporter):
+    """SARIF 2.1.0; the same input in the same folder gives the same bytes."""
+
+    def render(self, result: "CheckResult") -> str:
+        base = (self.options.base_dir or Path.cwd()).resolve()
+        log = sarif_log(result, base)
+        return json.dumps(log, indent=2, ensure_ascii=False, allow_nan=False) + "\n"
