@@ -16,6 +16,7 @@ from typing import NoReturn, Sequence
 
 from linter import __version__
 from linter.errors import LedlintError, UsageError
+from linter.report import ReportFormat
 
 __all__ = ["main", "EXIT_CLEAN", "EXIT_FINDINGS", "EXIT_BAD_INPUT"]
 
@@ -41,11 +42,14 @@ def _build_parser() -> argparse.ArgumentParser:
 
     check = commands.add_parser("check", help="check a netlist and report findings")
     check.add_argument("netlist", type=Path, help="EDIF 2.0.0 or SPICE netlist")
+    check.add_argument("more_netlists", type=Path, nargs="*", metavar="NETLIST",
+                       help="further netlists, each checked on its own (text format only)")
     check.add_argument("--bom", type=Path, help="bill of materials (CSV)")
     check.add_argument("--config", type=Path, help="settings file (default: found upward)")
     check.add_argument("--parts", type=Path, action="append", default=[],
                        help="extra part data (TOML); may repeat")
-    check.add_argument("--format", choices=("text", "json"), default="text")
+    check.add_argument("--format", choices=tuple(choice.value for choice in ReportFormat),
+                       default=ReportFormat.TEXT.value)
     check.add_argument("--output", "-o", type=Path, help="write the report here instead of stdout")
     check.add_argument("--fail-on", choices=("error", "warning", "info"), default="error")
     check.add_argument("--verbose", "-v", action="store_true", help="add per-group tables")
@@ -56,18 +60,42 @@ def _build_parser() -> argparse.ArgumentParser:
     return parser
 
 
+def _same_file(first: Path, second: Path) -> bool:
+    """True when both names lead to one file (existing or not)."""
+    try:
+        return os.path.samefile(first, second)
+    except OSError:
+        return first.resolve() == second.resolve()
+
+
+def _refuse_output_over_input(args: argparse.Namespace, netlists: Sequence[Path]) -> None:
+    """``--output`` may not name an input, nor a settings file found upward from a netlist."""
+    if args.output is None:
+        return
+    inputs = [*netlists, *(path for path in (args.bom, args.config) if path), *args.parts]
+    for netlist in netlists:
+        for folder in netlist.resolve().parents:
+            inputs += [folder / "ledlint.toml", folder / "pyproject.toml"]
+    for path in inputs:
+        if _same_file(args.output, path):
+            raise UsageError(f"ledlint check: --output {args.output} is an input "
+                             f"({path}); write the report to another file")
+
+
 def _run_check(args: argparse.Namespace) -> int:
     from linter.engine import CheckRequest, run_check
     from linter.findings import severity_rank
-    from linter.report import ReportFormat
 
-    request = CheckRequest(netlist=args.netlist, bom=args.bom, config=args.config,
-                           parts_files=tuple(args.parts))
-    result = run_check(request)
+    netlists = (args.netlist, *args.more_netlists)
+    _refuse_output_over_input(args, netlists)
+    if len(netlists) > 1 and (args.format != ReportFormat.TEXT.value or args.bom is not None):
+        raise UsageError("ledlint check: several netlists need --format text and no --bom")
+    results = [run_check(CheckRequest(netlist=netlist, bom=args.bom, config=args.config,
+                                      parts_files=tuple(args.parts))) for netlist in netlists]
     to_terminal = args.output is None and sys.stdout.isatty() and "NO_COLOR" not in os.environ
     reporter = ReportFormat(args.format).reporter(verbose=args.verbose, quiet=args.quiet,
                                                   color=to_terminal)
-    text = reporter.render(result)
+    text = "\n".join(reporter.render(result) for result in results)
     if args.output is not None:
         from linter.output import write_atomically
 
@@ -75,7 +103,8 @@ def _run_check(args: argparse.Namespace) -> int:
     else:
         sys.stdout.write(text)
     threshold = severity_rank(args.fail_on)
-    failing = any(severity_rank(f.severity) >= threshold for f in result.findings)
+    failing = any(severity_rank(f.severity) >= threshold
+                  for result in results for f in result.findings)
     return EXIT_FINDINGS if failing else EXIT_CLEAN
 
 
