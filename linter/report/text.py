@@ -121,6 +121,7 @@ class TextReporter(Reporter):
         buffer = io.StringIO()
         color = self.options.color
         console = Console(file=buffer, force_terminal=color, no_color=not color,
+                          color_system="standard" if color else None, legacy_windows=False,
                           width=REPORT_WIDTH, highlight=False, soft_wrap=True,
                           emoji=False, markup=False)
         if not self.options.quiet:
