@@ -1,0 +1,178 @@
+"""Joining the bill of materials onto the Circuit, and what disagrees between them.
+
+:func:`apply_bom` copies what the BOM knows (package, power rating, tolerance, part number,
+do-not-populate) into :attr:`linter.model.Part.properties` and lists every discrepancy: a part
+missing on either side, a value that differs, a quantity that does not count the references,
+a reference listed twice. Values are compared as numbers where both sides read as numbers
+(``4k7`` = ``4.7k`` = ``4700`` = ``4K7``; ``330R`` = ``330``), otherwise as text without case.
+Where the two disagree the analysis keeps the netlist's value: the netlist is what was drawn.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field, replace
+from typing import Literal, Mapping
+
+from linter.model import Circuit, Part, SourceLocation
+from linter.readers.bom import Bom, BomLine
+from linter.refs import fold_refs
+from linter.units import ValueParseError, format_si, parse_number
+
+__all__ = ["BomDiscrepancy", "DiscrepancyKind", "apply_bom", "VALUE_MATCH_REL", "values_agree"]
+
+DiscrepancyKind = Literal["missing-from-bom", "missing-from-netlist", "value", "quantity",
+                          "duplicate", "part-number"]
+
+VALUE_MATCH_REL = 1e-6
+"""Relative difference (dimensionless) below which two numeric values are the same value;
+it only absorbs floating-point rounding (``0.1u`` against ``100n``)."""
+
+_UNIT_BY_KIND = {"resistor": "Ω", "link": "Ω", "capacitor": "F", "inductor": "H"}
+_BOM_PROPERTIES = ("package", "power", "tolerance", "part_number", "description")
+
+
+@dataclass(frozen=True)
+class BomDiscrepancy:
+    """One disagreement between netlist and BOM; ``values`` are SI floats where numeric."""
+
+    kind: DiscrepancyKind
+    refs: tuple[str, ...]
+    message: str
+    location: SourceLocation | None
+    values: Mapping[str, float] = field(default_factory=dict, hash=False)
+
+
+def apply_bom(circuit: Circuit, bom: Bom) -> tuple[Circuit, tuple[BomDiscrepancy, ...]]:
+    """A new Circuit carrying the BOM's facts, and the discrepancies between the two.
+
+    Netlist parts of kind ``source`` in a SPICE deck (the deck's own supplies) are not
+    expected in the BOM.
+    """
+    by_fold = {ref.casefold(): ref for ref in circuit.parts}
+    found: dict[str, BomLine] = {}
+    problems: list[BomDiscrepancy] = []
+    for line in bom.lines:
+        problems.extend(_check_quantity(line))
+        for bom_ref in line.refs:
+            ref = by_fold.get(bom_ref.casefold())
+            if ref is None:
+                problems.append(BomDiscrepancy(
+                    "missing-from-netlist", (bom_ref,),
+                    f"{bom_ref} is in the BOM (line {line.line}) but not in the netlist",
+                    line.location))
+            elif ref in found:
+                problems.append(BomDiscrepancy(
+                    "duplicate", (ref,),
+                    f"{ref} is listed twice in the BOM (lines {found[ref].line} and {line.line})",
+                    line.location))
+            else:
+                found[ref] = line
+    parts = dict(circuit.parts)
+    for ref, part in circuit.parts.items():
+        line = found.get(ref)
+        if line is None:
+            if not (circuit.format == "spice" and part.kind == "source"):
+                problems.append(BomDiscrepancy(
+                    "missing-from-bom", (ref,),
+                    f"{ref} is in the netlist but not in the BOM", part.location))
+            continue
+        problems.extend(_compare(part, line))
+        parts[ref] = _enrich(part, line)
+    return replace(circuit, parts=parts), tuple(problems)
+
+
+def _check_quantity(line: BomLine) -> list[BomDiscrepancy]:
+    count = len(line.refs)
+    if line.quantity is None or line.quantity == count or (line.dnp and line.quantity == 0):
+        return []
+    return [BomDiscrepancy(
+        "quantity", line.refs,
+        f"BOM line {line.line} gives quantity {line.quantity} for {count} "
+        f"reference{'s' if count != 1 else ''} ({fold_refs(line.refs)})",
+        line.location, {"quantity": float(line.quantity), "references": float(count)})]
+
+
+def _enrich(part: Part, line: BomLine) -> Part:
+    """The part with the BOM's facts in its properties (and part number where it had none)."""
+    properties = dict(part.properties)
+    for name in _BOM_PROPERTIES:
+        text = getattr(line, name)
+        if text is not None:
+            properties[name] = text
+    if line.dnp:
+        properties["dnp"] = "yes"
+    if line.value is not None and part.value is not None and not _value_matches(part, line):
+        properties["bom_value"] = line.value
+    part_number = part.part_number or line.part_number
+    return replace(part, properties=properties, part_number=part_number)
+
+
+def _compare(part: Part, line: BomLine) -> list[BomDiscrepancy]:
+    problems: list[BomDiscrepancy] = []
+    if line.value is not None and part.value is not None and not line.dnp \
+            and not _value_matches(part, line):
+        problems.append(_value_discrepancy(part, line))
+    if part.part_number and line.part_number and \
+            part.part_number.casefold() != line.part_number.casefold():
+        problems.append(BomDiscrepancy(
+            "part-number", (part.ref,),
+            f"{part.ref}: BOM part number {line.part_number} (line {line.line}) disagrees with "
+            f"the netlist's {part.part_number}; the analysis uses the netlist's",
+            line.location))
+    return problems
+
+
+def _netlist_number(part: Part) -> float | None:
+    if part.value_si is not None:
+        return part.value_si
+    return _number(part.value, _UNIT_BY_KIND.get(part.kind))
+
+
+def _number(text: str | None, unit: str | None) -> float | None:
+    if text is None:
+        return None
+    try:
+        return parse_number(text, unit)
+    except ValueParseError:
+        return None
+
+
+def values_agree(first: float, second: float) -> bool:
+    """Equal within :data:`VALUE_MATCH_REL` (relative), or both zero.
+
+    >>> values_agree(4700.0, 4.7e3)
+    True
+    """
+    return math.isclose(first, second, rel_tol=VALUE_MATCH_REL, abs_tol=0.0)
+
+
+def _value_matches(part: Part, line: BomLine) -> bool:
+    assert line.value is not None and part.value is not None
+    netlist = _netlist_number(part)
+    bom = _number(line.value, _UNIT_BY_KIND.get(part.kind))
+    if netlist is not None and bom is not None:
+        return values_agree(netlist, bom)
+    names = {text.casefold() for text in (part.value, part.part_number, line.part_number) if text}
+    if line.value.casefold() in names:
+        return True
+    # A SPICE element's "value" may be its .model name: nothing the BOM's value can match.
+    return part.model is not None and part.value.casefold() == part.model.name.casefold()
+
+
+def _value_discrepancy(part: Part, line: BomLine) -> BomDiscrepancy:
+    assert line.value is not None and part.value is not None
+    unit = _UNIT_BY_KIND.get(part.kind, "")
+    netlist = _netlist_number(part)
+    bom = _number(line.value, _UNIT_BY_KIND.get(part.kind))
+    values: dict[str, float] = {}
+    netlist_text, bom_text = part.value, line.value
+    if netlist is not None and bom is not None:
+        values = {"netlist_value": netlist, "bom_value": bom}
+        netlist_text = f"{part.value} ({format_si(netlist, unit)})"
+        bom_text = f"{line.value} ({format_si(bom, unit)})"
+    return BomDiscrepancy(
+        "value", (part.ref,),
+        f"{part.ref}: BOM value {bom_text} (line {line.line}) disagrees with the netlist's "
+        f"{netlist_text}; the analysis uses the netlist's value",
+        line.location, values)
