@@ -1,0 +1,179 @@
+"""EDIF 2.0.0 netlists to a :class:`linter.model.Circuit`.
+
+Three steps, one module each: :mod:`linter.readers.sexpr` parses the text,
+:mod:`linter.readers.edif_forms` turns the forms into declaration records, and
+:mod:`linter.readers.edif_flatten` walks the hierarchy from the design's top cell and joins
+nets through ports. This module names what the walk found and builds the Circuit:
+
+* a part's reference is its ``designator`` (or a property named reference, refdes or
+  designator), else its leaf instance name, while that is unique in the design; where a
+  repeated sheet makes it ambiguous, the instance path (``S2/R7``) names each of the parts;
+* a merged net takes the display name of its top-most net (the first declared at that
+  depth); where two merged nets would get the same name, each takes its path (``S1/LED_A``);
+* part fields come from properties, matched without regard to case, spaces, ``_`` or ``-``:
+  VALUE; part number from PARTNUMBER, MPN, PART or "Part Number"; the rest are kept in
+  ``Part.properties`` under lower-cased names (description, footprint, package…).
+  Instance properties override those of the cell and its view.
+
+A net that joins fewer than two pins (counting the top cell's own ports as connections to
+the outside) is refused: it is a drawing error, and an LED on it could not be analysed.
+"""
+
+from __future__ import annotations
+
+import re
+from collections import Counter
+
+from linter.errors import NetlistError
+from linter.kinds import infer_kind
+from linter.model import Circuit, Net, Part, Pin, SourceLocation
+from linter.readers.edif_flatten import FlatDesign, Leaf, NetWire, flatten
+from linter.readers.edif_syntax import member_display, read_edif_file
+from linter.readers.sexpr import Document, parse
+from linter.units import ValueParseError, parse_number
+
+__all__ = ["read_edif", "VALUE_KEYS", "PART_NUMBER_KEYS", "REFERENCE_KEYS"]
+
+VALUE_KEYS = ("value",)
+"""Normalised property names read as the part's value."""
+PART_NUMBER_KEYS = ("partnumber", "mpn", "part")
+"""Normalised property names read as the part number (PART_NUMBER and "Part Number" included)."""
+REFERENCE_KEYS = ("reference", "refdes", "designator")
+"""Normalised property names read as the reference designator."""
+_NOT_KEPT = frozenset(VALUE_KEYS + PART_NUMBER_KEYS + REFERENCE_KEYS)
+_IGNORED = re.compile(r"[\s_\-]")
+
+
+def _normal(name: str) -> str:
+    """Property name for matching: case-folded, without spaces, underscores or hyphens."""
+    return _IGNORED.sub("", name.casefold())
+
+
+def read_edif(text: str, source: str) -> Circuit:
+    """Read an EDIF 2.0.0 level-0 netlist; ``source`` names the file in messages and locations.
+
+    Raises
+    ------
+    NetlistError
+        One line ``FILE:LINE:COLUMN: message`` for any text that cannot be read.
+    """
+    if not text.strip():
+        raise NetlistError(source, 1, 1, "empty file; expected an EDIF netlist")
+    doc = parse(text, source)
+    edif = read_edif_file(doc)
+    flat = flatten(edif)
+    refs = _part_refs(flat.leaves, doc)
+    net_names, chosen = _net_names(flat, doc)
+    parts = {ref: _part(leaf, ref, flat, net_names, doc) for ref, leaf in zip(refs, flat.leaves)}
+    nets = _nets(parts, chosen, net_names, flat, doc)
+    design = edif.design.name.display if edif.design is not None else ""
+    return Circuit(source=source, format="edif", parts=parts, nets=nets, design=design)
+
+
+def _location(doc: Document, form: list) -> SourceLocation:
+    line, column = doc.position_of(form)
+    return SourceLocation(doc.source, line, column)
+
+
+def _reference(leaf: Leaf) -> str | None:
+    if leaf.instance.designator:
+        return leaf.instance.designator
+    for name, value in leaf.instance.properties.items():
+        if _normal(name) in REFERENCE_KEYS and value.strip():
+            return value.strip()
+    return None
+
+
+def _part_refs(leaves: list[Leaf], doc: Document) -> list[str]:
+    """References in leaf order: designator or leaf name where unique, else the instance path."""
+    candidates = [_reference(leaf) or leaf.names[-1] for leaf in leaves]
+    counts = Counter(candidates)
+    refs = [c if counts[c] == 1 else "/".join(leaf.names) for c, leaf in zip(candidates, leaves)]
+    seen: dict[str, Leaf] = {}
+    for ref, leaf in zip(refs, leaves):
+        if ref in seen:
+            line, column = doc.position_of(seen[ref].instance.form)
+            raise doc.error(leaf.instance.form, f"two parts are both named '{ref}' (the other "
+                                                f"at {line}:{column})")
+        seen[ref] = leaf
+    return refs
+
+
+def _net_names(flat: FlatDesign, doc: Document) -> tuple[dict[tuple, str], dict[tuple, NetWire]]:
+    """Name of each merged net (by union–find root) and the wire that gave it its name."""
+    chosen: dict[tuple, NetWire] = {}
+    for wire in flat.wires:
+        root = flat.find(wire.node) or wire.node
+        best = chosen.get(root)
+        if best is None or (wire.depth, wire.order) < (best.depth, best.order):
+            chosen[root] = wire
+    counts = Counter(wire.display for wire in chosen.values())
+    names: dict[tuple, str] = {}
+    taken: dict[str, NetWire] = {}
+    for root, wire in sorted(chosen.items(), key=lambda item: item[1].order):
+        name = wire.display if counts[wire.display] == 1 else wire.full_name
+        if name in taken:
+            line, column = doc.position_of(taken[name].net.form)
+            raise doc.error(wire.net.form, f"two nets are both named '{name}' (the other at "
+                                           f"{line}:{column})")
+        taken[name] = wire
+        names[root] = name
+    return names, chosen
+
+
+def _part(leaf: Leaf, ref: str, flat: FlatDesign, net_names: dict[tuple, str], doc: Document) -> Part:
+    merged = {**leaf.cell.properties, **leaf.view.properties, **leaf.instance.properties}
+    by_key = {_normal(name): value for name, value in merged.items()}
+    value = by_key.get("value")
+    part_number = next((by_key[k] for k in PART_NUMBER_KEYS if k in by_key), None)
+    properties = {name.lower(): text for name, text in merged.items() if _normal(name) not in _NOT_KEPT}
+    package = by_key.get("package") or by_key.get("footprint")
+    kind = infer_kind(ref, value, part_number, by_key.get("description"), package,
+                      leaf.cell.name.display)
+    pins = []
+    for key, port in leaf.view.ports.items():
+        for index in range(port.name.width):
+            name = port.name.display if not port.name.dims else member_display(port.name, index)
+            root = flat.find(("p", leaf.keys, key, index))
+            pins.append(Pin(name, net_names.get(root) if root is not None else None))
+    return Part(ref=ref, kind=kind, value=value, pins=tuple(pins),
+                location=_location(doc, leaf.instance.form), value_si=_ohms(kind, value),
+                path="/".join(leaf.names), cell=leaf.cell.name.display,
+                part_number=part_number, properties=properties)
+
+
+def _ohms(kind: str, value: str | None) -> float | None:
+    if kind not in ("resistor", "link") or value is None:
+        return None
+    try:
+        return parse_number(value, "Ω")
+    except ValueParseError:
+        return None
+
+
+def _nets(parts: dict[str, Part], chosen: dict[tuple, NetWire], names: dict[tuple, str],
+          flat: FlatDesign, doc: Document) -> dict[str, Net]:
+    """Nets in declaration order; refuses a net with fewer than two connections."""
+    joined: dict[str, list[tuple[str, str]]] = {name: [] for name in names.values()}
+    for ref, part in parts.items():
+        for pin in part.pins:
+            if pin.net is not None:
+                joined[pin.net].append((ref, pin.name))
+    outside = Counter(names.get(flat.find(("p", (), key, i)))
+                      for key, port in flat.top_view.ports.items() for i in range(port.name.width))
+    aliases: dict[tuple, list[str]] = {}
+    for wire in flat.wires:
+        root = flat.find(wire.node) or wire.node
+        if chosen[root] is not wire and wire.full_name not in aliases.setdefault(root, []):
+            aliases[root].append(wire.full_name)
+    nets: dict[str, Net] = {}
+    for root, wire in sorted(chosen.items(), key=lambda item: item[1].order):
+        name = names[root]
+        pins = joined[name]
+        if len(pins) + outside[name] < 2:
+            what = f"only one pin ({pins[0][0]}.{pins[0][1]})" if pins else "no pin"
+            raise doc.error(wire.net.form, f"net '{name}' joins {what}; a net must join "
+                                           "at least two pins")
+        nets[name] = Net(name, tuple(pins), _location(doc, wire.net.form),
+                         tuple(aliases.get(root, ())))
+    return nets
