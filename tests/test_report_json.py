@@ -17,9 +17,10 @@ from report_samples import NETLIST, fixture_netlists, sample_result
 from linter.cli import main
 from linter.findings import Finding
 from linter.report import ReportFormat
+from linter.report.json import SCHEMA_FILE
 
 REPO = Path(__file__).resolve().parents[1]
-SCHEMA = json.loads((REPO / "linter" / "data" / "report.schema.json").read_text("utf-8"))
+SCHEMA = json.loads(SCHEMA_FILE.read_text("utf-8"))
 VALIDATOR = jsonschema.Draft202012Validator(SCHEMA)
 
 

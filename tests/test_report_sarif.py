@@ -139,3 +139,15 @@ def test_fixture_sarif_validates(netlist: Path, tmp_path: Path, validator) -> No
     output = tmp_path / "report.sarif"
     assert main(["check", str(netlist), "--format", "sarif", "--output", str(output)]) in (0, 1)
     assert _errors(validator, json.loads(output.read_text("utf-8"))) == []
+
+
+def test_hierarchical_part_carries_its_full_path(validator) -> None:
+    result = sample_result()
+    r6 = result.circuit.parts["R6"]
+    parts = {**result.circuit.parts, "R6": replace(r6, path="S2/R6")}
+    circuit = replace(result.circuit, parts=parts)
+    finding = Finding("resistor-overload", "error", "R6 burns 410 mW", ("R6",))
+    log = _log(replace(result, circuit=circuit, findings=(finding,)))
+    logical = log["runs"][0]["results"][0]["locations"][0]["logicalLocations"]
+    assert logical == [{"name": "R6", "kind": "object", "fullyQualifiedName": "S2/R6"}]
+    assert _errors(validator, log) == []

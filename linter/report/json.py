@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import json
 import math
+from pathlib import Path
 from typing import TYPE_CHECKING, Any, Mapping
 
 from linter import __version__
@@ -21,10 +22,12 @@ if TYPE_CHECKING:
     from linter.engine import CheckResult
     from linter.model import Circuit
 
-__all__ = ["JsonReporter", "SCHEMA_ID", "report_dict"]
+__all__ = ["JsonReporter", "SCHEMA_ID", "SCHEMA_FILE", "report_dict"]
 
 SCHEMA_ID = "ledlint-report/1"
 """The ``schema`` field: changes only when a consumer would have to change."""
+SCHEMA_FILE = Path(__file__).resolve().parents[1] / "data" / "report.schema.json"
+"""The JSON Schema (draft 2020-12) of this report, shipped with the package."""
 
 
 def _si_values(values: Mapping[str, float]) -> dict[str, float | None]:
