@@ -1,0 +1,85 @@
+"""A group being labelled: the cluster, its strands, and the extras a transistor brings.
+
+:class:`Draft` gathers parts, nets, rails and pins from the walks and freezes them into a
+:class:`~linter.groups.Group` (parts, nets and rails in natural order; LEDs in netlist order;
+strings by their first LED).
+"""
+
+from __future__ import annotations
+
+from linter.groups import Group, PinDrive, Scenario
+from linter.refs import natural_key
+from linter.topology_index import CircuitIndex
+from linter.topology_shape import Bank, Strand
+from linter.topology_walk import Cluster
+
+__all__ = ["Draft", "pin_ids", "resistor_label"]
+
+
+class Draft:
+    """What is known of a group while it is being labelled; :meth:`group` freezes it."""
+
+    def __init__(self, index: CircuitIndex, cluster: Cluster, leds: tuple[str, ...]) -> None:
+        self.index = index
+        self.cluster = cluster
+        self.leds = leds
+        self.strands: list[Strand] = []
+        self.extra_parts: list[str] = []
+        self.extra_nets: list[str] = []
+        self.extra_pins: list[PinDrive] = []
+
+    def strings(self) -> tuple[tuple[str, ...], ...]:
+        if self.strands:
+            found = [s.leds for s in self.strands if s.leds]
+        else:
+            found = [(led,) for led in self.leds]
+        return tuple(sorted(found, key=lambda leds: natural_key(leds[0])))
+
+    def pins(self) -> tuple[PinDrive, ...]:
+        found = dict.fromkeys(self.cluster.pins + self.extra_pins)
+        return tuple(sorted(found, key=lambda pin: natural_key(pin.id)))
+
+    def group(self, topology: str, setter: str | None = None,
+              scenarios: tuple[Scenario, ...] | None = None, reason: str | None = None,
+              transistor: str | None = None, drive: str | None = None) -> Group:
+        """The frozen Group; parts and nets gathered from the cluster and the extras."""
+        pins = self.pins()
+        parts = {ref for chain in self.cluster.chains for ref in chain.parts}
+        parts.update(self.cluster.transistors, self.extra_parts, (p.part for p in pins))
+        nets = set(self.cluster.nets) | set(self.extra_nets)
+        nets.update(p.supply for p in pins if p.supply in self.index.rails)
+        rails = [net for net in nets if net in self.index.rails]
+        first = min(self.leds, key=natural_key)
+        return Group(
+            id=f"G-{first}", topology=topology, leds=self.leds, strings=self.strings(),
+            parts=tuple(sorted(parts, key=natural_key)),
+            nets=tuple(sorted(nets, key=natural_key)),
+            rails=tuple(sorted(rails, key=natural_key)), setter=setter, pins=pins,
+            scenarios=scenarios or (Scenario("on", {}, self.leds),), reason=reason,
+            transistor=transistor, drive=drive)
+
+    def unrecognised(self, reason: str) -> Group:
+        return self.group("unrecognised", reason=reason)
+
+
+def pin_ids(pins: tuple[PinDrive, ...], net: str) -> list[str]:
+    """Ids (``U1.PA4``) of the pins on ``net``."""
+    return [pin.id for pin in pins if pin.net == net]
+
+
+def resistor_label(bank: Bank, single: str) -> tuple[str, str | None, str | None]:
+    """(label, setter, reason) for strings on resistors; ``single`` labels one string."""
+    own = [s.resistors for s in bank.strings]
+    if bank.shared:
+        label = "parallel" if len(bank.strings) > 1 else single
+        return label, bank.shared[0], None
+    if len(bank.strings) == 1:
+        return (single, own[0][0], None) if own[0] else ("across-rails", None, None)
+    if all(own):
+        shape = "resistor" if all(len(s.leds) == 1 for s in bank.strings) else "string"
+        label = shape if single in ("resistor", "string") else single
+        setters = ", ".join(r[0] for r in own)
+        return label, None, f"each string has its own resistor ({setters})"
+    if not any(own):
+        return "across-rails", None, None
+    return "unrecognised", None, "only some of the parallel strings have their own resistor"

@@ -1,0 +1,191 @@
+"""What each part is to LED group recognition, and which pins sit on each net.
+
+:class:`CircuitIndex` answers the questions the walks in :mod:`linter.topology_walk` ask
+over and over (which pins are on this net, is this part a transistor, which pin is the
+anode) from dictionaries filled on first use, so that a walk costs time in proportion to
+the parts it visits, never to the size of the board.
+
+Pin names (case-insensitive):
+
+* LED: anode ``A``, ``ANODE``, ``+``; cathode ``K``, ``C``, ``CATHODE``, ``-``. Numbered
+  pins (``1``/``2``) are not read: libraries disagree on which number is the anode, so such
+  an LED is reported as unrecognised rather than guessed.
+* bipolar transistor: ``C``/``B``/``E`` or ``COLLECTOR``/``BASE``/``EMITTER``.
+* MOSFET: ``D``/``G``/``S`` or ``DRAIN``/``GATE``/``SOURCE``; a bulk pin (``B``, ``BULK``,
+  ``SUB``) is ignored (taken as tied to the source, as it is on discrete parts).
+* microcontroller supply: the pins named in the part data's ``supply_pins``, else a pin
+  called ``VDD``, ``VCC`` or ``VDDIO`` (common practice).
+
+Capacitors are open at DC: their pins are left out of every net.
+"""
+
+from __future__ import annotations
+
+from typing import Literal, Mapping
+
+from linter.model import Circuit, Part, Pin
+from linter.partdata import BjtData, McuData, MosfetData, PartData, Rail
+
+__all__ = [
+    "CircuitIndex",
+    "Role",
+    "SERIES_KINDS",
+    "DC_OPEN_KINDS",
+    "LED_ANODE_NAMES",
+    "LED_CATHODE_NAMES",
+]
+
+Role = Literal["series", "transistor", "mcu", "open", "foreign"]
+"""How a walk treats a part: passes through it, stops at it, or ignores it."""
+
+SERIES_KINDS: frozenset[str] = frozenset({"resistor", "link", "led"})
+"""Two-terminal kinds a drive path passes through."""
+
+DC_OPEN_KINDS: frozenset[str] = frozenset({"capacitor"})
+"""Kinds that carry no current at DC; left out of the nets."""
+
+LED_ANODE_NAMES: frozenset[str] = frozenset({"a", "anode", "+"})
+LED_CATHODE_NAMES: frozenset[str] = frozenset({"k", "c", "cathode", "-"})
+
+_BJT_ROLES: dict[str, str] = {"c": "c", "collector": "c", "b": "b", "base": "b",
+                              "e": "e", "emitter": "e"}
+_FET_ROLES: dict[str, str] = {"d": "c", "drain": "c", "g": "b", "gate": "b",
+                              "s": "e", "source": "e"}
+_FET_BULK: frozenset[str] = frozenset({"b", "bulk", "sub", "substrate"})
+_SUPPLY_NAMES: tuple[str, ...] = ("VDD", "VCC", "VDDIO")
+
+Polarity = Literal["npn", "pnp", "nmos", "pmos"]
+
+
+class CircuitIndex:
+    """Cached look-ups over one Circuit, its rails and its part data (by reference).
+
+    Transistor terminals are named by their bipolar role whatever the device: ``c``
+    (collector or drain), ``b`` (base or gate), ``e`` (emitter or source).
+    """
+
+    def __init__(self, circuit: Circuit, rails: Mapping[str, Rail],
+                 part_data: Mapping[str, PartData]) -> None:
+        self.circuit = circuit
+        self.rails = rails
+        self.part_data = part_data
+        self._net_pins: dict[str, tuple[tuple[str, str], ...]] = {}
+        self._roles: dict[str, Role] = {}
+        self._from_parts: dict[str, list[tuple[str, str]]] | None = None
+
+    # -- parts -------------------------------------------------------------------------
+    def part(self, ref: str) -> Part:
+        """The part called ``ref``."""
+        return self.circuit.parts[ref]
+
+    def kind(self, ref: str) -> str:
+        """The part's kind, with a transistor of unknown kind resolved by its part data."""
+        part = self.circuit.parts[ref]
+        if part.kind == "transistor":
+            data = self.part_data.get(ref)
+            if isinstance(data, (BjtData, MosfetData)):
+                return data.polarity
+        if part.kind != "mcu" and isinstance(self.part_data.get(ref), McuData):
+            return "mcu"
+        return part.kind
+
+    def role(self, ref: str) -> Role:
+        """How a walk treats the part (cached)."""
+        found = self._roles.get(ref)
+        if found is None:
+            found = self._role(ref)
+            self._roles[ref] = found
+        return found
+
+    def _role(self, ref: str) -> Role:
+        kind = self.kind(ref)
+        if kind in DC_OPEN_KINDS:
+            return "open"
+        if kind in SERIES_KINDS and len(self.circuit.parts[ref].pins) == 2:
+            return "series"
+        if kind in ("npn", "pnp", "nmos", "pmos"):
+            return "transistor"
+        if kind == "mcu":
+            return "mcu"
+        return "foreign"
+
+    # -- nets --------------------------------------------------------------------------
+    def pins_on(self, net: str) -> tuple[tuple[str, str], ...]:
+        """(reference, pin name) pairs on ``net``, capacitors left out (cached)."""
+        found = self._net_pins.get(net)
+        if found is None:
+            declared = self.circuit.nets.get(net)
+            raw = declared.pins if declared is not None else self._pins_from_parts(net)
+            found = tuple(pair for pair in raw
+                          if pair[0] in self.circuit.parts and self.role(pair[0]) != "open")
+            self._net_pins[net] = found
+        return found
+
+    def _pins_from_parts(self, net: str) -> tuple[tuple[str, str], ...]:
+        """Fallback for a net a pin names but the Circuit does not list (built once)."""
+        if self._from_parts is None:
+            table: dict[str, list[tuple[str, str]]] = {}
+            for ref, part in self.circuit.parts.items():
+                for pin in part.pins:
+                    if pin.net is not None:
+                        table.setdefault(pin.net, []).append((ref, pin.name))
+            self._from_parts = table
+        return tuple(self._from_parts.get(net, ()))
+
+    def rail(self, net: str | None) -> Rail | None:
+        """The rail on ``net``, or None."""
+        return None if net is None else self.rails.get(net)
+
+    def is_series_node(self, net: str) -> bool:
+        """True for a net that only joins two pins of two two-terminal parts."""
+        if net in self.rails:
+            return False
+        pins = self.pins_on(net)
+        return len(pins) == 2 and all(self.role(ref) == "series" for ref, _ in pins)
+
+    # -- pins --------------------------------------------------------------------------
+    def other_pin(self, ref: str, pin_name: str) -> Pin:
+        """The pin of two-terminal part ``ref`` that is not ``pin_name``."""
+        first, second = self.circuit.parts[ref].pins
+        return second if first.name == pin_name else first
+
+    def led_pins(self, ref: str) -> tuple[Pin, Pin] | None:
+        """(anode, cathode) of an LED, or None when its pin names do not say."""
+        part = self.circuit.parts[ref]
+        anodes = [pin for pin in part.pins if pin.name.casefold() in LED_ANODE_NAMES]
+        cathodes = [pin for pin in part.pins if pin.name.casefold() in LED_CATHODE_NAMES]
+        if len(part.pins) != 2 or len(anodes) != 1 or len(cathodes) != 1:
+            return None
+        return anodes[0], cathodes[0]
+
+    def transistor_pins(self, ref: str) -> dict[str, Pin] | None:
+        """``{"c": …, "b": …, "e": …}`` (drain, gate, source for a MOSFET), or None."""
+        kind = self.kind(ref)
+        names = _BJT_ROLES if kind in ("npn", "pnp") else _FET_ROLES
+        found: dict[str, Pin] = {}
+        for pin in self.circuit.parts[ref].pins:
+            key = pin.name.casefold()
+            if kind in ("nmos", "pmos") and key in _FET_BULK:
+                continue
+            role = names.get(key)
+            if role is None or role in found:
+                return None
+            found[role] = pin
+        return found if len(found) == 3 else None
+
+    def polarity(self, ref: str) -> Polarity | None:
+        """``npn``, ``pnp``, ``nmos`` or ``pmos``; None for a transistor of unknown polarity."""
+        kind = self.kind(ref)
+        return kind if kind in ("npn", "pnp", "nmos", "pmos") else None  # type: ignore[return-value]
+
+    def supply_net(self, ref: str) -> str | None:
+        """The net of a microcontroller's supply pin, when its data or a VDD/VCC name says."""
+        data = self.part_data.get(ref)
+        wanted = data.supply_pins if isinstance(data, McuData) and data.supply_pins \
+            else _SUPPLY_NAMES
+        part = self.circuit.parts[ref]
+        for name in wanted:
+            pin = part.pin(name)
+            if pin is not None and pin.net is not None:
+                return pin.net
+        return None

@@ -1,0 +1,297 @@
+"""Walks from an LED: series chains, the cluster of chains around it, a transistor's drive.
+
+* :func:`walk_chain` follows series nodes (a net joining exactly two pins of two-terminal
+  parts, not a rail) both ways from one part: the result is a :class:`Chain` from end net to
+  end net.
+* :func:`grow_cluster` gathers every chain and transistor that meets the LED's chain at a
+  net that is neither a rail nor a microcontroller pin: LEDs in parallel, the resistor they
+  share, the transistor below them and its emitter resistor. Rails and pins are the edge.
+* :func:`walk_control` follows a transistor's base or gate through resistors, links and
+  diodes to rails and pins: the divider, the gate resistor and pull-down, the reference.
+
+Each walk is iterative and visits each part once; none looks beyond the parts it reaches.
+"""
+
+from __future__ import annotations
+
+from collections import deque
+from dataclasses import dataclass, field
+
+from linter.groups import PinDrive
+from linter.model import Pin
+from linter.topology_index import CircuitIndex
+
+__all__ = ["Chain", "Cluster", "Control", "walk_chain", "grow_cluster", "walk_control",
+           "MAX_GROUP_PARTS", "MAX_CONTROL_PARTS"]
+
+MAX_GROUP_PARTS = 256
+"""A cluster larger than this is reported as unrecognised rather than walked further."""
+
+MAX_CONTROL_PARTS = 16
+"""A base or gate network larger than this is reported as unrecognised."""
+
+_TERMINAL_WORDS = {"b": "base", "c": "collector", "e": "emitter"}
+_FET_WORDS = {"b": "gate", "c": "drain", "e": "source"}
+
+
+@dataclass(frozen=True)
+class Chain:
+    """Two-terminal parts in series: ``parts[i]`` joins ``nets[i]`` and ``nets[i + 1]``."""
+
+    parts: tuple[str, ...]
+    nets: tuple[str | None, ...]
+
+
+@dataclass
+class Cluster:
+    """What :func:`grow_cluster` found around one LED (mutable while it grows)."""
+
+    chains: list[Chain] = field(default_factory=list)
+    transistors: list[str] = field(default_factory=list)
+    nets: set[str] = field(default_factory=set)
+    pins: list[PinDrive] = field(default_factory=list)
+    problems: list[str] = field(default_factory=list)
+    seen: set[str] = field(default_factory=set)
+
+
+@dataclass
+class Control:
+    """A transistor's base or gate network and how it drives the transistor."""
+
+    parts: list[str] = field(default_factory=list)
+    nets: list[str] = field(default_factory=list)
+    rails: list[str] = field(default_factory=list)
+    pins: list[PinDrive] = field(default_factory=list)
+    drive: str | None = None
+    problems: list[str] = field(default_factory=list)
+    notes: list[str] = field(default_factory=list)
+
+
+def terminal_word(index: CircuitIndex, ref: str, role: str) -> str:
+    """``base`` / ``gate`` (and so on) for a transistor terminal role ``b``, ``c``, ``e``."""
+    words = _FET_WORDS if index.polarity(ref) in ("nmos", "pmos") else _TERMINAL_WORDS
+    return words[role]
+
+
+def _extend(index: CircuitIndex, ref: str, pin: Pin, seen: set[str]) -> tuple[list[str], list]:
+    """Parts and nets beyond ``ref``'s ``pin`` while the nets are series nodes."""
+    parts: list[str] = []
+    nets: list[str | None] = []
+    while True:
+        net = pin.net
+        nets.append(net)
+        if net is None or not index.is_series_node(net):
+            return parts, nets
+        (ref_a, pin_a), (ref_b, pin_b) = index.pins_on(net)
+        following, following_pin = (ref_b, pin_b) if (ref_a, pin_a) == (ref, pin.name) \
+            else (ref_a, pin_a)
+        if following in seen:
+            return parts, nets
+        seen.add(following)
+        parts.append(following)
+        ref, pin = following, index.other_pin(following, following_pin)
+
+
+def walk_chain(index: CircuitIndex, start: str) -> Chain:
+    """The series chain through two-terminal part ``start``.
+
+    For R1 from ``+5V`` to ``A1`` and D1 from ``A1`` to ``GND``, the chain through either part
+    is ``Chain(parts=("R1", "D1"), nets=("+5V", "A1", "GND"))`` (or its reverse, depending on
+    the pin order of ``start``).
+    """
+    first, second = index.part(start).pins
+    seen = {start}
+    ahead_parts, ahead_nets = _extend(index, start, second, seen)
+    back_parts, back_nets = _extend(index, start, first, seen)
+    parts = tuple(reversed(back_parts)) + (start,) + tuple(ahead_parts)
+    nets = tuple(reversed(back_nets)) + tuple(ahead_nets)
+    return Chain(parts, nets)
+
+
+def _mcu_pins(index: CircuitIndex, net: str) -> list[PinDrive]:
+    """Microcontroller pins on ``net``."""
+    return [PinDrive(ref, pin, net, index.supply_net(ref))
+            for ref, pin in index.pins_on(net) if index.role(ref) == "mcu"]
+
+
+def _visit_net(index: CircuitIndex, cluster: Cluster, net: str, queue: deque) -> None:
+    """Take in what meets the cluster at a net that is neither a rail nor a pin."""
+    pins = index.pins_on(net)
+    if len(pins) == 1:
+        cluster.problems.append(_dead_end_message(index, net, *pins[0]))
+        return
+    for ref, pin_name in pins:
+        if ref in cluster.seen:
+            continue
+        role = index.role(ref)
+        if role == "series":
+            _add_chain(index, cluster, walk_chain(index, ref), queue)
+        elif role == "transistor":
+            _add_transistor(index, cluster, ref, pin_name, net, queue)
+        else:
+            cluster.problems.append(_foreign_message(index, net, ref, pin_name))
+
+
+def _foreign_message(index: CircuitIndex, net: str, ref: str, pin_name: str) -> str:
+    kind = index.kind(ref)
+    if kind == "transistor":
+        return (f"{ref}: transistor of unknown polarity on net {net} (give its part data: "
+                f"npn, pnp, nmos or pmos)")
+    if kind in ("source", "connector", "ic"):
+        return (f"rail of net {net} has no known voltage (it reaches {ref}.{pin_name}, "
+                f"a {kind}; give the rail a voltage)")
+    return f"net {net} reaches {ref} ({kind}), which is not modelled in a drive path"
+
+
+def _dead_end_message(index: CircuitIndex, net: str, ref: str, pin_name: str) -> str:
+    """``D9: cathode net LED_K has no path to a rail or sink``."""
+    side = f"net {net} (pin {pin_name})"
+    if index.kind(ref) == "led":
+        ends = index.led_pins(ref)
+        if ends is not None:
+            side = f"{'anode' if ends[0].name == pin_name else 'cathode'} net {net}"
+    return f"{ref}: {side} has no path to a rail or sink"
+
+
+def _add_chain(index: CircuitIndex, cluster: Cluster, chain: Chain, queue: deque) -> None:
+    cluster.chains.append(chain)
+    cluster.seen.update(chain.parts)
+    for net, ref in ((chain.nets[0], chain.parts[0]), (chain.nets[-1], chain.parts[-1])):
+        if net is not None:
+            queue.append(net)
+            continue
+        for pin in index.part(ref).pins:
+            if pin.net is None:
+                message = f"{ref}: pin {pin.name} is not connected"
+                if message not in cluster.problems:
+                    cluster.problems.append(message)
+
+
+def _add_transistor(index: CircuitIndex, cluster: Cluster, ref: str, pin_name: str,
+                    net: str, queue: deque) -> None:
+    cluster.seen.add(ref)
+    cluster.transistors.append(ref)
+    terminals = index.transistor_pins(ref)
+    if terminals is None:
+        names = ", ".join(pin.name for pin in index.part(ref).pins)
+        cluster.problems.append(f"{ref}: pin names {names} do not say which terminal is which")
+        return
+    if terminals["b"].name == pin_name:
+        word = terminal_word(index, ref, "b")
+        cluster.problems.append(f"{ref}: its {word} sits on net {net} in the LED path "
+                                f"(feedback is not recognised)")
+    for role in ("c", "e"):
+        if terminals[role].net is None:
+            cluster.problems.append(f"{ref}: {terminal_word(index, ref, role)} is not connected")
+        else:
+            queue.append(terminals[role].net)
+
+
+def grow_cluster(index: CircuitIndex, led: str, limit: int = MAX_GROUP_PARTS) -> Cluster:
+    """Every chain and transistor joined to ``led``'s chain away from rails and pins."""
+    cluster = Cluster()
+    queue: deque[str] = deque()
+    _add_chain(index, cluster, walk_chain(index, led), queue)
+    visited: set[str] = set()
+    while queue:
+        net = queue.popleft()
+        if net in visited:
+            continue
+        visited.add(net)
+        cluster.nets.add(net)
+        if net in index.rails:
+            continue
+        pins = _mcu_pins(index, net)
+        if pins:
+            cluster.pins.extend(pins)
+            continue
+        _visit_net(index, cluster, net, queue)
+        if len(cluster.seen) > limit:
+            cluster.problems.append(f"the network around {led} has more than {limit} parts")
+            break
+    for chain in cluster.chains:
+        cluster.nets.update(net for net in chain.nets if net is not None)
+    return cluster
+
+
+def walk_control(index: CircuitIndex, transistor: str, net: str | None,
+                 path_nets: set[str]) -> Control:
+    """The base or gate network of ``transistor``, from its control net ``net``."""
+    control = Control()
+    word = terminal_word(index, transistor, "b")
+    if net is None:
+        control.problems.append(f"{transistor}: {word} is not connected")
+        return control
+    queue: deque[str] = deque([net])
+    visited = {net}
+    while queue:
+        here = queue.popleft()
+        control.nets.append(here)
+        if here in index.rails:
+            control.rails.append(here)
+            continue
+        if here in path_nets:
+            control.problems.append(f"{transistor}: {word} network reaches net {here} of the "
+                                    f"LED path (feedback is not recognised)")
+            continue
+        pins = _mcu_pins(index, here)
+        if pins:
+            control.pins.extend(pins)
+            continue
+        for following in _control_step(index, control, transistor, here):
+            if following not in visited:
+                visited.add(following)
+                queue.append(following)
+        if len(control.parts) > MAX_CONTROL_PARTS:
+            control.problems.append(f"{transistor}: {word} network has more than "
+                                    f"{MAX_CONTROL_PARTS} parts")
+            break
+    control.drive = _drive_kind(index, control, transistor, word)
+    return control
+
+
+def _control_step(index: CircuitIndex, control: Control, transistor: str, net: str) -> list[str]:
+    """Parts on one net of a control network; returns the nets beyond them."""
+    beyond: list[str] = []
+    pins = index.pins_on(net)
+    if len(pins) == 1:
+        control.problems.append(f"{transistor}: net {net} has no path to a rail or pin")
+    for ref, pin_name in pins:
+        if ref == transistor or ref in control.parts:
+            continue
+        kind = index.kind(ref)
+        role = index.role(ref)
+        two_pins = len(index.part(ref).pins) == 2
+        if kind in ("resistor", "link", "diode") and two_pins:
+            control.parts.append(ref)
+            other = index.other_pin(ref, pin_name).net
+            if other is None:
+                control.problems.append(f"{ref}: pin is not connected")
+            else:
+                beyond.append(other)
+        elif role == "transistor" and _is_control_pin(index, ref, pin_name):
+            control.notes.append(f"{transistor} shares its bias with {ref}")
+        else:
+            control.problems.append(f"{transistor}: {terminal_word(index, transistor, 'b')} "
+                                    f"network reaches {ref} ({kind}), which is not recognised")
+    return beyond
+
+
+def _is_control_pin(index: CircuitIndex, ref: str, pin_name: str) -> bool:
+    terminals = index.transistor_pins(ref)
+    return terminals is not None and terminals["b"].name == pin_name
+
+
+def _drive_kind(index: CircuitIndex, control: Control, transistor: str, word: str) -> str | None:
+    """``pin``, ``reference``, ``divider`` or ``rail``; None (and a problem) when undriven."""
+    if control.pins:
+        return "pin"
+    if any(index.kind(ref) == "diode" for ref in control.parts):
+        return "reference"
+    if len(set(control.rails)) >= 2:
+        return "divider"
+    if control.rails:
+        return "rail"
+    control.problems.append(f"{transistor}: {word} (net {control.nets[0]}) is driven by "
+                            f"no rail or pin")
+    return None
