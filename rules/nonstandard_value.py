@@ -1,0 +1,97 @@
+"""Rule ``nonstandard-value``: a resistor value outside the E-series made at its tolerance."""
+
+from __future__ import annotations
+
+from typing import Any, Iterable
+
+from linter import eseries
+from linter.findings import Finding
+from linter.model import Part
+from linter.partdata import ResistorData
+from linter.rules import Rule, register
+from linter.units import format_si
+
+DEFAULT_TOLERANCE = 0.05
+"""Resistor tolerance (fraction) taken when neither BOM nor part data gives one (DESIGN)."""
+
+
+@register
+class NonstandardValue(Rule):
+    """A resistor value that is not in the E-series made at its tolerance.
+
+    IEC 60063 pairs each preferred-number series with a tolerance: E6 with 20 %, E12 with
+    10 %, E24 with 5 %, E48 with 2 %, E96 with 1 %, E192 with 0.5 % and tighter. Precision
+    ranges stock the E24 values as well (common practice), so at 2 % and tighter an E24 value
+    is standard too. A value outside its series is hard to buy, is often a typing slip
+    (``1k05`` for ``1k5``), or was computed and never rounded; the current it sets may then
+    not be the current the parts on the board will set. The value is taken from the part
+    data (BOM) where known, else from the netlist; the tolerance from the part data, else 5 %.
+
+    **Anti-pattern**
+
+    ``R7 led1 n7 1.05k`` with a 5 % part: 1.05 kΩ is no E24 value.
+
+    **Best practice**
+
+    ``R7 led1 n7 1k`` (or ``1.1k``), recomputing the LED current with the value you can buy;
+    or a 1 % part if the exact value matters (1.05 kΩ is an E96 value).
+    """
+
+    id = "nonstandard-value"
+    default_severity = "info"
+
+    def check(self, context: Any) -> Iterable[Finding]:
+        severity = context.severity(self)
+        for part in context.circuit.parts.values():
+            if part.kind != "resistor":
+                continue
+            finding = _check_resistor(part, context.part_data.get(part.ref), self.id, severity)
+            if finding is not None:
+                yield finding
+
+
+def _ohms_and_tolerance(part: Part, data: Any) -> tuple[float | None, float, bool]:
+    """(value in Ω, tolerance fraction, whether the tolerance was assumed)."""
+    record = data if isinstance(data, ResistorData) else None
+    ohms = record.ohms if record is not None and record.ohms is not None else part.value_si
+    if record is None or record.tolerance is None:
+        return ohms, DEFAULT_TOLERANCE, True
+    return ohms, record.tolerance, "tolerance" in record.assumed
+
+
+def _percent(fraction: float) -> str:
+    return f"{fraction * 100:g} %"
+
+
+def _tighter_home(ohms: float, series: str) -> str | None:
+    """``"buy 1.05 kΩ at 1 % (E96)"`` when a tighter series holds the value, else None."""
+    for tighter in eseries.SERIES_NAMES[eseries.SERIES_NAMES.index(series) + 1:]:
+        if eseries.is_standard(ohms, tighter):
+            tolerance = _percent(eseries.series_tolerance(tighter))
+            return f"buy {format_si(ohms, 'Ω')} at {tolerance} ({tighter})"
+    return None
+
+
+def _check_resistor(part: Part, data: Any, rule: str, severity: str) -> Finding | None:
+    """The finding for one resistor, or None when its value is standard or unknown."""
+    ohms, tolerance, assumed = _ohms_and_tolerance(part, data)
+    if ohms is None or ohms <= 0 or tolerance <= 0:
+        return None  # a link, or a value nobody knows: other rules report those
+    accepted = eseries.accepted_series(tolerance)
+    if any(eseries.is_standard(ohms, series) for series in accepted):
+        return None
+    own = accepted[0]
+    low, high = eseries.neighbours(ohms, own)
+    names = " or ".join(accepted)
+    stated = f"{_percent(tolerance)} tolerance{', assumed' if assumed else ''}"
+    pair = f"{format_si(low, 'Ω')} or {format_si(high, 'Ω')}"
+    message = (f"{part.ref}: {format_si(ohms, 'Ω', digits=6)} is not an {names} value ({stated}); "
+               f"nearest {own}: {pair}")
+    fix = f"use {pair} ({own}) and recheck the current it sets"
+    elsewhere = _tighter_home(ohms, own)
+    if elsewhere is not None:
+        fix += f", or {elsewhere}"
+    values = {"ohms": ohms, "tolerance": tolerance, "nearest_below_ohms": low,
+              "nearest_above_ohms": high}
+    return Finding(rule=rule, severity=severity, message=message, parts=(part.ref,),
+                   values=values, fix=fix, location=part.location)
