@@ -193,7 +193,8 @@ def sink_design(v_rail_min: float, vf_string_max: float, i_target: float, v_ref_
     v_e = _emitter_target(v_ref_source, v_rail_min - vf_string_max - vce_sat, vbe)
     if v_ref_source * (1 - reference_tolerance) <= vbe + v_e:
         return None
-    r_total_max = v_ref_source * float(npn.hfe_min) / (DIVIDER_TO_BASE_CURRENT * i_target)  # type: ignore[arg-type]
+    hfe_min = float(npn.hfe_min)  # type: ignore[arg-type]
+    r_total_max = v_ref_source * hfe_min / (DIVIDER_TO_BASE_CURRENT * i_target)
     divider = _choose_divider(v_ref_source, v_e + vbe, r_total_max)
     if divider is None:
         return None
@@ -219,7 +220,8 @@ def _evaluate(npn: BjtData, assumed: tuple[str, ...], v_ref: float, reference_na
     i_min, _ = _corner(v_ref * (1 - ref_tol), top * (1 + r_tol), bottom * (1 - r_tol),
                        r_e * (1 + r_tol), vbe + VBE_SPREAD_V, hfe_min)
     v_th, r_th = _thevenin(v_ref, top, bottom)
-    power = max(max(0.0, v_rail_max - vf_min - ve) * i for i, ve in ((i_nom, v_e), (i_max, v_e_max)))
+    power = max(max(0.0, v_rail_max - vf_min - ve) * i
+                for i, ve in ((i_nom, v_e), (i_max, v_e_max)))
     rail_min = rail_for_sink(vf_max, v_e_max, vce_sat)
     return SinkDesign(
         reference_name=reference_name, v_reference=v_ref, r_top=top, r_bottom=bottom,
