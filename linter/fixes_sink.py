@@ -146,6 +146,8 @@ def _thevenin(v_reference: float, top: float, bottom: float) -> tuple[float, flo
 def _figures(transistor: BjtData | None) -> tuple[BjtData, tuple[str, ...]]:
     """The transistor's figures, generic ones filling the gaps; and the names filled."""
     given = transistor or GENERIC_NPN
+    if given.polarity != "npn":
+        raise ValueError(f"a sink below the LEDs needs an NPN, got a {given.polarity}")
     filled = {name: getattr(GENERIC_NPN, name) for name in ("hfe_min", "hfe_typ", "vbe", "vce_sat")
               if getattr(given, name) is None}
     assumed = tuple(sorted(set(given.assumed) | set(filled))) if transistor else GENERIC_NPN.assumed

@@ -248,3 +248,8 @@ def test_sink_dissipation_at_rail_max():
 
 def test_sink_refused_when_reference_cannot_bias():
     assert sink_design(11.4, 8.0, 0.020, 1.0) is None
+
+
+def test_sink_needs_an_npn():
+    with pytest.raises(ValueError, match="needs an NPN"):
+        sink_design(11.4, 8.0, 0.020, 5.0, transistor=BjtData(polarity="pnp"))
