@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from pathlib import Path
 from typing import Any, Mapping
 
 import pytest
@@ -105,14 +106,27 @@ def test_severity_follows_settings():
     assert finding.severity == "warning"
 
 
-def test_through_the_engine(tmp_path):
+FIXTURES = Path(__file__).resolve().parent.parent / "fixtures" / "rules" / "nonstandard-value"
+
+
+def test_fixtures_through_the_spice_reader():
+    from linter.readers import read_netlist
+
+    fires = read_netlist(FIXTURES / "fires.cir", source="fires.cir")
+    # IEC 60063 E24: 1.05 kΩ is not a value; 4.7 kΩ and 91 Ω are.
+    (finding,) = _findings(StandInContext(fires))
+    assert finding.parts == ("RLIM",) and finding.location.line == 3
+    clean = read_netlist(FIXTURES / "clean.cir", source="clean.cir")
+    assert _findings(StandInContext(clean)) == []
+
+
+def test_fixtures_through_the_engine():
     engine = pytest.importorskip("linter.engine")
     if not hasattr(engine, "AnalysisContext"):
         pytest.skip("engine has no AnalysisContext yet")
-    deck = tmp_path / "board.cir"
-    deck.write_text("* two resistors\nV1 vcc 0 5\nR1 vcc n1 1.05k\nR2 n1 0 4.7k\n.end\n",
-                    encoding="utf-8")
-    result = engine.run_check(engine.CheckRequest(netlist=deck))
-    found = [f for f in result.findings if f.rule == "nonstandard-value"]
-    assert [f.parts for f in found] == [("R1",)]
-    assert found[0].location.line == 3
+    fires = engine.run_check(engine.CheckRequest(netlist=FIXTURES / "fires.cir"))
+    found = [f for f in fires.findings if f.rule == "nonstandard-value"]
+    assert [f.parts for f in found] == [("RLIM",)]
+    assert found[0].severity == "info" and found[0].location.line == 3
+    clean = engine.run_check(engine.CheckRequest(netlist=FIXTURES / "clean.cir"))
+    assert [f for f in clean.findings if f.rule == "nonstandard-value"] == []
