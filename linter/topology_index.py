@@ -10,7 +10,8 @@ Pin names (case-insensitive):
 * LED: anode ``A``, ``ANODE``, ``+``; cathode ``K``, ``C``, ``CATHODE``, ``-``. Numbered
   pins (``1``/``2``) are not read: libraries disagree on which number is the anode, so such
   an LED is reported as unrecognised rather than guessed.
-* bipolar transistor: ``C``/``B``/``E`` or ``COLLECTOR``/``BASE``/``EMITTER``.
+* bipolar transistor: ``C``/``B``/``E`` or ``COLLECTOR``/``BASE``/``EMITTER``; a substrate
+  pin (``S``, ``SUB``, as SPICE's optional fourth node) is ignored.
 * MOSFET: ``D``/``G``/``S`` or ``DRAIN``/``GATE``/``SOURCE``; a bulk pin (``B``, ``BULK``,
   ``SUB``) is ignored (taken as tied to the source, as it is on discrete parts).
 * microcontroller supply: the pins named in the part data's ``supply_pins``, else a pin
@@ -52,6 +53,7 @@ _BJT_ROLES: dict[str, str] = {"c": "c", "collector": "c", "b": "b", "base": "b",
 _FET_ROLES: dict[str, str] = {"d": "c", "drain": "c", "g": "b", "gate": "b",
                               "s": "e", "source": "e"}
 _FET_BULK: frozenset[str] = frozenset({"b", "bulk", "sub", "substrate"})
+_BJT_SUBSTRATE: frozenset[str] = frozenset({"s", "sub", "substrate"})
 _SUPPLY_NAMES: tuple[str, ...] = ("VDD", "VCC", "VDDIO")
 
 Polarity = Literal["npn", "pnp", "nmos", "pmos"]
@@ -165,7 +167,8 @@ class CircuitIndex:
         found: dict[str, Pin] = {}
         for pin in self.circuit.parts[ref].pins:
             key = pin.name.casefold()
-            if kind in ("nmos", "pmos") and key in _FET_BULK:
+            ignored = _FET_BULK if kind in ("nmos", "pmos") else _BJT_SUBSTRATE
+            if key in ignored:
                 continue
             role = names.get(key)
             if role is None or role in found:

@@ -8,6 +8,7 @@ scenarios) follows from that drawing by the circuit's shape as an engineer names
 from __future__ import annotations
 
 import random
+from pathlib import Path
 
 import pytest
 from hypothesis import given, settings
@@ -221,9 +222,10 @@ def test_low_side_nmos_switch_with_gate_network():
 
 
 def test_saturated_npn_switch():
-    # No emitter resistor: the NPN is a switch and R1 sets the current.
-    group = only(build(MCU, "R1 resistor 1:+12V 2:A", "D1 led A:A K:K", "Q3 npn C:K B:B E:GND",
-                       "R2 resistor 1:P0 2:B"))
+    # No emitter resistor: the NPN is a switch and R1 sets the current. S is SPICE's
+    # optional substrate node, ignored.
+    group = only(build(MCU, "R1 resistor 1:+12V 2:A", "D1 led A:A K:K",
+                       "Q3 npn C:K B:B E:GND S:GND", "R2 resistor 1:P0 2:B"))
     assert (group.topology, group.setter) == ("low-side-switch", "R1")
 
 
@@ -364,3 +366,63 @@ def test_every_led_in_exactly_one_group(circuit):
         if group.topology == "unrecognised":
             assert group.reason
         assert group.id == "G-" + min(group.leds, key=natural_key)
+
+
+# -- the demo board ------------------------------------------------------------------------
+
+DEMO_EDIF = Path(__file__).parent.parent / "fixtures" / "demo" / "dust_extractor_panel.edif"
+
+# Rails and parts from fixtures/demo/BOARD.md; U1 is a microcontroller by its part data.
+DEMO_RAILS = {"+12V": Rail("+12V", 12.0, 10.8, 13.2), "+5V": Rail("+5V", 5.0, 4.75, 5.25),
+              "GND": Rail("GND", 0.0, 0.0, 0.0)}
+DEMO_PART_DATA = {"U1": McuData(supply_pins=("VDD",))}
+
+# (first LED, topology, setter, strings, pin levels per scenario) from BOARD.md's table and
+# its notes. D7-D10 share R6 behind the low-side switch Q2: labelled "parallel" (sharing is
+# what the rules must see), with Q2 as the group's transistor.
+DEMO_EXPECTED = [
+    ("D1", "pin-source", "R1", (("D1",),), [{"U1.PA0": "high"}]),
+    ("D2", "pin-source", "R2", (("D2",),), [{"U1.PA1": "high"}]),
+    ("D3", "pin-source", "R3", (("D3",),), [{"U1.PA2": "high"}]),
+    ("D4", "pin-sink", "R4", (("D4",),), [{"U1.PA3": "low"}]),
+    ("D5", "pin-bicolour", "R5", (("D5",), ("D6",)),
+     [{"U1.PA4": "high", "U1.PA5": "low"}, {"U1.PA5": "high", "U1.PA4": "low"}]),
+    ("D7", "parallel", "R6", (("D7",), ("D8",), ("D9",), ("D10",)), [{"U1.PA6": "high"}]),
+    ("D11", "npn-sink", "Q1", (("D11", "D12", "D13", "D14"),), [{}]),
+    ("D15", "resistor", "R12", (("D15",),), [{}]),
+    ("D16", "string", "R13", (("D16", "D17", "D18"),), [{}]),
+]
+
+
+@pytest.fixture(scope="module")
+def demo_groups():
+    """Read once: the groups are not modified by the tests."""
+    from linter.readers import read_netlist
+
+    circuit = read_netlist(DEMO_EDIF)
+    return circuit, find_groups(circuit, DEMO_RAILS, DEMO_PART_DATA)
+
+
+def test_demo_board_groups(demo_groups):
+    _, groups = demo_groups
+    found = [(g.id[2:], g.topology, g.setter, g.strings, [dict(s.levels) for s in g.scenarios])
+             for g in groups]
+    assert found == DEMO_EXPECTED
+
+
+def test_demo_board_group_contents(demo_groups):
+    circuit, groups = demo_groups
+    by_id = {g.id: g for g in groups}
+    # D19 is a plain diode (BOARD.md): no group holds it.
+    assert all("D19" not in g.parts for g in groups)
+    assert sorted(led for g in groups for led in g.leds) == sorted(p.ref for p in circuit.leds())
+    bar = by_id["G-D7"]
+    assert (bar.transistor, bar.drive) == ("Q2", "pin")
+    assert set(bar.parts) == {"R6", "D7", "D8", "D9", "D10", "Q2", "R7", "R8", "U1"}
+    assert set(bar.nets) >= {"+5V", "BAR_A", "BAR_K", "BAR_G", "BAR_EN", "GND"}
+    bag = by_id["G-D11"]
+    assert (bag.transistor, bag.drive) == ("Q1", "divider")
+    assert set(bag.parts) == {"D11", "D12", "D13", "D14", "Q1", "R9", "R10", "R11"}
+    assert set(bag.rails) == {"+12V", "+5V", "GND"}
+    bicolour = by_id["G-D5"]
+    assert [scenario.lit for scenario in bicolour.scenarios] == [("D5",), ("D6",)]
