@@ -1,0 +1,158 @@
+"""Flattened SPICE elements to parts and nets: references, kinds, values, notes.
+
+References: a part is named by its leaf name while that leaf is unique in the design (compared
+without regard to case); otherwise by its path ``X2/R3``. The leaf name is the element name,
+except where SPICE forced a letter in front of a board designator (:func:`leaf_name`): an
+``X`` instance kept whole loses its ``X`` when a letter follows (``XU1`` → ``U1``, ``X1``
+stays ``X1``), a MOSFET ``MQ2`` is ``Q2``. The SPICE name is then kept in
+``properties["spice_name"]``.
+
+Kinds come from the element letter, refined by the model and the words it carries:
+R is a resistor (a ``link`` at 0 Ω), C a capacitor, L an inductor, Q ``npn``/``pnp`` and M
+``nmos``/``pmos`` by their model type, J a ``transistor``, V and I ``source``, E F G H B
+``other``. A D element is an ``led`` when :func:`linter.kinds.infer_kind` finds LED or colour
+words in its name or model, or when its ``.model`` puts the forward voltage at
+:data:`LED_TEST_CURRENT` above :data:`LED_MIN_FORWARD_VOLTAGE` (a silicon junction is well
+below it); else a ``diode``. An ``X`` part gets :func:`~linter.kinds.infer_kind` of its
+reference and subcircuit name.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from collections import Counter
+
+from linter.kinds import infer_kind
+from linter.model import Circuit, DeviceModel, Net, Part, Pin, ReaderNote
+from linter.readers.spice_flatten import FlatElement, Flattened
+from linter.readers.spice_traps import scale_trap_note
+
+__all__ = ["assemble", "leaf_name", "forward_voltage", "LED_TEST_CURRENT", "LED_MIN_FORWARD_VOLTAGE"]
+
+LED_TEST_CURRENT = 10e-3
+"""A, the current at which a diode model's forward voltage is judged."""
+
+LED_MIN_FORWARD_VOLTAGE = 1.5
+"""V; from memory: silicon junctions conduct at 0.6–1.0 V, visible LEDs from about 1.7 V (red)."""
+
+_BOLTZMANN = 1.380649e-23
+"""J/K, exact (SI 2019 defining constant)."""
+_ELEMENTARY_CHARGE = 1.602176634e-19
+"""C, exact (SI 2019 defining constant)."""
+_SPICE_NOMINAL_KELVIN = 300.15
+"""K, 27 °C: the nominal temperature SPICE models are written for (ngspice TNOM default)."""
+
+_LETTER_KINDS = {"R": "resistor", "C": "capacitor", "L": "inductor", "J": "transistor",
+                 "V": "source", "I": "source", "E": "other", "F": "other", "G": "other",
+                 "H": "other", "B": "other"}
+_MODEL_KINDS = {"NPN": "npn", "PNP": "pnp", "NMOS": "nmos", "PMOS": "pmos"}
+
+
+_EXPORTER_PREFIXED = {"M": re.compile(r"[QqTt]\d"), "J": re.compile(r"[QqTt]\d"),
+                      "D": re.compile(r"(?i:led)\d")}
+"""Board designators that SPICE cannot use as element names for these letters, so netlist
+exporters put the element letter in front (common practice): ``MQ2`` is the MOSFET Q2."""
+
+
+def leaf_name(element: FlatElement) -> str:
+    """The name an engineer sees: the element name without a letter SPICE forced in front.
+
+    An ``X`` instance loses its ``X`` when a letter follows (``XU1`` → ``U1``, ``X1`` stays);
+    a MOSFET or JFET named ``MQ2``/``JT1`` is ``Q2``/``T1``; a diode ``DLED3`` is ``LED3``.
+    """
+    name, letter = element.name, element.letter
+    if letter == "X" and len(name) > 1 and name[1].isalpha():
+        return name[1:]
+    prefixed = _EXPORTER_PREFIXED.get(letter)
+    if prefixed is not None and prefixed.match(name, 1):
+        return name[1:]
+    return name
+
+
+def forward_voltage(model: DeviceModel, current: float) -> float:
+    """Forward voltage of a SPICE diode model at ``current`` (A), at 27 °C, in V.
+
+    Shockley with series resistance: V = N·Vt·ln(I/IS + 1) + I·RS, Vt = k·T/q, using the
+    SPICE defaults IS = 1e-14 A, N = 1, RS = 0 Ω for missing parameters.
+
+    >>> round(forward_voltage(DeviceModel("d", "D", {"IS": 1e-14}), 1e-3), 3)
+    0.655
+    """
+    saturation = model.params.get("IS", 1e-14)
+    emission = model.params.get("N", 1.0)
+    series = model.params.get("RS", 0.0)
+    thermal = _BOLTZMANN * _SPICE_NOMINAL_KELVIN / _ELEMENTARY_CHARGE
+    return emission * thermal * math.log(current / saturation + 1.0) + current * series
+
+
+def _kind(element: FlatElement, ref: str) -> str:
+    letter = element.letter
+    if letter == "R" and element.value_si == 0:
+        return "link"
+    if letter in _LETTER_KINDS:
+        return _LETTER_KINDS[letter]
+    model_name = element.model.name if element.model is not None else None
+    if letter == "X":
+        return infer_kind(ref, None, element.subcircuit, cell=element.subcircuit)
+    if letter in "QM":
+        model_type = element.model.type if element.model is not None else ""
+        return _MODEL_KINDS.get(model_type, "transistor")
+    if infer_kind(element.name, model_name, model_name) == "led":
+        return "led"
+    model = element.model
+    if model is not None and model.type == "D" and model.params.get("IS", 1e-14) > 0:
+        if forward_voltage(model, LED_TEST_CURRENT) > LED_MIN_FORWARD_VOLTAGE:
+            return "led"
+    return "diode"
+
+
+def _references(elements: list[FlatElement]) -> list[str]:
+    leaves = [leaf_name(element) for element in elements]
+    counts = Counter(leaf.casefold() for leaf in leaves)
+    refs: list[str] = []
+    taken: set[str] = set()
+    for element, leaf in zip(elements, leaves):
+        ref = leaf if counts[leaf.casefold()] == 1 else "/".join([*element.path, leaf])
+        if ref.casefold() in taken:  # a kept-whole XJ1 beside an element J1 at the same level
+            ref = "/".join([*element.path, element.name])
+        taken.add(ref.casefold())
+        refs.append(ref)
+    return refs
+
+
+def _part(element: FlatElement, ref: str, net_names: dict[str, str]) -> Part:
+    pins = tuple(Pin(name, net_names[key]) for name, key in element.pins)
+    path = "/".join([*element.path, leaf_name(element)])
+    properties = dict(element.params)
+    if leaf_name(element) != element.name:
+        properties["spice_name"] = element.name
+    if element.letter == "X":
+        part_number = element.subcircuit
+        cell = element.subcircuit or "X"
+    else:
+        part_number = element.model.name if element.model is not None and element.letter in "DQMJ" else None
+        cell = element.letter
+    return Part(ref=ref, kind=_kind(element, ref), value=element.value_text, pins=pins,
+                location=element.location, value_si=element.value_si, path=path, cell=cell,
+                part_number=part_number, properties=properties, model=element.model)
+
+
+def assemble(flat: Flattened, source: str, title: str) -> Circuit:
+    """Build the :class:`~linter.model.Circuit` from a flattened deck."""
+    net_names = {key: info.name for key, info in flat.nets.items()}
+    refs = _references(flat.elements)
+    parts: dict[str, Part] = {}
+    joined: dict[str, list[tuple[str, str]]] = {key: [] for key in flat.nets}
+    notes: list[ReaderNote] = []
+    for element, ref in zip(flat.elements, refs):
+        parts[ref] = _part(element, ref, net_names)
+        for pin, key in element.pins:
+            joined[key].append((ref, pin))
+        note = scale_trap_note(element, ref)
+        if note is not None:
+            notes.append(note)
+    nets = {info.name: Net(info.name, tuple(joined[key]), info.location, info.aliases)
+            for key, info in flat.nets.items()}
+    return Circuit(source=source, format="spice", parts=parts, nets=nets, notes=tuple(notes),
+                   design=title)
