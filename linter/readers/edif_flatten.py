@@ -108,16 +108,16 @@ class _Flattener:
         return node
 
     def resolve(self, instance: Instance, cell: Cell) -> _Target:
-        library_key = instance.library or cell.library
+        library_key = instance.library.casefold() if instance.library else cell.library
         library = self.edif.libraries.get(library_key)
         who = f"instance '{instance.name.display}'"
         if library is None:
-            self.fail(instance.form, f"{who}: no library '{library_key}' in this file")
-        target = library.cells.get(instance.cell)  # type: ignore[union-attr]
+            self.fail(instance.form, f"{who}: no library '{instance.library}' in this file")
+        target = library.cells.get(instance.cell.casefold())  # type: ignore[union-attr]
         if target is None:
             self.fail(instance.form, f"{who}: library '{library.name.display}' has no cell "  # type: ignore[union-attr]
                                      f"'{instance.cell}'")
-        view = target.views.get(instance.view)  # type: ignore[union-attr]
+        view = target.views.get(instance.view.casefold())  # type: ignore[union-attr]
         if view is None:
             self.fail(instance.form, f"{who}: cell '{target.name.display}' has no view "  # type: ignore[union-attr]
                                      f"'{instance.view}'")
@@ -139,36 +139,40 @@ class _Flattener:
             found = []
             for index, net in enumerate(view.nets):
                 for entry in net.joined:
-                    pins = self.entry_pins(entry, net, view, targets)
+                    pins = self.entry_pins(entry, net, cell, view, targets)
                     found.extend((index, wire, inst, port, pin) for wire, (inst, port, pin) in enumerate(pins))
             self.links[id(view)] = found
         return found
 
-    def entry_pins(self, entry: PortRef | tuple[PortRef, ...], net: Net, view: View,
+    def entry_pins(self, entry: PortRef | tuple[PortRef, ...], net: Net, cell: Cell, view: View,
                    targets: dict[str, _Target]) -> list[tuple[str | None, str, int]]:
         refs = entry if isinstance(entry, tuple) else (entry,)
-        pins = [pin for ref in refs for pin in self.ref_pins(ref, view, targets)]
+        pins = [pin for ref in refs for pin in self.ref_pins(ref, cell, view, targets)]
         if len(pins) != net.name.width:
             form = refs[0].form if refs else net.form
             self.fail(form, f"net '{net.name.display}' has {net.name.width} wire(s) but this "
                             f"reference has {len(pins)} pin(s)")
         return pins
 
-    def ref_pins(self, ref: PortRef, view: View, targets: dict[str, _Target]) -> list[tuple[str | None, str, int]]:
-        if ref.instance is None:
-            ports, owner = view.ports, f"view '{view.name.display}'"
+    def ref_pins(self, ref: PortRef, cell: Cell, view: View,
+                 targets: dict[str, _Target]) -> list[tuple[str | None, str, int]]:
+        """(instance key or None, port key, pin) for each pin a port reference names."""
+        instance = ref.instance.casefold() if ref.instance is not None else None
+        if instance is None:
+            ports, owner = view.ports, cell.name.display
         else:
-            target = targets.get(ref.instance)
+            target = targets.get(instance)
             if target is None:
-                self.fail(ref.form, f"portRef to instance '{ref.instance}': view "
-                                    f"'{view.name.display}' has no instance of that name")
-            ports, owner = target.view.ports, f"cell '{target.cell.name.display}'"  # type: ignore[union-attr]
-        port = ports.get(ref.port)
+                self.fail(ref.form, f"instanceRef '{ref.instance}': cell '{cell.name.display}' "
+                                    "has no instance of that name")
+            ports, owner = target.view.ports, target.cell.name.display  # type: ignore[union-attr]
+        key = ref.port.casefold()
+        port = ports.get(key)
         if port is None:
-            self.fail(ref.form, f"portRef '{ref.port}': {owner} has no port of that name")
+            self.fail(ref.form, f"portRef '{ref.port}': cell '{owner}' has no port of that name")
         if ref.member is None:
-            return [(ref.instance, ref.port, i) for i in range(port.name.width)]  # type: ignore[union-attr]
-        return [(ref.instance, ref.port, self.member_index(ref, port.name))]  # type: ignore[union-attr]
+            return [(instance, key, i) for i in range(port.name.width)]  # type: ignore[union-attr]
+        return [(instance, key, self.member_index(ref, port.name))]  # type: ignore[union-attr]
 
     def member_index(self, ref: PortRef, name: Name) -> int:
         dims, member = name.dims, ref.member or ()
@@ -214,22 +218,24 @@ class _Flattener:
 
 
 def _top(edif: EdifFile) -> tuple[Cell, View]:
+    """The design's top cell and its view (the first view with contents)."""
     design = edif.design
     if design is None:
-        root = edif.doc.root
-        raise edif.doc.error(root, "no (design ...) form: cannot tell which cell is the top")  # type: ignore[arg-type]
-    library_key = design.library
-    libraries = [edif.libraries[library_key]] if library_key in edif.libraries else (
-        list(edif.libraries.values()) if library_key is None else [])
+        raise edif.doc.error(edif.doc.root, "no (design ...) form: cannot tell which cell is the top")  # type: ignore[arg-type]
+    if design.library is None:
+        libraries = list(edif.libraries.values())
+    else:
+        found = edif.libraries.get(design.library.casefold())
+        libraries = [found] if found is not None else []
     for library in libraries:
-        cell = library.cells.get(design.cell)
+        cell = library.cells.get(design.cell.casefold())
         if cell is not None:
             views = list(cell.views.values())
             if not views:
                 raise edif.doc.error(cell.form, f"top cell '{cell.name.display}' has no view")
             with_contents = [view for view in views if view.has_contents]
             return cell, (with_contents or views)[0]
-    where = f"library '{library_key}'" if library_key else "any library"
+    where = f"library '{design.library}'" if design.library else "any library"
     raise edif.doc.error(design.form, f"design '{design.name.display}': no cell "
                                       f"'{design.cell}' in {where}")
 

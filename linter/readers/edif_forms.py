@@ -64,20 +64,20 @@ def read_cell(reader: FormReader, form: list, library: str, external: bool) -> C
     name = reader.name_def(reader.arg(form, 1, "a name"), form)
     views: dict[str, View] = {}
     for view_form in _children(form, "view"):
-        view = read_view(reader, view_form)
+        view = read_view(reader, view_form, name)
         views[view.name.key] = view
     return Cell(name, library, external, views, reader.properties(form), form)
 
 
-def read_view(reader: FormReader, form: list) -> View:
+def read_view(reader: FormReader, form: list, cell: Name) -> View:
     name = reader.name_def(reader.arg(form, 1, "a name"), form)
     ports: dict[str, Port] = {}
     interface = _child(form, "interface")
     for port_form in _children(interface or [], "port"):
         port = Port(reader.name_def(reader.arg(port_form, 1, "a name"), port_form), port_form)
         if port.name.key in ports:
-            reader.fail(port_form, f"duplicate port name '{port.name.display}' in view "
-                                   f"'{name.display}'")
+            reader.fail(port_form, f"duplicate port name '{port.name.display}' in cell "
+                                   f"'{cell.display}'")
         ports[port.name.key] = port
     instances: dict[str, Instance] = {}
     nets: list[Net] = []
@@ -85,19 +85,19 @@ def read_view(reader: FormReader, form: list) -> View:
     for item in contents or ():
         kw = keyword(item)
         if kw == "instance":
-            _add_instance(reader, item, instances, name)
+            _add_instance(reader, item, instances, cell)
         elif kw == "net":
             nets.append(read_net(reader, item))
     return View(name, ports, instances, nets, reader.properties(form), contents is not None, form)
 
 
-def _add_instance(reader: FormReader, form: list, instances: dict[str, Instance], view: Name) -> None:
+def _add_instance(reader: FormReader, form: list, instances: dict[str, Instance], cell: Name) -> None:
     instance = read_instance(reader, form)
     first = instances.get(instance.name.key)
     if first is not None:
         line, column = reader.doc.position_of(first.form)
-        reader.fail(form, f"duplicate instance name '{instance.name.display}' in view "
-                          f"'{view.display}' (first at {line}:{column})")
+        reader.fail(form, f"duplicate instance name '{instance.name.display}' in cell "
+                          f"'{cell.display}' (first at {line}:{column})")
     instances[instance.name.key] = instance
 
 

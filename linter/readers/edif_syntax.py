@@ -51,7 +51,10 @@ class Port:
 
 @dataclass(frozen=True)
 class PortRef:
-    """A reference to a port (of the cell itself when ``instance`` is None), or one member."""
+    """A reference to a port (of the cell itself when ``instance`` is None), or one member.
+
+    ``port`` and ``instance`` are identifiers as written; match them with ``.casefold()``.
+    """
 
     port: str
     member: tuple[int, ...] | None
@@ -70,6 +73,8 @@ class Net:
 
 @dataclass(frozen=True)
 class Instance:
+    """A placed cell view; ``library``, ``cell``, ``view`` are identifiers as written."""
+
     name: Name
     library: str | None
     cell: str
@@ -109,6 +114,8 @@ class Library:
 
 @dataclass(frozen=True)
 class Design:
+    """The top cell (identifiers as written)."""
+
     name: Name
     library: str | None
     cell: str
@@ -191,7 +198,8 @@ class FormReader:
         return Name(ident.casefold(), ident[1:] if ident.startswith("&") else str(ident))
 
     def name_ref(self, token: object, form: list) -> str:
-        return self.identifier(token, form).casefold()
+        """A referenced identifier as written (compare with ``.casefold()``)."""
+        return str(self.identifier(token, form))
 
     def integer(self, token: object, form: list) -> int:
         if not isinstance(token, int) or isinstance(token, bool):

@@ -231,7 +231,8 @@ def _raise_located(text: str, source: str) -> None:
             roots += 1
     if opens:
         line, column = doc.position(opens[-1])
-        raise doc.error(len(text), f"unexpected end of file: {len(opens)} list(s) still open, "
+        end = len(text.rstrip(_WS))  # just after the last token, not after trailing blank lines
+        raise doc.error(end, f"unexpected end of file: {len(opens)} list(s) still open, "
                                    f"the innermost opened at {line}:{column}")
     if roots == 0:
         raise doc.error(0, "no s-expression found (the text is empty or blank)")
