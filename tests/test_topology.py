@@ -426,3 +426,56 @@ def test_demo_board_group_contents(demo_groups):
     assert set(bag.rails) == {"+12V", "+5V", "GND"}
     bicolour = by_id["G-D5"]
     assert [scenario.lit for scenario in bicolour.scenarios] == [("D5",), ("D6",)]
+
+
+# -- the SPICE fixtures, one per group kind ----------------------------------------------------
+
+FIXTURES = Path(__file__).parent.parent / "fixtures" / "topology"
+
+# Rails as the decks' V sources give them; U1 is the MCU8 subcircuit, kept whole.
+SPICE_RAILS = {name: Rail(name, volts, volts, volts)
+               for name, volts in (("vcc12", 12.0), ("vcc5", 5.0), ("vcc3", 3.3), ("0", 0.0))}
+
+# (file, [(first LED, topology, setter, strings, transistor, drive, levels per scenario)]),
+# each as drawn and described in the deck's comment lines.
+SPICE_EXPECTED = [
+    ("resistor.cir", [("D1", "resistor", "R1", (("D1",),), None, None, [{}]),
+                      ("D2", "resistor", "R2", (("D2",),), None, None, [{}])]),
+    ("string.cir", [("D16", "string", "R13", (("D16", "D17", "D18"),), None, None, [{}])]),
+    ("parallel.cir", [("D7", "parallel", "R6", (("D7",), ("D8",), ("D9",), ("D10",)),
+                       None, None, [{}])]),
+    ("npn_sink.cir", [("D11", "npn-sink", "Q1", (("D11", "D12", "D13", "D14"),), "Q1",
+                       "divider", [{}])]),
+    ("npn_sink_reference.cir", [("D1", "npn-sink", "Q1", (("D1", "D2"),), "Q1", "reference",
+                                 [{}])]),
+    ("pnp_source.cir", [("D1", "pnp-source", "Q1", (("D1", "D2"),), "Q1", "divider", [{}])]),
+    ("low_side_switch.cir", [("D1", "low-side-switch", "R1", (("D1",),), "M2", "pin",
+                              [{"U1.PA0": "high"}])]),
+    ("high_side_switch.cir", [("D1", "high-side-switch", "R1", (("D1",),), "M1", "pin",
+                               [{"U1.PA2": "low"}])]),
+    ("pin_source.cir", [("D1", "pin-source", "R1", (("D1",),), None, None,
+                         [{"U1.PA0": "high"}])]),
+    ("pin_sink.cir", [("D4", "pin-sink", "R4", (("D4",),), None, None, [{"U1.PA3": "low"}])]),
+    ("pin_bicolour.cir", [("D5", "pin-bicolour", "R5", (("D5",), ("D6",)), None, None,
+                           [{"U1.PA1": "high", "U1.PA2": "low"},
+                            {"U1.PA2": "high", "U1.PA1": "low"}])]),
+    ("reversed.cir", [("D1", "reversed", None, (("D1",),), None, None, [{}])]),
+    ("across_rails.cir", [("D1", "across-rails", None, (("D1",),), None, None, [{}])]),
+    ("unrecognised.cir", [("D1", "unrecognised", None, (("D1",),), None, None, [{}])]),
+]
+
+
+@pytest.mark.parametrize(("name", "expected"), SPICE_EXPECTED, ids=[n for n, _ in SPICE_EXPECTED])
+def test_spice_fixture(name, expected):
+    from linter.readers.spice import read_spice
+
+    path = FIXTURES / name
+    circuit = read_spice(path.read_text(), name, path=path, root=FIXTURES, opaque={"MCU8"})
+    groups = find_groups(circuit, SPICE_RAILS, {"U1": McuData(supply_pins=("VDD",))})
+    found = [(g.id[2:], g.topology, g.setter, g.strings, g.transistor, g.drive,
+              [dict(s.levels) for s in g.scenarios]) for g in groups]
+    assert found == expected
+
+
+def test_every_spice_fixture_is_checked():
+    assert sorted(p.name for p in FIXTURES.glob("*.cir")) == sorted(n for n, _ in SPICE_EXPECTED)
