@@ -113,7 +113,8 @@ def _compare(part: Part, line: BomLine) -> list[BomDiscrepancy]:
     if line.value is not None and part.value is not None and not line.dnp \
             and not _value_matches(part, line):
         problems.append(_value_discrepancy(part, line))
-    if part.part_number and line.part_number and \
+    from_model = part.model is not None and part.part_number == part.model.name
+    if part.part_number and line.part_number and not from_model and \
             part.part_number.casefold() != line.part_number.casefold():
         problems.append(BomDiscrepancy(
             "part-number", (part.ref,),

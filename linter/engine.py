@@ -1,52 +1,138 @@
 """The pipeline from files to findings: read, enrich, find groups, solve, apply rules.
 
 Each stage is a pure function of the previous stage's output; this module only strings them
-together. The CLI is the only caller that touches the file system beyond reading inputs.
+together:
+
+1. :func:`load_inputs` — settings (``--config`` or found upward from the netlist, over the
+   shipped defaults; ``--parts`` files), the netlist (SPICE subcircuits whose part data says
+   ``mcu`` kept whole), the BOM (only when ``--bom`` is given: a ``bom.csv`` beside the
+   netlist is not picked up silently), rails and part data → :class:`AnalysisContext`;
+2. :func:`analyse` — LED groups and their operating points (the seam for topology/solve:
+   it returns the context with ``groups`` filled; today it returns it unchanged);
+3. :func:`run_rules` — every enabled rule, in id order;
+4. waivers (:mod:`linter.waivers`) — accepted findings set aside, stale waivers reported.
 """
 
 from __future__ import annotations
 
+import datetime as dt
 from dataclasses import dataclass, field
 from pathlib import Path
+from typing import Any, Mapping
 
+from linter.bom_join import BomDiscrepancy, apply_bom
+from linter.config import Settings, check_rule_settings, load_settings
+from linter.context import AnalysisContext
 from linter.findings import Finding
 from linter.model import Circuit
+from linter.partdata import PartData, Rail
+from linter.parts import resolve_part_data
+from linter.rails import resolve_rails
 from linter.readers import read_netlist
+from linter.readers.bom import Bom, read_bom
+from linter.waivers import STALE_WAIVER, apply_waivers
 
-__all__ = ["CheckRequest", "CheckResult", "run_check"]
+__all__ = ["CheckRequest", "CheckResult", "AnalysisContext", "run_check", "load_inputs",
+           "analyse", "run_rules"]
 
 
 @dataclass(frozen=True)
 class CheckRequest:
-    """What to check: the netlist and the optional files beside it, as the user named them."""
+    """What to check: the netlist and the optional files beside it, as the user named them.
+
+    ``today`` fixes the date waivers' ``until`` is compared with (default: the current date).
+    """
 
     netlist: Path
     bom: Path | None = None
     config: Path | None = None
     parts_files: tuple[Path, ...] = ()
+    today: dt.date | None = None
 
 
 @dataclass(frozen=True)
 class CheckResult:
-    """Everything a reporter needs: the circuit, the LED groups and the findings."""
+    """Everything a reporter needs: the circuit, the LED groups and the findings.
+
+    ``findings`` are what the report shows (waived ones removed, waiver notices added);
+    ``waived`` keeps the findings that a waiver accepted.
+    """
 
     request: CheckRequest
     circuit: Circuit
     findings: tuple[Finding, ...] = ()
     groups: tuple = field(default=())
-    rails: dict = field(default_factory=dict, hash=False)
+    rails: Mapping[str, Rail] = field(default_factory=dict, hash=False)
+    part_data: Mapping[str, PartData] = field(default_factory=dict, hash=False)
+    settings: Settings | None = None
+    bom: Bom | None = None
+    bom_discrepancies: tuple[BomDiscrepancy, ...] = ()
+    waived: tuple[Finding, ...] = ()
+    context: AnalysisContext | None = None
 
 
-def _notes_as_findings(circuit: Circuit) -> tuple[Finding, ...]:
-    """Turn what the reader noticed (``spice-scale-trap``…) into findings."""
-    return tuple(
-        Finding(rule=note.rule, severity="warning", message=note.message, parts=note.parts,
-                values=dict(note.values), location=note.location)
-        for note in circuit.notes
-    )
+def _rule_registry() -> dict[str, Any]:
+    from linter.rules import all_rules
+
+    return all_rules()
+
+
+def load_inputs(request: CheckRequest, registry: Mapping[str, Any] | None = None) -> AnalysisContext:
+    """Read and enrich every input of ``request`` into an :class:`AnalysisContext` (no groups)."""
+    registry = _rule_registry() if registry is None else registry
+    settings = load_settings(request.netlist, request.config, request.parts_files)
+    settings = check_rule_settings(settings, registry)
+    opaque = frozenset(number for number, spec in settings.parts.items() if spec.kind == "mcu")
+    circuit = read_netlist(request.netlist, source=str(request.netlist), opaque=opaque)
+    bom: Bom | None = None
+    discrepancies: tuple[BomDiscrepancy, ...] = ()
+    if request.bom is not None:
+        bom = read_bom(request.bom)
+        circuit, discrepancies = apply_bom(circuit, bom)
+    circuit, part_data = resolve_part_data(circuit, settings)
+    rails = resolve_rails(circuit, settings)
+    return AnalysisContext(circuit=circuit, settings=settings, rails=rails, part_data=part_data,
+                           bom=bom, bom_discrepancies=discrepancies)
+
+
+def analyse(context: AnalysisContext) -> AnalysisContext:
+    """LED groups and their solved operating points: the context with ``groups`` filled.
+
+    The seam for group analysis (topology, solve): until it lands, no groups are found.
+    """
+    return context
+
+
+def _notes_as_findings(context: AnalysisContext, registry: Mapping[str, Any]) -> list[Finding]:
+    """Reader notes whose rule is not registered (a registered rule reports its own notes)."""
+    return [Finding(rule=note.rule, severity="warning", message=note.message, parts=note.parts,
+                    values=dict(note.values), location=note.location)
+            for note in context.circuit.notes if note.rule not in registry]
+
+
+def run_rules(context: AnalysisContext, registry: Mapping[str, Any] | None = None) -> list[Finding]:
+    """The findings of every enabled rule, rules in id order, each rule's findings as it gives them."""
+    registry = _rule_registry() if registry is None else registry
+    findings = _notes_as_findings(context, registry)
+    for rule_id in sorted(registry):
+        if context.enabled(rule_id):
+            findings.extend(registry[rule_id]().check(context))
+    return findings
 
 
 def run_check(request: CheckRequest) -> CheckResult:
-    """Read the netlist named in ``request`` and return what is known about it."""
-    circuit = read_netlist(request.netlist, source=str(request.netlist))
-    return CheckResult(request=request, circuit=circuit, findings=_notes_as_findings(circuit))
+    """Read, enrich, analyse and check the netlist named in ``request``."""
+    registry = _rule_registry()
+    context = analyse(load_inputs(request, registry))
+    findings = run_rules(context, registry)
+    today = request.today or dt.date.today()
+    kept, waived, notices = apply_waivers(findings, context.settings.waivers, today,
+                                          context.severity(STALE_WAIVER, "info"))
+    if not context.enabled(STALE_WAIVER):
+        notices = ()
+    return CheckResult(request=request, circuit=context.circuit, findings=kept + notices,
+                       groups=context.groups, rails=context.rails, part_data=context.part_data,
+                       settings=context.settings, bom=context.bom,
+                       bom_discrepancies=context.bom_discrepancies, waived=waived,
+                       context=context)
+

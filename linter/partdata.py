@@ -92,7 +92,8 @@ class BjtData:
 @dataclass(frozen=True)
 class MosfetData:
     """A MOSFET used as a switch: threshold vgs_th (V), rds_on (Ω) at gate drive rds_on_vgs
-    (V), ratings vds_max (V), id_max (A), pd_max (W at 25 °C)."""
+    (V), ratings vds_max (V), id_max (A), pd_max (W at 25 °C). ``spice_vto`` (V) and
+    ``spice_kp`` (A/V²) when a SPICE ``.model`` gives VTO and KP."""
 
     polarity: Literal["nmos", "pmos"]
     vgs_th: float | None = None
@@ -101,6 +102,8 @@ class MosfetData:
     vds_max: float | None = None
     id_max: float | None = None
     pd_max: float | None = None
+    spice_vto: float | None = None
+    spice_kp: float | None = None
     part_number: str | None = None
     assumed: tuple[str, ...] = ()
     note: str | None = None
@@ -126,12 +129,15 @@ class McuData:
 @dataclass(frozen=True)
 class ResistorData:
     """A resistor: ohms (Ω) as the analysis uses it, tolerance (fraction), power rating (W at
-    70 °C, before derating), package (``0603``), and where the rating came from."""
+    70 °C, before derating), package (``0603``), and where the rating came from
+    (``power_source``: "part data", "BOM", "0603 chip size", "axial package", or None when
+    unknown)."""
 
     ohms: float | None
     tolerance: float | None = None
     power: float | None = None
     package: str | None = None
+    power_source: str | None = None
     part_number: str | None = None
     assumed: tuple[str, ...] = ()
     note: str | None = None

@@ -7,6 +7,7 @@
 from __future__ import annotations
 
 from pathlib import Path
+from typing import Collection
 
 from linter.errors import NetlistError
 from linter.model import Circuit
@@ -55,12 +56,14 @@ def sniff_format(text: str, suffix: str) -> str | None:
     return None
 
 
-def read_netlist(path: Path, source: str | None = None, root: Path | None = None) -> Circuit:
+def read_netlist(path: Path, source: str | None = None, root: Path | None = None,
+                 opaque: Collection[str] = ()) -> Circuit:
     """Read an EDIF or SPICE netlist file into a Circuit.
 
     ``source`` is the name used in messages and locations (default: the path as given);
     ``root`` is the project folder that SPICE ``.include`` may not leave (default: the
-    netlist's folder).
+    netlist's folder); ``opaque`` names SPICE subcircuits (part numbers whose part data says
+    ``mcu``) whose instances stay whole parts.
     """
     name = source if source is not None else str(path)
     try:
@@ -78,5 +81,6 @@ def read_netlist(path: Path, source: str | None = None, root: Path | None = None
     if fmt == "spice":
         from linter.readers.spice import read_spice
 
-        return read_spice(text, name, path=path, root=root or path.resolve().parent)
+        return read_spice(text, name, path=path, root=root or path.resolve().parent,
+                          opaque=opaque)
     raise NetlistError(name, 1, 1, "not an EDIF or SPICE netlist (an EDIF file starts with '(edif')")

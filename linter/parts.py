@@ -1,0 +1,258 @@
+"""Part data for every part that needs it, from settings, parts files, SPICE models and generics.
+
+:func:`resolve_part_data` looks each part up by part number (then by value, then by SPICE
+model name, as netlists often carry the part number there), lets the part data change the
+part's kind (a SPICE diode whose data says ``kind = "led"`` becomes an LED), reads SPICE
+``.model`` figures, and fills every missing figure from :mod:`linter.generic_parts`. Each
+fallback is named in the record's ``assumed`` and described in its ``note``; the
+``unknown-part`` rule reports them. Kinds that need no figures (capacitors, connectors, plain
+diodes, links) get no record.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import replace
+from typing import TYPE_CHECKING, Any, Mapping
+
+from linter.generic_parts import (AXIAL_POWER, GENERIC_BJT, GENERIC_LEDS, GENERIC_MCU,
+                                  GENERIC_MOSFET, LED_TEST_CURRENT, LED_VR_MAX,
+                                  RESISTOR_POWER_BY_CHIP, UNKNOWN_COLOR_LED, GenericLed,
+                                  chip_size, color_from_texts, is_axial)
+from linter.model import Circuit, Part
+from linter.part_specs import PartSpec
+from linter.partdata import BjtData, LedData, McuData, MosfetData, PartData, ResistorData
+from linter.units import ValueParseError, format_si, parse_fraction, parse_number
+
+if TYPE_CHECKING:
+    from linter.config import Settings
+
+__all__ = ["resolve_part_data", "find_spec", "led_data", "resistor_data", "SPICE_TNOM_K",
+           "describe_assumptions", "MCU_SUPPLY_PINS", "MCU_GROUND_PINS"]
+
+SPICE_TNOM_K = 300.15
+"""K: the temperature SPICE model parameters are measured at by default (TNOM = 27 °C)."""
+
+MCU_SUPPLY_PINS = ("VDD", "VCC", "AVDD", "VDDA", "DVDD")
+MCU_GROUND_PINS = ("VSS", "GND", "AVSS", "VSSA", "DVSS")
+
+
+def find_spec(part: Part, specs: Mapping[str, PartSpec]) -> PartSpec | None:
+    """The part data of ``part``: by part number, then value, then model name (any case)."""
+    folded = {number.casefold(): spec for number, spec in specs.items()}
+    model = part.model.name if part.model is not None else None
+    for key in (part.part_number, part.value, model):
+        if key and key.casefold() in folded:
+            return folded[key.casefold()]
+    return None
+
+
+def resolve_part_data(circuit: Circuit, settings: "Settings") -> tuple[Circuit, dict[str, PartData]]:
+    """A Circuit with kinds and part numbers from part data applied, and part data by ref."""
+    parts = dict(circuit.parts)
+    data: dict[str, PartData] = {}
+    for ref, part in circuit.parts.items():
+        spec = find_spec(part, settings.parts)
+        if spec is not None:
+            part = replace(part, kind=spec.kind, part_number=part.part_number or spec.part_number)
+            parts[ref] = part
+        record = _record(part, spec, settings)
+        if record is not None:
+            data[ref] = record
+    return replace(circuit, parts=parts), data
+
+
+def _record(part: Part, spec: PartSpec | None, settings: "Settings") -> PartData | None:
+    if part.kind == "led":
+        return led_data(part, spec)
+    if part.kind == "resistor":
+        return resistor_data(part, spec, settings.assume.resistor_tolerance)
+    if part.kind in ("npn", "pnp"):
+        return _bjt_data(part, spec)
+    if part.kind in ("nmos", "pmos"):
+        return _mosfet_data(part, spec)
+    if part.kind == "mcu":
+        return _mcu_data(part, spec)
+    return None
+
+
+def _model_params(part: Part) -> Mapping[str, float]:
+    return part.model.params if part.model is not None else {}
+
+
+def _shockley_vf(current: float, saturation: float, ideality: float, series: float) -> float:
+    """Forward voltage in V at ``current`` A: V = n·Vt·ln(I/Is + 1) + I·Rs, Vt = k·T/q at TNOM."""
+    from scipy.constants import Boltzmann, elementary_charge
+
+    thermal = Boltzmann * SPICE_TNOM_K / elementary_charge
+    return ideality * thermal * math.log(current / saturation + 1.0) + current * series
+
+
+def led_data(part: Part, spec: PartSpec | None) -> LedData:
+    """An LED's figures: its part data, its SPICE model, then its colour's generic figures."""
+    given: dict[str, Any] = dict(spec.figures) if spec is not None else {}
+    params = _model_params(part)
+    color = given.get("color") or color_from_texts(
+        (part.properties.get("color"), part.value, part.part_number,
+         part.properties.get("description"), part.cell))
+    generic = GENERIC_LEDS.get(color or "", UNKNOWN_COLOR_LED)
+    assumed: list[str] = [] if color else ["color"]
+    test_current = _take(given, "vf_test_current", LED_TEST_CURRENT, assumed)
+    if "vf_typ" not in given and "IS" in params:
+        given["vf_typ"] = _shockley_vf(test_current, params["IS"], params.get("N", 1.0),
+                                       params.get("RS", 0.0))
+    vf_typ = _take(given, "vf_typ", generic.vf_typ, assumed)
+    figures = {name: given.get(name) for name in
+               ("if_recommended", "if_peak", "if_peak_pulse", "if_peak_duty", "pd_max")}
+    record = LedData(
+        color=color, vf_typ=vf_typ, vf_test_current=test_current,
+        vf_min=_take(given, "vf_min", vf_typ - (generic.vf_typ - generic.vf_min), assumed),
+        vf_max=_take(given, "vf_max", vf_typ + (generic.vf_max - generic.vf_typ), assumed),
+        if_max=_take(given, "if_max", generic.if_max, assumed),
+        vr_max=_take(given, "vr_max", LED_VR_MAX, assumed),
+        tempco=_take(given, "tempco", generic.tempco, assumed),
+        ideality=params.get("N"), rs=params.get("RS"), spice_is=params.get("IS"),
+        part_number=part.part_number, **figures)
+    return replace(record, assumed=tuple(assumed),
+                   note=_note(part, spec, assumed, _led_summary(record, generic)))
+
+
+def _take(given: Mapping[str, Any], name: str, fallback: Any, assumed: list[str]) -> Any:
+    """``given[name]``, else ``fallback`` with ``name`` recorded as assumed."""
+    if name in given and given[name] is not None:
+        return given[name]
+    assumed.append(name)
+    return fallback
+
+
+def _led_summary(record: LedData, generic: GenericLed) -> str:
+    kind = "LED of unknown colour" if generic is UNKNOWN_COLOR_LED else f"{generic.name} LED"
+    return (f"generic {kind} assumed (vf {record.vf_typ:.3g} V typ, {record.vf_min:.3g}–"
+            f"{record.vf_max:.3g} V at {format_si(record.vf_test_current or 0.0, 'A')}; "
+            f"if_max {format_si(record.if_max or 0.0, 'A')})")
+
+
+def describe_assumptions(assumed: tuple[str, ...] | list[str], spec: PartSpec | None,
+                         summary: str) -> str:
+    """What was assumed, in words, without the reference (shared by parts of one number)."""
+    if spec is None:
+        return f"no part data; {summary}"
+    return f"part data {spec.part_number} lacks {', '.join(assumed)}; {summary}"
+
+
+def _note(part: Part, spec: PartSpec | None, assumed: list[str], summary: str) -> str | None:
+    if not assumed:
+        return None
+    return f"{part.ref}: {describe_assumptions(assumed, spec, summary)}"
+
+
+def _fraction(text: str | None) -> float | None:
+    if not text:
+        return None
+    try:
+        return parse_fraction(text.replace("±", "").replace("+/-", "").strip())
+    except ValueParseError:
+        return None
+
+
+def _power(text: str | None) -> float | None:
+    if not text:
+        return None
+    try:
+        return parse_number(text, "W")
+    except ValueParseError:
+        return None
+
+
+def resistor_data(part: Part, spec: PartSpec | None, default_tolerance: float) -> ResistorData:
+    """A resistor's value, tolerance and rating: part data, then BOM, then package, then generic."""
+    given = spec.figures if spec is not None else {}
+    ohms = part.value_si
+    if ohms is None and part.value:
+        try:
+            ohms = parse_number(part.value, "Ω")
+        except ValueParseError:
+            ohms = None
+    assumed: list[str] = []
+    tolerance = given.get("tolerance", _fraction(part.properties.get("tolerance")))
+    if tolerance is None:
+        tolerance = default_tolerance
+        assumed.append("tolerance")
+    package = part.properties.get("package") or part.properties.get("footprint")
+    power, source = _rating(given, part, package)
+    pieces = [f"tolerance {default_tolerance * 100:g} % assumed"] if assumed else []
+    if power is None:
+        pieces.append("power rating unknown (no rating, no chip size)")
+    note = f"{part.ref}: {'; '.join(pieces)}" if pieces else None
+    return ResistorData(ohms=ohms, tolerance=tolerance, power=power, package=package,
+                        power_source=source, part_number=part.part_number,
+                        assumed=tuple(assumed), note=note)
+
+
+def _rating(given: Mapping[str, Any], part: Part, package: str | None) -> tuple[float | None, str | None]:
+    if given.get("power") is not None:
+        return given["power"], "part data"
+    bom_power = _power(part.properties.get("power"))
+    if bom_power is not None:
+        return bom_power, "BOM"
+    chip = chip_size(package)
+    if chip is not None:
+        return RESISTOR_POWER_BY_CHIP[chip], f"{chip} chip size"
+    if is_axial(package):
+        return AXIAL_POWER, "axial package"
+    return None, None
+
+
+def _fill(given: Mapping[str, Any], generic: Mapping[str, float]) -> tuple[dict[str, Any], list[str]]:
+    figures: dict[str, Any] = {}
+    assumed: list[str] = []
+    for name, fallback in generic.items():
+        figures[name] = _take(given, name, fallback, assumed)
+    return figures, assumed
+
+
+def _bjt_data(part: Part, spec: PartSpec | None) -> BjtData:
+    given = dict(spec.figures) if spec is not None else {}
+    params = _model_params(part)
+    if "hfe_typ" not in given and "BF" in params:
+        given["hfe_typ"] = params["BF"]
+    figures, assumed = _fill(given, GENERIC_BJT)
+    summary = (f"generic small-signal {part.kind.upper()} assumed (hfe {figures['hfe_min']:g}–"
+               f"{figures['hfe_typ']:g}, vce_sat {figures['vce_sat']:g} V, "
+               f"pd_max {format_si(figures['pd_max'], 'W')})")
+    return BjtData(polarity=part.kind, spice_is=params.get("IS"), spice_bf=params.get("BF"),
+                   spice_br=params.get("BR"), part_number=part.part_number,
+                   assumed=tuple(assumed), note=_note(part, spec, assumed, summary), **figures)
+
+
+def _mosfet_data(part: Part, spec: PartSpec | None) -> MosfetData:
+    given = dict(spec.figures) if spec is not None else {}
+    params = _model_params(part)
+    if "vgs_th" not in given and "VTO" in params:
+        given["vgs_th"] = params["VTO"]
+    figures, assumed = _fill(given, GENERIC_MOSFET[part.kind])
+    summary = (f"generic small {'N' if part.kind == 'nmos' else 'P'}-MOSFET assumed (vgs_th "
+               f"{figures['vgs_th']:g} V, rds_on {figures['rds_on']:g} Ω at "
+               f"{figures['rds_on_vgs']:g} V)")
+    return MosfetData(polarity=part.kind, spice_vto=params.get("VTO"), spice_kp=params.get("KP"),
+                      part_number=part.part_number, assumed=tuple(assumed),
+                      note=_note(part, spec, assumed, summary), **figures)
+
+
+def _pins_named(part: Part, names: tuple[str, ...]) -> tuple[str, ...]:
+    wanted = {name.casefold() for name in names}
+    return tuple(pin.name for pin in part.pins if pin.name.casefold() in wanted)
+
+
+def _mcu_data(part: Part, spec: PartSpec | None) -> McuData:
+    given = dict(spec.figures) if spec is not None else {}
+    figures, assumed = _fill(given, GENERIC_MCU)
+    supply = _take(given, "supply_pins", _pins_named(part, MCU_SUPPLY_PINS), assumed)
+    ground = _take(given, "ground_pins", _pins_named(part, MCU_GROUND_PINS), assumed)
+    summary = (f"generic microcontroller pins assumed (pin_current_max "
+               f"{format_si(figures['pin_current_max'], 'A')}, package_current_max "
+               f"{format_si(figures['package_current_max'], 'A')}, output_resistance "
+               f"{figures['output_resistance']:g} Ω; supply from pins {', '.join(supply) or 'none found'})")
+    return McuData(supply_pins=tuple(supply), ground_pins=tuple(ground),
+                   supply_voltage=given.get("supply_voltage"), part_number=part.part_number,
+                   assumed=tuple(assumed), note=_note(part, spec, assumed, summary), **figures)
