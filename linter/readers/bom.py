@@ -209,8 +209,8 @@ def _map_header(header: list[_Cell], source: str) -> dict[str, int]:
                        "(such as References, Value, Qty)")
     if "references" not in columns:
         raise BomError(source, first.line, first.column,
-                       "no reference column; name one "
-                       f"{', '.join(COLUMN_ALIASES['references'][:7])}")
+                       "no reference column; expected a column named References, Ref, "
+                       "Designator or RefDes")
     return columns
 
 
