@@ -26,7 +26,8 @@ Decisions a user of the Circuit should know:
   reference drops a letter, the SPICE name is in ``properties["spice_name"]``.
 * ``Part.path`` is the instance path with ``/``; for a part kept whole its last element is the
   reference-style name (``X2/U1``), its SPICE name being ``properties["spice_name"]``.
-* Locations: the top file as named by ``source``, included files relative to ``root``.
+* Locations: the top file as named by ``source``; an included file by its path relative to
+  the top file's folder, joined to the folder part of ``source`` (found from the same place).
 
 Every malformed input raises :class:`linter.errors.NetlistError` located at file, line, column.
 """

@@ -5,15 +5,19 @@ folder of the file that names them. The resolved real path (symbolic links follo
 inside the project folder ``root``, so neither ``..`` nor a link can reach other files. An
 include that is already open (directly or through others) is a loop and is refused. Included
 files have no title line. ``.lib FILE SECTION`` reads the lines between ``.lib SECTION`` and
-``.endl`` of FILE; ``.lib FILE`` alone reads the whole file. Cards of included files are named
-by their path relative to ``root``. Reading uses an explicit stack (no recursion).
+``.endl`` of FILE; ``.lib FILE`` alone reads the whole file. An included file is named in
+locations and messages the way the user named the top file: its path relative to the top
+file's folder, joined to the folder part of ``source`` (``boards/panel.cir`` including
+``models.inc`` gives ``boards/models.inc``), so that both are found from the same place.
+Reading uses an explicit stack (no recursion).
 """
 
 from __future__ import annotations
 
+import os
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Iterator
+from typing import Callable, Iterator
 
 from linter.errors import NetlistError
 from linter.readers.spice_lines import Card, read_cards
@@ -68,7 +72,12 @@ def load_deck(text: str, source: str, *, path: Path, root: Path) -> Deck:
     """Read the top file's text and every file it includes into one :class:`Deck`."""
     root_real = root.resolve()
     title = _title(text)
-    stack = [_Open(read_cards(text, source, skip_title=True), path.resolve(), source, None)]
+    top = path.resolve()
+
+    def display(real: Path) -> str:
+        return os.path.normpath(os.path.join(os.path.dirname(source), os.path.relpath(real, top.parent)))
+
+    stack = [_Open(read_cards(text, source, skip_title=True), top, source, None)]
     cards: list[Card] = []
     while stack:
         current = stack[-1]
@@ -78,7 +87,7 @@ def load_deck(text: str, source: str, *, path: Path, root: Path) -> Deck:
             continue
         keyword = card.keyword
         if keyword in _INCLUDE_WORDS or (keyword == ".lib" and len(card.tokens) in (2, 3)):
-            stack.append(_open_include(card, stack, root_real))
+            stack.append(_open_include(card, stack, root_real, display))
         elif keyword == ".title":
             title = card.rest_text(1)
         elif keyword not in (".lib", ".endl"):
@@ -86,7 +95,8 @@ def load_deck(text: str, source: str, *, path: Path, root: Path) -> Deck:
     return Deck(title, tuple(cards))
 
 
-def _open_include(card: Card, stack: list[_Open], root_real: Path) -> _Open:
+def _open_include(card: Card, stack: list[_Open], root_real: Path,
+                  display: Callable[[Path], str]) -> _Open:
     """Check and open the file a ``.include`` or ``.lib`` card names."""
     word = card.tokens[0].text
     if len(card.tokens) < 2:
@@ -102,9 +112,9 @@ def _open_include(card: Card, stack: list[_Open], root_real: Path) -> _Open:
     opened = [(item.real, item.section) for item in stack]
     if (real, section) in opened:
         chain = " -> ".join([item.name for item in stack[opened.index((real, section)):]]
-                            + [real.relative_to(root_real).as_posix()])
+                            + [display(real)])
         raise NetlistError(here.file, here.line, here.column, f"{word} loop: {chain}")
-    name = real.relative_to(root_real).as_posix()
+    name = display(real)
     try:
         data = real.read_bytes()
     except OSError as exc:
