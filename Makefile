@@ -19,7 +19,7 @@ test: $(STAMP)
 	$(BIN)/python -m pytest -q -p no:cacheprovider
 
 bench: $(STAMP)
-	@echo "make bench: the benchmark harness is not written yet (performance issue)."
+	$(BIN)/python bench/run.py $(BENCH_ARGS)
 
 clean:
 	rm -rf $(VENV) build *.egg-info

@@ -1,7 +1,7 @@
 """Channel templates: the small LED circuits the synthetic board is built from.
 
 A template is one LED group (or one filler part) as a tiny schematic sheet: leaf parts named
-``R1``, ``D1``, ``Q1``, ``M1``, ``C1`` whose pins join local nets. Local nets named in
+``R1``, ``D1``, ``Q1``, ``C1`` whose pins join local nets. Local nets named in
 :data:`PORTS` are the sheet's ports (``VIN`` the supply rail, ``V5`` the +5 V rail, ``GND``,
 ``DRV`` a microcontroller pin); the others (``N1``, ``NB``…) stay inside the sheet.
 
@@ -53,16 +53,18 @@ class LedType:
     vf_max: float
     spice_n: float
     spice_rs: float
+    tempco_mv: float
 
 
 LED_TYPES: tuple[LedType, ...] = (
-    LedType("RED", "LB0603RD", "0603", 1.8, 2.0, 2.4, 2.0, 5.0),
-    LedType("YELLOW", "LB0603YE", "0603", 1.9, 2.1, 2.5, 2.0, 5.0),
-    LedType("GREEN", "LB0603GN", "0603", 2.0, 2.2, 2.6, 2.0, 5.0),
-    LedType("BLUE", "LB0603BL", "0603", 2.8, 3.0, 3.4, 3.0, 8.0),
-    LedType("WHITE", "LB0805WH", "0805", 2.8, 3.0, 3.4, 3.0, 8.0),
+    LedType("RED", "LB0603RD", "0603", 1.8, 2.0, 2.4, 2.0, 5.0, -2.0),
+    LedType("YELLOW", "LB0603YE", "0603", 1.9, 2.1, 2.5, 2.0, 5.0, -2.0),
+    LedType("GREEN", "LB0603GN", "0603", 2.0, 2.2, 2.6, 2.0, 5.0, -2.0),
+    LedType("BLUE", "LB0603BL", "0603", 2.8, 3.0, 3.4, 3.0, 8.0, -3.0),
+    LedType("WHITE", "LB0805WH", "0805", 2.8, 3.0, 3.4, 3.0, 8.0, -3.0),
 )
-"""Invented LEDs; Vf at 20 mA, figures of the usual size for these colours (from memory)."""
+"""Invented LEDs; Vf at 20 mA and its temperature coefficient (mV/K), figures of the usual
+size for these colours (from memory)."""
 
 NPN = "BN45"
 """Part number of the invented NPN transistor (also its SPICE model name)."""
@@ -235,7 +237,7 @@ def _low_side_switch(rng: random.Random, name: str) -> Template:
     current = rng.choice((0.010, 0.015, 0.020))
     ohms = _ballast(rng, RAILS[rail] - count * leds[0].vf_typ, current)
     parts = [_resistor("R1", ohms, current, "VIN", "N1"), *_chain(1, leds, "N1", "ND"),
-             LeafPart("M1", "NMOS", NMOS, (("D", "ND"), ("G", "NG"), ("S", "GND")),
+             LeafPart("Q1", "NMOS", NMOS, (("D", "ND"), ("G", "NG"), ("S", "GND")),
                       part_number=NMOS, package="SOT-23"),
              _resistor("R2", rng.choice((100.0, 220.0)), 0.0, "DRV", "NG"),
              _resistor("R3", rng.choice((47_000.0, 100_000.0)), 0.0, "NG", "GND")]

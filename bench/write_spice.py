@@ -5,7 +5,9 @@ Same references and nets as the flat EDIF (``GND`` is ground; ngspice takes ``gn
 ``.model`` named by its part number; the microcontroller is ``XU{n}``, an instance of the
 subcircuit ``BM32`` that models each output as 25 Ω to the 5 V supply (``PA*``, driven
 high) or to ground (``PB*``, driven low), as the demo board does. MOSFET bulks are tied to
-their sources. The deck ends with ``.op`` and ``.end``.
+their sources; a MOSFET ``Q7`` is the element ``MQ7`` (SPICE needs the ``M``; the letter in
+front is the usual exporter convention, as in the demo board). The deck ends with ``.op``
+and ``.end``.
 
 Model figures are invented but of plausible size: LED saturation currents are fitted so
 that V = N·Vt·ln(I/IS + 1) + I·RS (the Shockley equation with series resistance) passes
@@ -71,7 +73,7 @@ def _element(ref: str, cell: str, value: str, nets: list[str]) -> str:
     if cell == "NPN":
         return f"{ref} {nets[0]} {nets[1]} {nets[2]} {NPN}"
     if cell == "NMOS":
-        return f"{ref} {nets[0]} {nets[1]} {nets[2]} {nets[2]} {NMOS}"
+        return f"M{ref} {nets[0]} {nets[1]} {nets[2]} {nets[2]} {NMOS}"
     return f"{ref} {nets[0]} {nets[1]} {value}"
 
 

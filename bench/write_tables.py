@@ -62,7 +62,7 @@ def _led_tables() -> list[str]:
                   f'color = "{led.color.lower()}"', f'vf_min = "{led.vf_min:g} V"',
                   f'vf_typ = "{led.vf_typ:g} V"', f'vf_max = "{led.vf_max:g} V"',
                   f'vf_test_current = "{TEST_CURRENT * 1000:g} mA"', 'if_max = "30 mA"',
-                  'vr_max = "5 V"', ""]
+                  'vr_max = "5 V"', f'tempco = "{led.tempco_mv:g} mV/K"', ""]
     return lines
 
 
@@ -72,7 +72,7 @@ def write_settings(board: Board, path: Path) -> None:
              "[rails]", '"+12V" = "12 V ±10%"', '"+5V" = "5 V ±5%"', '"GND" = "0 V"', "",
              *_led_tables(),
              f'[parts."{NPN}"]', 'kind = "npn"', "hfe_min = 100", "hfe_typ = 200",
-             'vbe = "0.7 V"', 'vce_sat = "0.2 V"', 'vce_max = "45 V"', 'ic_max = "100 mA"',
+             'vbe = "0.7 V"', 'vbe_current = "10 mA"', 'vce_sat = "0.2 V"', 'vce_max = "45 V"', 'ic_max = "100 mA"',
              'pd_max = "250 mW"', "",
              f'[parts."{NMOS}"]', 'kind = "nmos"', 'vgs_th = "1.6 V"', 'rds_on = "0.8 Ω"',
              'rds_on_vgs = "4.5 V"', 'vds_max = "30 V"', 'id_max = "1.5 A"',

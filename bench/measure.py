@@ -1,0 +1,126 @@
+"""Timing and peak memory of one measure: a command in fresh processes, or a Python call.
+
+A command is run once untimed (the warm-up, which also checks that it works and keeps its
+standard output for inspection), then ``runs`` times with its standard output sent to
+/dev/null. Each run's wall-clock time is taken around the process; its peak resident memory
+is the ``ru_maxrss`` that :func:`os.wait4` returns for that one child (KiB on Linux).
+
+A measure that cannot run (exit status other than 0 or 1, a crash, a missing program) is
+recorded with its error and no number: never a guessed one.
+"""
+
+from __future__ import annotations
+
+import gc
+import os
+import statistics
+import subprocess
+import tempfile
+import time
+from dataclasses import dataclass, field
+from typing import Any, Callable, Sequence
+
+__all__ = ["Measure", "run_command", "time_call", "OK_EXIT_CODES"]
+
+OK_EXIT_CODES = (0, 1)
+"""Exit statuses that mean the command did its work (ledlint: 1 = findings at the fail level)."""
+
+
+@dataclass
+class Measure:
+    """The result of one measure: every run's seconds, the peak memory, or the error."""
+
+    name: str
+    seconds: list[float] = field(default_factory=list)
+    peak_kb: int | None = None
+    error: str | None = None
+    output: str = field(default="", repr=False)
+
+    @property
+    def median(self) -> float | None:
+        """Median wall-clock seconds, or None when the measure did not run."""
+        if self.error is not None or not self.seconds:
+            return None
+        return statistics.median(self.seconds)
+
+    def as_json(self) -> dict[str, Any]:
+        """The record written to results.json."""
+        return {"median_s": self.median, "runs_s": [round(s, 4) for s in self.seconds],
+                "peak_kb": self.peak_kb, "error": self.error}
+
+
+def _once(command: Sequence[str], keep_output: bool) -> tuple[float, int, int, str, str]:
+    """Seconds, exit status, peak KiB, standard output (if kept) and error of one run."""
+    with tempfile.TemporaryFile() as err, tempfile.TemporaryFile() as out:
+        started = time.perf_counter()
+        process = subprocess.Popen(command, stdin=subprocess.DEVNULL,
+                                   stdout=out if keep_output else subprocess.DEVNULL,
+                                   stderr=err)
+        _, status, usage = os.wait4(process.pid, 0)
+        elapsed = time.perf_counter() - started
+        process.returncode = os.waitstatus_to_exitcode(status)
+        err.seek(0)
+        out.seek(0)
+        return (elapsed, process.returncode, usage.ru_maxrss,
+                out.read().decode("utf-8", "replace") if keep_output else "",
+                err.read().decode("utf-8", "replace"))
+
+
+def _error_text(status: int, stderr: str) -> str:
+    """``exit 2: <last line of standard error>``, or the signal that ended the process."""
+    lines = [line.strip() for line in stderr.splitlines() if line.strip()]
+    last = lines[-1] if lines else "(no message)"
+    cause = f"signal {-status}" if status < 0 else f"exit {status}"
+    return f"{cause}: {last[:200]}"
+
+
+def run_command(name: str, command: Sequence[str], runs: int,
+                failed: Callable[[str], str | None] = lambda stderr: None) -> Measure:
+    """Warm up once, then time ``runs`` runs of ``command``.
+
+    ``failed`` may inspect standard error and return an error text for a program that
+    reports failure without a bad exit status (ngspice).
+    """
+    measure = Measure(name)
+    try:
+        _, status, peak, measure.output, stderr = _once(command, keep_output=True)
+    except OSError as exc:
+        measure.error = f"cannot start {command[0]}: {exc.strerror or exc}"
+        return measure
+    problem = failed(stderr)
+    if status not in OK_EXIT_CODES or problem:
+        measure.error = problem or _error_text(status, stderr)
+        return measure
+    peaks = [peak]
+    for _ in range(runs):
+        seconds, status, peak, _, stderr = _once(command, keep_output=False)
+        if status not in OK_EXIT_CODES:
+            measure.error = _error_text(status, stderr)
+            return measure
+        measure.seconds.append(seconds)
+        peaks.append(peak)
+    measure.peak_kb = max(peaks)
+    return measure
+
+
+def time_call(name: str, call: Callable[[], object], runs: int, collect: bool = True) -> Measure:
+    """Time ``runs`` calls of ``call`` in this process (after a full garbage collection each).
+
+    ``collect=False`` runs the calls with the garbage collector disabled.
+    """
+    measure = Measure(name)
+    for _ in range(runs):
+        gc.collect()
+        if not collect:
+            gc.disable()
+        try:
+            started = time.perf_counter()
+            result = call()
+            measure.seconds.append(time.perf_counter() - started)
+        except Exception as exc:  # noqa: BLE001 - any failure is recorded, never hidden
+            measure.error = f"{type(exc).__name__}: {str(exc)[:200]}"
+            return measure
+        finally:
+            gc.enable()
+        del result
+    return measure
