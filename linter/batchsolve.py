@@ -21,7 +21,8 @@ __all__ = ["RowPlan", "element_params", "run", "headroom_offset"]
 
 @dataclass(frozen=True, eq=False)
 class RowPlan:
-    """Corner rows for a bucket: ``codes`` (G, C, A) levels; ``vf_shift`` (C,) V added to
+    """Corner rows for a bucket: ``codes`` (G, C, A) levels (integers at corners, any value
+    in [−1, 1] for random draws); ``vf_shift`` (C,) V added to
     every LED's curve (sensitivity probe); ``aux`` (C,) True for headroom rows."""
 
     codes: np.ndarray
@@ -39,8 +40,10 @@ def _stack(models: list[GroupModel], getter) -> np.ndarray:
     return np.array([getter(m) for m in models], float).reshape(len(models), -1)
 
 
-def _level(code: np.ndarray, low: np.ndarray, mid: np.ndarray, high: np.ndarray) -> np.ndarray:
-    return np.where(code < 0, low, np.where(code > 0, high, mid))
+def _level(code: np.ndarray, low, mid, high) -> np.ndarray:
+    """The value at ``code``: low at −1, mid at 0, high at +1, linear in between (codes may
+    be fractional, as in the Monte Carlo check)."""
+    return np.where(code < 0, mid + code * (mid - low), mid + code * (high - mid))
 
 
 def _rail_volts(models, code, getter) -> np.ndarray:
@@ -108,7 +111,8 @@ def _diode_is(models, plan: RowPlan, rise: np.ndarray) -> tuple[np.ndarray, np.n
         if spec.curve is not None:
             lo, mid, hi = (_stack(models, lambda m, k=k: [getattr(m.diodes[index].curve, k)])
                            for k in ("is_min_vf", "is_typ", "is_max_vf"))
-            base = _level(plan.codes[:, :, spec.axis], lo, mid, hi)
+            base = np.exp(_level(plan.codes[:, :, spec.axis], np.log(lo), np.log(mid),
+                                 np.log(hi)))   # a Vf shift is linear in ln(Is)
             shift = tempco[:, index, None] * rise + plan.vf_shift[None, :]
         else:
             base = _stack(models, lambda m: [m.diodes[index].i_s]) + 0 * rise
@@ -130,8 +134,8 @@ def element_params(models: list[GroupModel], plan: RowPlan, ambient: Ambient) ->
     bf = np.zeros((g, c, len(q)))
     for i, bjt in enumerate(q):
         typ = _stack(models, lambda m: [m.bjts[i].hfe_typ])
-        bf[..., i] = np.where(plan.codes[:, :, bjt.axis] < 0,
-                              _stack(models, lambda m: [m.bjts[i].hfe_min]), typ)
+        bf[..., i] = _level(np.minimum(plan.codes[:, :, bjt.axis], 0),
+                            _stack(models, lambda m: [m.bjts[i].hfe_min]), typ, typ)
     br = _stack(models, lambda m: [b.br for b in m.bjts])
 
     def rows(a: np.ndarray, per_scenario: bool = False) -> np.ndarray:
