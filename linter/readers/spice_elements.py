@@ -88,13 +88,14 @@ def _two_terminal(card: Card, is_model: IsModel) -> ElementCard:
 def _needs_model(card: Card, names: tuple[str, ...], is_model: IsModel) -> ElementCard:
     pins = _nodes(card, names)
     model_index = 1 + len(names)
-    if model_index >= len(card.tokens) or _is_assignment(card.tokens[model_index]):
-        raise fail_at(card, f"{card.tokens[0].text} needs a model name after its "
-                            f"{len(names)} nodes ({' '.join(names)})")
-    model = card.tokens[model_index]
-    if not is_model(model.text):
-        if card.keyword[0] == "m" and is_model(card.tokens[model_index - 1].text):
-            raise fail_at(card, f"{card.tokens[0].text} needs 4 nodes (D G S B), found 3")
+    model = card.tokens[model_index] if model_index < len(card.tokens) else None
+    if model is None or _is_assignment(model) or not is_model(model.text):
+        if is_model(card.tokens[model_index - 1].text):  # a model where the last node belongs
+            raise fail_at(card, f"{card.tokens[0].text} needs {len(names)} nodes "
+                                f"({' '.join(names)}), found {len(names) - 1}")
+        if model is None or _is_assignment(model):
+            raise fail_at(card, f"{card.tokens[0].text} needs a model name after its "
+                                f"{len(names)} nodes ({' '.join(names)})")
         raise fail_at(model, f"{card.tokens[0].text}: no .model {model.text!r}")
     params = tuple(t for t in card.tokens[model_index + 1:] if _is_assignment(t))
     return ElementCard(card.tokens[0], card.keyword[0].upper(), pins, None, model.text, model, params, card=card)
