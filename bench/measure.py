@@ -16,6 +16,7 @@ import os
 import statistics
 import subprocess
 import tempfile
+import threading
 import time
 from dataclasses import dataclass, field
 from typing import Any, Callable, Sequence
@@ -24,6 +25,8 @@ __all__ = ["Measure", "run_command", "time_call", "OK_EXIT_CODES"]
 
 OK_EXIT_CODES = (0, 1)
 """Exit statuses that mean the command did its work (ledlint: 1 = findings at the fail level)."""
+TIMEOUT = 900.0
+"""Seconds after which a run is killed and the measure recorded as an error."""
 
 
 @dataclass
@@ -50,14 +53,22 @@ class Measure:
 
 
 def _once(command: Sequence[str], keep_output: bool) -> tuple[float, int, int, str, str]:
-    """Seconds, exit status, peak KiB, standard output (if kept) and error of one run."""
+    """Seconds, exit status, peak KiB, standard output (if kept) and error of one run.
+
+    A run still going after :data:`TIMEOUT` seconds is killed; its error text says so.
+    """
     with tempfile.TemporaryFile() as err, tempfile.TemporaryFile() as out:
         started = time.perf_counter()
         process = subprocess.Popen(command, stdin=subprocess.DEVNULL,
                                    stdout=out if keep_output else subprocess.DEVNULL,
                                    stderr=err)
+        timer = threading.Timer(TIMEOUT, process.kill)
+        timer.start()
         _, status, usage = os.wait4(process.pid, 0)
         elapsed = time.perf_counter() - started
+        timer.cancel()
+        if elapsed >= TIMEOUT:
+            err.write(f"timed out after {TIMEOUT:g} s\n".encode())
         process.returncode = os.waitstatus_to_exitcode(status)
         err.seek(0)
         out.seek(0)
