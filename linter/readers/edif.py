@@ -29,7 +29,7 @@ from linter.kinds import infer_kind
 from linter.model import Circuit, Net, Part, Pin, SourceLocation
 from linter.readers.edif_flatten import FlatDesign, Leaf, NetWire, flatten
 from linter.readers.edif_syntax import member_display, read_edif_file
-from linter.readers.sexpr import Document, parse
+from linter.readers.sexpr import Document, parse, paused_gc
 from linter.units import ValueParseError, parse_number
 
 __all__ = ["read_edif", "VALUE_KEYS", "PART_NUMBER_KEYS", "REFERENCE_KEYS"]
@@ -59,6 +59,11 @@ def read_edif(text: str, source: str) -> Circuit:
     """
     if not text.strip():
         raise NetlistError(source, 1, 1, "empty file; expected an EDIF netlist")
+    with paused_gc():  # the records point into a large tree; see sexpr.paused_gc
+        return _read(text, source)
+
+
+def _read(text: str, source: str) -> Circuit:
     doc = parse(text, source)
     edif = read_edif_file(doc)
     flat = flatten(edif)

@@ -36,6 +36,7 @@ from __future__ import annotations
 import gc
 import re
 from bisect import bisect_right
+from contextlib import contextmanager
 from itertools import accumulate
 from typing import Iterator
 
@@ -43,7 +44,7 @@ from sexpdata import Symbol
 
 from linter.errors import NetlistError
 
-__all__ = ["MAX_DEPTH", "Document", "parse", "Symbol"]
+__all__ = ["MAX_DEPTH", "Document", "parse", "paused_gc", "Symbol"]
 
 MAX_DEPTH = 1000
 """Deepest list nesting accepted. EDIF netlists nest about 10 deep; 1,000 is far beyond any
@@ -60,6 +61,22 @@ _INT = re.compile(r"[+-]?[0-9]+")
 _FLOAT = re.compile(r"[+-]?(?:[0-9]+\.[0-9]*|\.[0-9]+|[0-9]+)(?:[eE][+-]?[0-9]+)?")
 _NUMBER_START = frozenset("0123456789+-.")
 _MAX_INT_DIGITS = 4000  # below Python's int/str conversion limit (4300 digits)
+
+
+@contextmanager
+def paused_gc() -> Iterator[None]:
+    """Pause the cyclic garbage collector while building a large tree, then restore it.
+
+    The trees hold no reference cycles; without the pause, each generation-2 collection
+    re-walks every list built so far, which makes building a big netlist's records quadratic-ish.
+    """
+    collecting = gc.isenabled()
+    gc.disable()
+    try:
+        yield
+    finally:
+        if collecting:
+            gc.enable()
 
 
 class _SyntaxProblem(Exception):
@@ -130,16 +147,12 @@ def parse(text: str, source: str) -> Document:
     >>> parse('(cell (rename a "A") 3)', "x").root
     [Symbol('cell'), [Symbol('rename'), Symbol('a'), 'A'], 3]
     """
-    collecting = gc.isenabled()
-    gc.disable()
     try:
-        top, lists = _build(_TOKEN.findall(text))
+        with paused_gc():
+            top, lists = _build(_TOKEN.findall(text))
     except _SyntaxProblem:
         _raise_located(text, source)
-        raise AssertionError("the located parser accepted what the fast parser refused")
-    finally:
-        if collecting:
-            gc.enable()
+        raise AssertionError("the located parser accepted what the fast parser refused") from None
     doc = Document(text, source, None, lists)
     if len(top) != 1:
         _raise_located(text, source)
