@@ -35,6 +35,8 @@ class Rule:
     default_severity: ClassVar[str] = "warning"
     aliases: ClassVar[tuple[str, ...]] = ()
     groups: ClassVar[tuple[str, ...]] = ()
+    options: ClassVar[tuple[Any, ...]] = ()
+    """Declared options (``linter.config.RuleOption``); settings naming others are refused."""
 
     def check(self, context: Any) -> Iterable["Finding"]:
         """The findings of this rule on an analysed board; never prints."""
