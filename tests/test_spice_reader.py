@@ -382,3 +382,21 @@ def test_no_trap_for_spellings_that_read_alike() -> None:
 def test_other_bad_input_is_located(text: str, message: str) -> None:
     # line and column read off each text: the card, or the token at fault
     assert error_of(text) == message
+
+
+# ---- anything else ----------------------------------------------------------------------------
+
+_WORDS = ["R1", "C2", "D3", "Q4", "M5", "J6", "V7", "I8", "E9", "F1", "G2", "H3", "B4", "X5", "XU1",
+          "W1", "a", "b", "0", "gnd", "1k", "4k7", "{x}", "{1/0}", "'a+b'", ".subckt", "s", "p", "q",
+          ".ends", ".model", "dm", "D", "NPN", "(", ")", "IS=1e-14", "r=2", "params:", ".param",
+          "x=3", ".include", ".lib", "f.inc", "+", "*", ";", "$", "=", ",", "1M", "DC", "PULSE",
+          "\n", ".end", ".global", "{", "}", "'", '"', ".control", ".endc", "Ω", "1e999", "-"]
+
+
+@given(st.lists(st.sampled_from(_WORDS), max_size=60))
+def test_any_text_reads_or_fails_with_one_located_line(words: list[str]) -> None:
+    text = "title\n" + " ".join(words)
+    try:
+        read(text)
+    except NetlistError as exc:
+        assert "\n" not in str(exc) and str(exc).startswith("deck.cir:")
