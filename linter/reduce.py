@@ -34,7 +34,7 @@ def describe_corner(model: GroupModel, codes: np.ndarray, scenario: int,
         if axis.kind == "ambient":
             temp = {-1: ambient.min, 0: ambient.reference, 1: ambient.max}[code]
         elif axis.kind == "rail":
-            rail = next((r for r in rails.values() if r.name == axis.name), None)
+            rail = rails.get(axis.name)
             volts = {-1: rail.min, 0: rail.nom, 1: rail.max}[code] if rail else float("nan")
             out["rail"][axis.name] = (name, volts)
         else:
@@ -50,9 +50,15 @@ class _Reducer:
                  ambient: Ambient) -> None:
         self.model, self.out, self.codes, self.c, self.ambient = model, out, codes, corners, ambient
         self.ok = out["converged"][:, :corners, 0].astype(bool)
+        self.described: dict[tuple[int, int], Corner] = {}
 
     def corner(self, s: int, c: int) -> Corner:
-        return describe_corner(self.model, self.codes[c], s, self.ambient)
+        """The Corner of row (s, c), described once per group."""
+        found = self.described.get((s, c))
+        if found is None:
+            found = self.described[(s, c)] = describe_corner(self.model, self.codes[c], s,
+                                                             self.ambient)
+        return found
 
     def span(self, values: np.ndarray, scenarios: np.ndarray | None = None,
              nominal_scenario: int | None = None) -> Span:

@@ -26,6 +26,7 @@ Elements and their terminals:
 from __future__ import annotations
 
 from dataclasses import dataclass, field, fields, replace
+from functools import cached_property
 
 import numpy as np
 
@@ -75,21 +76,33 @@ class Network:
     mosfet_polarity: np.ndarray = field(default_factory=lambda: np.zeros(0))
 
     def __post_init__(self) -> None:
-        n = self.n_nodes
-        terminals = np.concatenate([np.asarray(a, int).reshape(-1) for a in
-                                    (self.resistors, self.diodes, self.bjts, self.mosfets)])
-        if terminals.size and (terminals.min() < 0 or terminals.max() >= n + self.n_fixed):
+        terminals = self._terminals()
+        if terminals.size and (terminals.min() < 0 or terminals.max() >= self.n_all):
             raise ValueError("element terminal outside the network's nodes")
-        scatter_f = np.zeros((terminals.size, n))
-        inner = terminals < n
-        scatter_f[np.nonzero(inner)[0], terminals[inner]] = 1.0
+
+    def _terminals(self) -> np.ndarray:
+        return np.concatenate([np.asarray(a, int).reshape(-1) for a in
+                               (self.resistors, self.diodes, self.bjts, self.mosfets)])
+
+    @cached_property
+    def scatter_f(self) -> np.ndarray:
+        """(T, n): terminal currents → KCL residual at the unknown nodes."""
+        terminals = self._terminals()
+        scatter = np.zeros((terminals.size, self.n_nodes))
+        inner = terminals < self.n_nodes
+        scatter[np.nonzero(inner)[0], terminals[inner]] = 1.0
+        return scatter
+
+    @cached_property
+    def scatter_j(self) -> np.ndarray:
+        """(T·t, n·n): terminal conductances → Jacobian entries of the unknown nodes."""
+        n = self.n_nodes
         pairs = np.concatenate([_pairs(np.asarray(a, int)).reshape(-1, 2) for a in
                                 (self.resistors, self.diodes, self.bjts, self.mosfets)])
-        scatter_j = np.zeros((pairs.shape[0], n * n))
+        scatter = np.zeros((pairs.shape[0], n * n))
         both = (pairs[:, 0] < n) & (pairs[:, 1] < n)
-        scatter_j[np.nonzero(both)[0], pairs[both, 0] * n + pairs[both, 1]] = 1.0
-        object.__setattr__(self, "scatter_f", scatter_f)
-        object.__setattr__(self, "scatter_j", scatter_j)
+        scatter[np.nonzero(both)[0], pairs[both, 0] * n + pairs[both, 1]] = 1.0
+        return scatter
 
     @property
     def n_all(self) -> int:
