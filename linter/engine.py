@@ -16,7 +16,7 @@ together:
 from __future__ import annotations
 
 import datetime as dt
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 from typing import Any, Mapping
 
@@ -98,9 +98,16 @@ def load_inputs(request: CheckRequest, registry: Mapping[str, Any] | None = None
 def analyse(context: AnalysisContext) -> AnalysisContext:
     """LED groups and their solved operating points: the context with ``groups`` filled.
 
-    The seam for group analysis (topology, solve): until it lands, no groups are found.
+    Topology finds the groups (:func:`linter.topology.find_groups`); the solver computes every
+    group at every corner at once (:func:`linter.analysis.analyse`).
     """
-    return context
+    from linter.analysis import analyse as solve_groups
+    from linter.topology import find_groups
+
+    groups = find_groups(context.circuit, context.rails, context.part_data)
+    solved = solve_groups(groups, context.circuit, context.part_data, context.rails,
+                          context.settings.ambient)
+    return replace(context, groups=solved)
 
 
 def _notes_as_findings(context: AnalysisContext, registry: Mapping[str, Any]) -> list[Finding]:

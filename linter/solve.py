@@ -238,6 +238,20 @@ def _step_factor(net: Network, p: Params, x: np.ndarray, dx: np.ndarray) -> np.n
     return np.clip(np.min(ratio, axis=1), 1e-6, 1.0)
 
 
+def _newton_step(jacobian: np.ndarray, residual: np.ndarray) -> np.ndarray:
+    """The Newton step ``-J⁻¹·F`` for every row.
+
+    A row whose Jacobian is numerically singular (a cluster of junctions far into forward
+    bias joined to the rest only by ordinary conductances: 1e16 S against 0.2 S) makes the
+    batched LU solve fail for the whole batch; the pseudo-inverse (SVD) then gives the
+    minimum-norm step for every row, and junction limiting takes it from there.
+    """
+    try:
+        return np.linalg.solve(jacobian, -residual[..., None])[..., 0]
+    except np.linalg.LinAlgError:
+        return (np.linalg.pinv(jacobian) @ -residual[..., None])[..., 0]
+
+
 def solve(net: Network, params: Params, initial: np.ndarray | None = None,
           max_iterations: int = MAX_ITERATIONS) -> Solution:
     """Newton's method on every row; converged when |F| ≤ 1e-9 A and the step ≤ 1e-9 V.
@@ -258,7 +272,7 @@ def solve(net: Network, params: Params, initial: np.ndarray | None = None,
         p = params.take(active) if active.size < rows else params
         xa = x[active]
         f, j = _assemble(net, p, xa)
-        dx = np.linalg.solve(j, -f[..., None])[..., 0] if n else np.zeros_like(xa)
+        dx = _newton_step(j, f) if n else np.zeros_like(xa)
         dx = np.where(np.isfinite(dx), dx, 0.0)
         alpha = _step_factor(net, p, xa, dx)
         x[active] = xa + alpha[:, None] * dx
