@@ -69,14 +69,14 @@ def find_groups(circuit: Circuit, rails: Mapping[str, Rail],
     order = {ref: position for position, ref in enumerate(circuit.parts)}
     placed: set[str] = set()
     groups: list[Group] = []
-    for led in sorted((part.ref for part in circuit.leds()), key=natural_key):
+    for led in sorted((part.ref for part in circuit.leds()), key=index.sort_key):
         if led in placed:
             continue
         cluster = grow_cluster(index, led)
         group = _classify(index, cluster, order, placed)
         placed.update(group.leds)
         groups.append(group)
-    return tuple(sorted(groups, key=lambda group: natural_key(group.id[2:])))
+    return tuple(sorted(groups, key=lambda group: index.sort_key(group.id[2:])))
 
 
 def _cluster_leds(index: CircuitIndex, cluster: Cluster, order: Mapping[str, int],

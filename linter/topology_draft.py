@@ -8,7 +8,6 @@ strings by their first LED).
 from __future__ import annotations
 
 from linter.groups import Group, PinDrive, Scenario
-from linter.refs import natural_key
 from linter.topology_index import CircuitIndex
 from linter.topology_shape import Bank, Strand
 from linter.topology_walk import Cluster
@@ -33,11 +32,11 @@ class Draft:
             found = [s.leds for s in self.strands if s.leds]
         else:
             found = [(led,) for led in self.leds]
-        return tuple(sorted(found, key=lambda leds: natural_key(leds[0])))
+        return tuple(sorted(found, key=lambda leds: self.index.sort_key(leds[0])))
 
     def pins(self) -> tuple[PinDrive, ...]:
         found = dict.fromkeys(self.cluster.pins + self.extra_pins)
-        return tuple(sorted(found, key=lambda pin: natural_key(pin.id)))
+        return tuple(sorted(found, key=lambda pin: self.index.sort_key(pin.id)))
 
     def group(self, topology: str, setter: str | None = None,
               scenarios: tuple[Scenario, ...] | None = None, reason: str | None = None,
@@ -49,12 +48,13 @@ class Draft:
         nets = set(self.cluster.nets) | set(self.extra_nets)
         nets.update(p.supply for p in pins if p.supply in self.index.rails)
         rails = [net for net in nets if net in self.index.rails]
-        first = min(self.leds, key=natural_key)
+        key = self.index.sort_key
+        first = min(self.leds, key=key)
         return Group(
             id=f"G-{first}", topology=topology, leds=self.leds, strings=self.strings(),
-            parts=tuple(sorted(parts, key=natural_key)),
-            nets=tuple(sorted(nets, key=natural_key)),
-            rails=tuple(sorted(rails, key=natural_key)), setter=setter, pins=pins,
+            parts=tuple(sorted(parts, key=key)),
+            nets=tuple(sorted(nets, key=key)),
+            rails=tuple(sorted(rails, key=key)), setter=setter, pins=pins,
             scenarios=scenarios or (Scenario("on", {}, self.leds),), reason=reason,
             transistor=transistor, drive=drive)
 

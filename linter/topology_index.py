@@ -22,13 +22,17 @@ Capacitors are open at DC: their pins are left out of every net.
 
 from __future__ import annotations
 
+from dataclasses import dataclass
+from functools import cached_property
 from typing import Literal, Mapping
 
 from linter.model import Circuit, Part, Pin
 from linter.partdata import BjtData, McuData, MosfetData, PartData, Rail
+from linter.refs import natural_key
 
 __all__ = [
     "CircuitIndex",
+    "NetSplit",
     "Role",
     "SERIES_KINDS",
     "DC_OPEN_KINDS",
@@ -59,6 +63,27 @@ _SUPPLY_NAMES: tuple[str, ...] = ("VDD", "VCC", "VDDIO")
 Polarity = Literal["npn", "pnp", "nmos", "pmos"]
 
 
+@dataclass(frozen=True)
+class NetSplit:
+    """The pins of one net by what a walk does with them.
+
+    ``mcu``: microcontroller pins; ``controls``: transistors whose base or gate is on the
+    net; ``rest``: every other (reference, pin) pair; ``foreign``: those of ``rest`` whose
+    part no walk passes through (connector, source, IC, plain diode…). A bias net shared by
+    thousands of sinks is split once, not once per sink.
+    """
+
+    mcu: tuple[tuple[str, str], ...]
+    controls: tuple[str, ...]
+    rest: tuple[tuple[str, str], ...]
+    foreign: tuple[tuple[str, str], ...] = ()
+
+    @cached_property
+    def control_set(self) -> frozenset[str]:
+        """``controls`` as a set, for membership tests."""
+        return frozenset(self.controls)
+
+
 class CircuitIndex:
     """Cached look-ups over one Circuit, its rails and its part data (by reference).
 
@@ -73,6 +98,9 @@ class CircuitIndex:
         self.part_data = part_data
         self._net_pins: dict[str, tuple[tuple[str, str], ...]] = {}
         self._roles: dict[str, Role] = {}
+        self._splits: dict[str, NetSplit] = {}
+        self._terminals: dict[str, dict[str, Pin] | None] = {}
+        self._keys: dict[str, tuple] = {}
         self._from_parts: dict[str, list[tuple[str, str]]] | None = None
 
     # -- parts -------------------------------------------------------------------------
@@ -111,6 +139,14 @@ class CircuitIndex:
             return "mcu"
         return "foreign"
 
+    def sort_key(self, name: str) -> tuple:
+        """:func:`linter.refs.natural_key` of a reference or net name (cached)."""
+        found = self._keys.get(name)
+        if found is None:
+            found = natural_key(name)
+            self._keys[name] = found
+        return found
+
     # -- nets --------------------------------------------------------------------------
     def pins_on(self, net: str) -> tuple[tuple[str, str], ...]:
         """(reference, pin name) pairs on ``net``, capacitors left out (cached)."""
@@ -133,6 +169,28 @@ class CircuitIndex:
                         table.setdefault(pin.net, []).append((ref, pin.name))
             self._from_parts = table
         return tuple(self._from_parts.get(net, ()))
+
+    def split(self, net: str) -> NetSplit:
+        """The net's pins split into microcontroller pins, transistor controls, the rest."""
+        found = self._splits.get(net)
+        if found is None:
+            mcu, controls, rest = [], [], []
+            for ref, pin_name in self.pins_on(net):
+                role = self.role(ref)
+                if role == "mcu":
+                    mcu.append((ref, pin_name))
+                elif role == "transistor" and self._is_control(ref, pin_name):
+                    controls.append(ref)
+                else:
+                    rest.append((ref, pin_name))
+            foreign = tuple(pair for pair in rest if self.role(pair[0]) == "foreign")
+            found = NetSplit(tuple(mcu), tuple(controls), tuple(rest), foreign)
+            self._splits[net] = found
+        return found
+
+    def _is_control(self, ref: str, pin_name: str) -> bool:
+        terminals = self.transistor_pins(ref)
+        return terminals is not None and terminals["b"].name == pin_name
 
     def rail(self, net: str | None) -> Rail | None:
         """The rail on ``net``, or None."""
@@ -161,7 +219,12 @@ class CircuitIndex:
         return anodes[0], cathodes[0]
 
     def transistor_pins(self, ref: str) -> dict[str, Pin] | None:
-        """``{"c": …, "b": …, "e": …}`` (drain, gate, source for a MOSFET), or None."""
+        """``{"c": …, "b": …, "e": …}`` (drain, gate, source for a MOSFET), or None (cached)."""
+        if ref not in self._terminals:
+            self._terminals[ref] = self._transistor_pins(ref)
+        return self._terminals[ref]
+
+    def _transistor_pins(self, ref: str) -> dict[str, Pin] | None:
         kind = self.kind(ref)
         names = _BJT_ROLES if kind in ("npn", "pnp") else _FET_ROLES
         found: dict[str, Pin] = {}

@@ -16,10 +16,11 @@ from __future__ import annotations
 
 from collections import deque
 from dataclasses import dataclass, field
+from itertools import islice
 
 from linter.groups import PinDrive
 from linter.model import Pin
-from linter.topology_index import CircuitIndex
+from linter.topology_index import CircuitIndex, NetSplit
 
 __all__ = ["Chain", "Cluster", "Control", "walk_chain", "grow_cluster", "walk_control",
            "MAX_GROUP_PARTS", "MAX_CONTROL_PARTS"]
@@ -29,6 +30,9 @@ MAX_GROUP_PARTS = 256
 
 MAX_CONTROL_PARTS = 16
 """A base or gate network larger than this is reported as unrecognised."""
+
+SHOWN_SHARERS = 3
+"""How many of the transistors sharing a bias net a note names."""
 
 _TERMINAL_WORDS = {"b": "base", "c": "collector", "e": "emitter"}
 _FET_WORDS = {"b": "gate", "c": "drain", "e": "source"}
@@ -110,26 +114,33 @@ def walk_chain(index: CircuitIndex, start: str) -> Chain:
 
 def _mcu_pins(index: CircuitIndex, net: str) -> list[PinDrive]:
     """Microcontroller pins on ``net``."""
-    return [PinDrive(ref, pin, net, index.supply_net(ref))
-            for ref, pin in index.pins_on(net) if index.role(ref) == "mcu"]
+    return [PinDrive(ref, pin, net, index.supply_net(ref)) for ref, pin in index.split(net).mcu]
 
 
-def _visit_net(index: CircuitIndex, cluster: Cluster, net: str, queue: deque) -> None:
-    """Take in what meets the cluster at a net that is neither a rail nor a pin."""
+def _visit_net(index: CircuitIndex, cluster: Cluster, net: str, queue: deque,
+               limit: int) -> None:
+    """Take in what meets the cluster at a net that is neither a rail nor a pin.
+
+    A net that reaches a part no walk passes through (a connector, a source, an IC: often a
+    supply whose voltage was not given) is the edge of the cluster, with a problem.
+    """
     pins = index.pins_on(net)
     if len(pins) == 1:
         cluster.problems.append(_dead_end_message(index, net, *pins[0]))
         return
+    foreign = index.split(net).foreign
+    if foreign:
+        cluster.problems.append(_foreign_message(index, net, *foreign[0]))
+        return
     for ref, pin_name in pins:
         if ref in cluster.seen:
             continue
-        role = index.role(ref)
-        if role == "series":
+        if index.role(ref) == "series":
             _add_chain(index, cluster, walk_chain(index, ref), queue)
-        elif role == "transistor":
-            _add_transistor(index, cluster, ref, pin_name, net, queue)
         else:
-            cluster.problems.append(_foreign_message(index, net, ref, pin_name))
+            _add_transistor(index, cluster, ref, pin_name, net, queue)
+        if len(cluster.seen) > limit:
+            return
 
 
 def _foreign_message(index: CircuitIndex, net: str, ref: str, pin_name: str) -> str:
@@ -205,7 +216,7 @@ def grow_cluster(index: CircuitIndex, led: str, limit: int = MAX_GROUP_PARTS) ->
         if pins:
             cluster.pins.extend(pins)
             continue
-        _visit_net(index, cluster, net, queue)
+        _visit_net(index, cluster, net, queue, limit)
         if len(cluster.seen) > limit:
             cluster.problems.append(f"the network around {led} has more than {limit} parts")
             break
@@ -253,33 +264,36 @@ def walk_control(index: CircuitIndex, transistor: str, net: str | None,
 def _control_step(index: CircuitIndex, control: Control, transistor: str, net: str) -> list[str]:
     """Parts on one net of a control network; returns the nets beyond them."""
     beyond: list[str] = []
-    pins = index.pins_on(net)
-    if len(pins) == 1:
+    split = index.split(net)
+    if len(split.rest) + len(split.controls) == 1:
         control.problems.append(f"{transistor}: net {net} has no path to a rail or pin")
-    for ref, pin_name in pins:
+    for ref, pin_name in split.rest:
         if ref == transistor or ref in control.parts:
             continue
         kind = index.kind(ref)
-        role = index.role(ref)
-        two_pins = len(index.part(ref).pins) == 2
-        if kind in ("resistor", "link", "diode") and two_pins:
+        if kind in ("resistor", "link", "diode") and len(index.part(ref).pins) == 2:
             control.parts.append(ref)
             other = index.other_pin(ref, pin_name).net
             if other is None:
                 control.problems.append(f"{ref}: pin is not connected")
             else:
                 beyond.append(other)
-        elif role == "transistor" and _is_control_pin(index, ref, pin_name):
-            control.notes.append(f"{transistor} shares its bias with {ref}")
         else:
             control.problems.append(f"{transistor}: {terminal_word(index, transistor, 'b')} "
                                     f"network reaches {ref} ({kind}), which is not recognised")
+    _note_shared_bias(control, transistor, split)
     return beyond
 
 
-def _is_control_pin(index: CircuitIndex, ref: str, pin_name: str) -> bool:
-    terminals = index.transistor_pins(ref)
-    return terminals is not None and terminals["b"].name == pin_name
+def _note_shared_bias(control: Control, transistor: str, split: NetSplit) -> None:
+    """One note naming (the first few of) the other transistors on the same bias net."""
+    count = len(split.controls) - (transistor in split.control_set)
+    if count <= 0:
+        return
+    shown = ", ".join(islice((ref for ref in split.controls if ref != transistor),
+                             SHOWN_SHARERS))
+    more = f" and {count - SHOWN_SHARERS} more" if count > SHOWN_SHARERS else ""
+    control.notes.append(f"{transistor} shares its bias with {shown}{more}")
 
 
 def _drive_kind(index: CircuitIndex, control: Control, transistor: str, word: str) -> str | None:

@@ -243,6 +243,16 @@ def test_parallel_bank_behind_switch_is_labelled_parallel():
     assert (group.topology, group.setter, group.transistor) == ("parallel", "R6", "Q2")
 
 
+def test_sinks_sharing_one_bias_divider_are_separate_groups_with_a_note():
+    circuit = build("D1 led A:+12V K:C1", "Q1 npn C:C1 B:BB E:E1", "R1 resistor 1:E1 2:GND",
+                    "D2 led A:+12V K:C2", "Q2 npn C:C2 B:BB E:E2", "R2 resistor 1:E2 2:GND",
+                    "R10 resistor 1:+5V 2:BB", "R11 resistor 1:BB 2:GND")
+    first, second = find_groups(circuit, RAILS, {})
+    assert (first.topology, first.transistor, second.transistor) == ("npn-sink", "Q1", "Q2")
+    assert {"R10", "R11"} <= set(first.parts) and {"R10", "R11"} <= set(second.parts)
+    assert first.reason == "Q1 shares its bias with Q2"
+
+
 def test_transistor_polarity_from_part_data():
     circuit = build(*SINK, "R10 resistor 1:+5V 2:BB", "R11 resistor 1:BB 2:GND")
     parts = dict(circuit.parts)
@@ -298,6 +308,16 @@ def test_two_rails_at_one_voltage_are_unrecognised():
     group = only(build("R1 resistor 1:+5V 2:A1", "D1 led A:A1 K:VCC"), rails=rails)
     assert group.topology == "unrecognised"
     assert "both ends reach rails at 5 V (+5V, VCC)" in group.reason
+
+
+def test_supply_without_voltage_is_the_edge_of_each_group():
+    # J3 feeds VLED, whose voltage is not given: each LED branch is its own group.
+    circuit = build("J3 connector 1:VLED 2:GND", "R1 resistor 1:VLED 2:A1", "D1 led A:A1 K:GND",
+                    "R2 resistor 1:VLED 2:A2", "D2 led A:A2 K:GND")
+    groups = find_groups(circuit, RAILS, {})
+    assert [(g.id, g.topology) for g in groups] == [("G-D1", "unrecognised"),
+                                                     ("G-D2", "unrecognised")]
+    assert all("rail of net VLED has no known voltage" in g.reason for g in groups)
 
 
 def test_unrecognised_group_still_lists_its_parts():
