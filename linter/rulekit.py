@@ -1,0 +1,117 @@
+"""Small shared helpers for the electrical rules: the group's rail, part data, corner phrases.
+
+Rules quote the decisive numbers with units and the corner that gives them
+("D2: 25.9 mA at +12V max (13.2 V), LEDs at vf_min, above its 25 mA maximum"). These helpers
+keep that wording the same across rules. Pure functions; all values SI floats.
+"""
+
+from __future__ import annotations
+
+from typing import Any, Iterable, Iterator
+
+from linter.corners import Corner
+from linter.partdata import BjtData, LedData, Rail, ResistorData
+from linter.units import format_si
+
+__all__ = ["solved_groups", "group_rail", "led_data", "resistor_data", "bjt_data",
+           "corner_phrase", "at_corner", "amps", "volts", "ohms", "watts", "say"]
+
+
+def solved_groups(context: Any) -> Iterator[Any]:
+    """The groups of ``context`` whose operating points were solved (GroupResult)."""
+    for result in getattr(context, "groups", ()) or ():
+        if getattr(result, "status", None) == "solved":
+            yield result
+
+
+def group_rail(context: Any, result: Any) -> Rail | None:
+    """The Rail the group hangs from (its highest non-ground rail), or None when unknown."""
+    name = getattr(result, "rail", None)
+    return None if name is None else context.rails.get(name)
+
+
+def led_data(context: Any, ref: str) -> LedData | None:
+    """The LED's datasheet record, or None when the part data holds none."""
+    data = context.part_data.get(ref)
+    return data if isinstance(data, LedData) else None
+
+
+def resistor_data(context: Any, ref: str) -> ResistorData | None:
+    """The resistor's record, or None."""
+    data = context.part_data.get(ref)
+    return data if isinstance(data, ResistorData) else None
+
+
+def bjt_data(context: Any, ref: str) -> BjtData | None:
+    """The bipolar transistor's record, or None."""
+    data = context.part_data.get(ref)
+    return data if isinstance(data, BjtData) else None
+
+
+def amps(value: float) -> str:
+    """``"25.9 mA"``."""
+    return format_si(value, "A")
+
+
+def volts(value: float) -> str:
+    """``"13.2 V"``."""
+    return format_si(value, "V")
+
+
+def ohms(value: float) -> str:
+    """``"150 Ω"``."""
+    return format_si(value, "Ω")
+
+
+def watts(value: float) -> str:
+    """``"113 mW"``."""
+    return format_si(value, "W")
+
+
+def _vf_phrase(bins: dict[str, str], focus: Iterable[str] = ()) -> str | None:
+    """``"LEDs at vf_min"``, or ``"D7 at vf_min, the others at vf_max"``."""
+    if not bins:
+        return None
+    distinct = set(bins.values())
+    if len(distinct) == 1:
+        return f"LEDs at {distinct.pop()}"
+    for ref in focus:
+        if ref in bins:
+            others = {b for r, b in bins.items() if r != ref}
+            if len(others) == 1:
+                return f"{ref} at {bins[ref]}, the others at {others.pop()}"
+    return ", ".join(f"{ref} at {b}" for ref, b in bins.items())
+
+
+def corner_phrase(corner: Corner | None, rails: Iterable[str] | None = None,
+                  focus: Iterable[str] = ()) -> str:
+    """The decisive parts of a corner in words: rails, LED bins, ambient if not 25 °C.
+
+    ``rails`` limits the rails named (default: all of the corner's); ``focus`` names the LED
+    whose bin is told apart from the others'.
+
+    >>> corner_phrase(Corner("on", {"+12V": ("max", 13.2)}, 25.0, {"D1": "vf_min"}))
+    '+12V max (13.2 V), LEDs at vf_min'
+    """
+    if corner is None:
+        return "an unknown corner"
+    wanted = None if rails is None else set(rails)
+    parts = [f"{name} {level} ({v:g} V)" for name, (level, v) in corner.rails.items()
+             if wanted is None or name in wanted]
+    vf = _vf_phrase(dict(corner.vf), focus)
+    if vf:
+        parts.append(vf)
+    if corner.ambient_c != 25.0:
+        parts.append(f"{corner.ambient_c:g} °C")
+    return ", ".join(parts) if parts else "the nominal corner"
+
+
+def at_corner(corner: Corner | None, result: Any, focus: Iterable[str] = ()) -> str:
+    """``corner_phrase`` limited to the group's own rail (the one named in ``result.rail``)."""
+    rail = getattr(result, "rail", None)
+    return corner_phrase(corner, None if rail is None else (rail,), focus)
+
+
+def say(ref: str, text: str) -> str:
+    """A finding message: ``"D2: text"``."""
+    return f"{ref}: {text}"
