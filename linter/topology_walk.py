@@ -198,9 +198,23 @@ def _add_transistor(index: CircuitIndex, cluster: Cluster, ref: str, pin_name: s
             queue.append(terminals[role].net)
 
 
+def _lone_led(index: CircuitIndex, cluster: Cluster, led: str) -> Cluster:
+    """An LED without exactly two pins: a cluster of its own, with the problem."""
+    pins = index.part(led).pins
+    cluster.chains.append(Chain((led,), (None, None)))
+    cluster.seen.add(led)
+    cluster.nets.update(pin.net for pin in pins if pin.net is not None)
+    names = ", ".join(pin.name for pin in pins) or "none"
+    cluster.problems.append(f"{led}: an LED with {len(pins)} pins ({names}) is not recognised "
+                            f"(two pins, anode and cathode, expected)")
+    return cluster
+
+
 def grow_cluster(index: CircuitIndex, led: str, limit: int = MAX_GROUP_PARTS) -> Cluster:
     """Every chain and transistor joined to ``led``'s chain away from rails and pins."""
     cluster = Cluster()
+    if index.role(led) != "series":
+        return _lone_led(index, cluster, led)
     queue: deque[str] = deque()
     _add_chain(index, cluster, walk_chain(index, led), queue)
     visited: set[str] = set()

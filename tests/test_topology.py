@@ -320,6 +320,13 @@ def test_supply_without_voltage_is_the_edge_of_each_group():
     assert all("rail of net VLED has no known voltage" in g.reason for g in groups)
 
 
+def test_led_with_three_pins_is_unrecognised():
+    # An RGB-style package: three pins where two are expected.
+    group = only(build("R1 resistor 1:+5V 2:A1", "D1 led A:A1 K:GND K2:GND"))
+    assert group.topology == "unrecognised"
+    assert group.reason.startswith("D1: an LED with 3 pins (A, K, K2) is not recognised")
+
+
 def test_unrecognised_group_still_lists_its_parts():
     group = only(build("R1 resistor 1:+5V 2:A9", "D9 led A:A9 K:LED_K",
                        "C1 capacitor 1:LED_K 2:GND"))
@@ -354,7 +361,7 @@ def test_result_does_not_depend_on_netlist_order():
     assert find_groups(build(*specs), RAILS, {}) == reference
 
 
-_KINDS = ("led", "led", "led", "resistor", "resistor", "link", "capacitor", "npn", "nmos",
+_KINDS = ("led", "led", "led", "led3", "resistor", "resistor", "link", "capacitor", "npn", "nmos",
           "pmos", "diode", "mcu")
 _NETS = ("+5V", "GND", "+12V", "N1", "N2", "N3", "N4", "N5")
 
@@ -365,10 +372,11 @@ def random_boards(draw):
     specs = []
     for number in range(count):
         kind = draw(st.sampled_from(_KINDS))
-        names = {"led": "A K", "resistor": "1 2", "link": "1 2", "capacitor": "1 2",
+        names = {"led": "A K", "led3": "A K K2", "resistor": "1 2", "link": "1 2", "capacitor": "1 2",
                  "diode": "A K", "npn": "C B E", "nmos": "D G S", "pmos": "D G S",
                  "mcu": "PA0 PA1 VDD"}[kind].split()
         nets = [draw(st.sampled_from(_NETS + ("",))) for _ in names]
+        kind = "led" if kind == "led3" else kind
         specs.append(f"X{number} {kind} " + " ".join(f"{n}:{net}" for n, net in zip(names, nets)))
     return build(*specs)
 
