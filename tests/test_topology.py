@@ -507,3 +507,18 @@ def test_spice_fixture(name, expected):
 
 def test_every_spice_fixture_is_checked():
     assert sorted(p.name for p in FIXTURES.glob("*.cir")) == sorted(n for n, _ in SPICE_EXPECTED)
+
+
+def test_demo_board_groups_from_spice():
+    # The same board as a SPICE deck (BOARD.md: both files describe exactly this board);
+    # U1's subcircuit KM8C28 is kept whole, ground is the net "0".
+    from linter.readers.spice import read_spice
+
+    path = DEMO_EDIF.with_suffix(".cir")
+    circuit = read_spice(path.read_text(), path.name, path=path, root=path.parent,
+                         opaque={"KM8C28"})
+    rails = {**DEMO_RAILS, "0": Rail("0", 0.0, 0.0, 0.0)}
+    groups = find_groups(circuit, rails, DEMO_PART_DATA)
+    found = [(g.id[2:], g.topology, g.setter, g.strings, [dict(s.levels) for s in g.scenarios])
+             for g in groups]
+    assert found == DEMO_EXPECTED
