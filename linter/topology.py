@@ -22,7 +22,12 @@ Labels, by the edge of the bank (top = the anode side, bottom = the cathode side
   switch. A MOSFET with a source resistor is not recognised.
 
 Microcontroller pins are the edge of a group: two groups on one pin are two groups, each
-listing the pin, and the pin-current check adds them up.
+listing the pin, and the pin-current check adds them up. So is a net that reaches a part no
+walk passes through (a connector, a source or an IC on a supply whose voltage was not
+given, a plain diode): the group is ``unrecognised`` and the reason names the net and part.
+Capacitors are open at DC and ignored. A transistor's base or gate network shared with
+other transistors (one divider biasing several sinks) belongs to each of their groups, and
+``reason`` says so.
 """
 
 from __future__ import annotations
