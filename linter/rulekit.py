@@ -107,9 +107,16 @@ def corner_phrase(corner: Corner | None, rails: Iterable[str] | None = None,
 
 
 def at_corner(corner: Corner | None, result: Any, focus: Iterable[str] = ()) -> str:
-    """``corner_phrase`` limited to the group's own rail (the one named in ``result.rail``)."""
+    """``corner_phrase`` of a group's corner: the group's rail first, then any other rail
+    of the group that is off nominal (a sink's reference), LED bins, ambient."""
+    if corner is None:
+        return corner_phrase(None)
     rail = getattr(result, "rail", None)
-    return corner_phrase(corner, None if rail is None else (rail,), focus)
+    names = [rail] if rail in corner.rails else []
+    names += [n for n, (level, _) in corner.rails.items() if n != rail and level != "nom"]
+    ordered = Corner(corner.scenario, {n: corner.rails[n] for n in names}, corner.ambient_c,
+                     corner.vf)
+    return corner_phrase(ordered, None, focus)
 
 
 def say(ref: str, text: str) -> str:
