@@ -1,4 +1,4 @@
-"""Command line: ``ledlint check``, ``ledlint rules``, ``ledlint --version``.
+"""Command line: ``ledlint check``, ``ledlint rules``, ``ledlint baseline write``, ``ledlint --version``.
 
 Standard output carries the report (or ``--output`` receives it, written whole or not at
 all); standard error carries one-line errors. Exit codes: :data:`EXIT_CLEAN` when nothing
@@ -54,10 +54,25 @@ def _build_parser() -> argparse.ArgumentParser:
     check.add_argument("--fail-on", choices=("error", "warning", "info"), default="error")
     check.add_argument("--verbose", "-v", action="store_true", help="add per-group tables")
     check.add_argument("--quiet", "-q", action="store_true", help="print only findings")
+    check.add_argument("--baseline", type=Path, metavar="FILE",
+                       help="show only findings not in this baseline (ledlint baseline write)")
 
     rules = commands.add_parser("rules", help="list the rules, or print one rule's page")
     rules.add_argument("rule", nargs="?")
+    _add_baseline_parser(commands)
     return parser
+
+
+def _add_baseline_parser(commands: argparse._SubParsersAction) -> None:
+    baseline = commands.add_parser("baseline", help="record the current findings as accepted")
+    actions = baseline.add_subparsers(dest="baseline_action", required=True, parser_class=_Parser)
+    write = actions.add_parser("write", help="write the fingerprints of the current findings")
+    write.add_argument("file", type=Path, metavar="FILE", help="the baseline file to write")
+    write.add_argument("netlist", type=Path, help="EDIF 2.0.0 or SPICE netlist")
+    write.add_argument("--bom", type=Path, help="bill of materials (CSV)")
+    write.add_argument("--config", type=Path, help="settings file (default: found upward)")
+    write.add_argument("--parts", type=Path, action="append", default=[],
+                       help="extra part data (TOML); may repeat")
 
 
 def _same_file(first: Path, second: Path) -> bool:
@@ -91,7 +106,8 @@ def _run_check(args: argparse.Namespace) -> int:
     if len(netlists) > 1 and (args.format != ReportFormat.TEXT.value or args.bom is not None):
         raise UsageError("ledlint check: several netlists need --format text and no --bom")
     results = [run_check(CheckRequest(netlist=netlist, bom=args.bom, config=args.config,
-                                      parts_files=tuple(args.parts))) for netlist in netlists]
+                                      parts_files=tuple(args.parts), baseline=args.baseline))
+               for netlist in netlists]
     to_terminal = args.output is None and sys.stdout.isatty() and "NO_COLOR" not in os.environ
     reporter = ReportFormat(args.format).reporter(verbose=args.verbose, quiet=args.quiet,
                                                   color=to_terminal)
@@ -102,10 +118,40 @@ def _run_check(args: argparse.Namespace) -> int:
         write_atomically(args.output, text)
     else:
         sys.stdout.write(text)
+    _say_baselined(results)
     threshold = severity_rank(args.fail_on)
     failing = any(severity_rank(f.severity) >= threshold
                   for result in results for f in result.findings)
     return EXIT_FINDINGS if failing else EXIT_CLEAN
+
+
+def _say_baselined(results: Sequence) -> None:
+    """``N findings in the baseline not shown`` on standard error, when a baseline hid any."""
+    hidden = sum(len(getattr(result, "baselined", ())) for result in results)
+    if hidden:
+        word = "finding" if hidden == 1 else "findings"
+        sys.stderr.write(f"{hidden} {word} in the baseline not shown\n")
+
+
+def _run_baseline(args: argparse.Namespace) -> int:
+    from linter.baseline import write_baseline
+    from linter.engine import CheckRequest, run_check
+
+    inputs = [args.netlist, *(path for path in (args.bom, args.config) if path), *args.parts]
+    for path in inputs:
+        if _same_file(args.file, path):
+            raise UsageError(f"ledlint baseline write: {args.file} is an input; "
+                             f"write the baseline to another file")
+    result = run_check(CheckRequest(netlist=args.netlist, bom=args.bom, config=args.config,
+                                    parts_files=tuple(args.parts)))
+    try:
+        count = write_baseline(args.file, result.findings)
+    except OSError as exc:
+        raise UsageError(f"ledlint baseline write: cannot write {args.file}: "
+                         f"{exc.strerror or exc}") from None
+    word = "finding" if count == 1 else "findings"
+    sys.stderr.write(f"{args.file}: baseline of {count} {word} written\n")
+    return EXIT_CLEAN
 
 
 def _run_rules(args: argparse.Namespace) -> int:
@@ -129,6 +175,8 @@ def main(argv: Sequence[str] | None = None) -> int:
         args = _build_parser().parse_args(argv)
         if args.command == "check":
             return _run_check(args)
+        if args.command == "baseline":
+            return _run_baseline(args)
         return _run_rules(args)
     except LedlintError as exc:
         sys.stderr.write(f"{exc}\n")

@@ -10,7 +10,9 @@ together:
 2. :func:`analyse` — LED groups and their operating points (the seam for topology/solve:
    it returns the context with ``groups`` filled; today it returns it unchanged);
 3. :func:`run_rules` — every enabled rule, in id order;
-4. waivers (:mod:`linter.waivers`) — accepted findings set aside, stale waivers reported.
+4. waivers (:mod:`linter.waivers`) — accepted findings set aside, stale waivers reported;
+5. baseline (:mod:`linter.baseline`, ``--baseline FILE``) — findings whose fingerprints the
+   baseline holds set aside and counted.
 """
 
 from __future__ import annotations
@@ -41,6 +43,7 @@ class CheckRequest:
     """What to check: the netlist and the optional files beside it, as the user named them.
 
     ``today`` fixes the date waivers' ``until`` is compared with (default: the current date).
+    ``baseline`` names a baseline file whose findings are not shown (only counted).
     """
 
     netlist: Path
@@ -48,6 +51,7 @@ class CheckRequest:
     config: Path | None = None
     parts_files: tuple[Path, ...] = ()
     today: dt.date | None = None
+    baseline: Path | None = None
 
 
 @dataclass(frozen=True)
@@ -55,7 +59,8 @@ class CheckResult:
     """Everything a reporter needs: the circuit, the LED groups and the findings.
 
     ``findings`` are what the report shows (waived ones removed, waiver notices added);
-    ``waived`` keeps the findings that a waiver accepted.
+    ``waived`` keeps the findings that a waiver accepted; ``baselined`` those the baseline
+    file holds (not shown; ``len(baselined)`` is the count the summary gives).
     """
 
     request: CheckRequest
@@ -69,6 +74,7 @@ class CheckResult:
     bom_discrepancies: tuple[BomDiscrepancy, ...] = ()
     waived: tuple[Finding, ...] = ()
     context: AnalysisContext | None = None
+    baselined: tuple[Finding, ...] = ()
 
 
 def _rule_registry() -> dict[str, Any]:
@@ -137,9 +143,14 @@ def run_check(request: CheckRequest) -> CheckResult:
                                           context.severity(STALE_WAIVER, "info"))
     if not context.enabled(STALE_WAIVER):
         notices = ()
-    return CheckResult(request=request, circuit=context.circuit, findings=kept + notices,
+    shown, baselined = kept + notices, ()
+    if request.baseline is not None:
+        from linter.baseline import read_baseline, split_baselined
+
+        shown, baselined = split_baselined(shown, read_baseline(request.baseline))
+    return CheckResult(request=request, circuit=context.circuit, findings=shown,
                        groups=context.groups, rails=context.rails, part_data=context.part_data,
                        settings=context.settings, bom=context.bom,
                        bom_discrepancies=context.bom_discrepancies, waived=waived,
-                       context=context)
+                       context=context, baselined=baselined)
 
