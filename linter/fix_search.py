@@ -1,0 +1,165 @@
+"""Fix searches backed by the real solver: the value a re-run would accept.
+
+A rule's fix must agree with what ``ledlint check`` reports once the fix is applied. So the
+searches here change a part's value (or the circuit) and solve the group again with
+:func:`linter.analysis.analyse`, the same call the engine makes, instead of trusting a
+straight-line estimate. The straight-line formulas of :mod:`linter.fixes` give the starting
+points. All quantities SI floats.
+"""
+
+from __future__ import annotations
+
+from dataclasses import replace
+from typing import Any, Iterable, Mapping
+
+from linter import eseries
+from linter.analysis import analyse
+from linter.fixes import ResistorChoice, resistor_for_current_solved
+from linter.model import Circuit
+from linter.partdata import ResistorData
+from linter.results import GroupResult
+
+__all__ = ["DEFAULT_TOLERANCE", "resolve", "with_resistor", "led_currents",
+           "resistor_for_max", "resistor_for_min", "rail_for_min", "sub_circuit",
+           "resolve_circuit", "resistor_record", "tolerance_of"]
+
+DEFAULT_TOLERANCE = 0.05
+"""Resistor tolerance (fraction) when the part data gives none (DESIGN.md: else 5 %)."""
+
+_MAX_STEPS = 200
+"""Series steps a search may take before giving up (two decades of E96)."""
+
+
+def resolve(context: Any, result: GroupResult, part_data: Mapping[str, Any] | None = None,
+            rails: Mapping[str, Any] | None = None) -> GroupResult:
+    """The group solved again with some part data (or rails) replaced."""
+    data = dict(context.part_data)
+    data.update(part_data or {})
+    rail_map = dict(context.rails)
+    rail_map.update(rails or {})
+    (again,) = analyse([result.group], context.circuit, data, rail_map, context.settings.ambient)
+    return again
+
+
+def resistor_record(context: Any, ref: str, ohms: float) -> ResistorData:
+    """The resistor's part data with its value replaced (a 5 % record when there was none)."""
+    data = context.part_data.get(ref)
+    if isinstance(data, ResistorData):
+        return replace(data, ohms=ohms)
+    return ResistorData(ohms, DEFAULT_TOLERANCE, assumed=("tolerance",))
+
+
+def with_resistor(context: Any, result: GroupResult, ref: str, ohms: float) -> GroupResult:
+    """The group solved again with resistor ``ref`` at ``ohms`` (Ω)."""
+    return resolve(context, result, {ref: resistor_record(context, ref, ohms)})
+
+
+def led_currents(result: GroupResult, refs: Iterable[str]) -> tuple[float, float, float]:
+    """(highest nominal, lowest minimum, highest maximum) current in A over the LEDs named."""
+    leds = [result.led(ref) for ref in refs]
+    return (max(x.current.nom for x in leds), min(x.current.min for x in leds),
+            max(x.current.max for x in leds))
+
+
+def _solver(context: Any, result: GroupResult, ref: str, leds: tuple[str, ...]):
+    def current(ohms: float) -> tuple[float, float, float]:
+        again = with_resistor(context, result, ref, ohms)
+        if again.status != "solved":
+            raise RuntimeError(f"{result.id}: not solvable with {ref} = {ohms} Ω")
+        return led_currents(again, leds)
+    return current
+
+
+def tolerance_of(context: Any, ref: str) -> float:
+    """The resistor's tolerance (fraction), 5 % when unknown."""
+    data = context.part_data.get(ref)
+    if isinstance(data, ResistorData) and data.tolerance:
+        return data.tolerance
+    return DEFAULT_TOLERANCE
+
+
+def resistor_for_max(context: Any, result: GroupResult, ref: str, leds: tuple[str, ...],
+                     limit: float) -> ResistorChoice | None:
+    """The smallest resistor of the series made at ``ref``'s tolerance (IEC 60063) for
+    which the solver's worst-case maximum over ``leds`` is at most ``limit`` (A)."""
+    tolerance = tolerance_of(context, ref)
+    start = result.resistor(ref).ohms
+    return resistor_for_current_solved(_solver(context, result, ref, leds), limit, start,
+                                       tolerance=tolerance, max_steps=_MAX_STEPS)
+
+
+def resistor_for_min(context: Any, result: GroupResult, ref: str, leds: tuple[str, ...],
+                     floor: float, ceiling: float | None) -> ResistorChoice | None:
+    """The largest series resistor (below the present one) for which the solver's worst-case
+    minimum over ``leds`` reaches ``floor`` (A) while the maximum stays at or below
+    ``ceiling`` (A, when given); None when no value does both."""
+    tolerance = tolerance_of(context, ref)
+    series = eseries.series_for_tolerance(tolerance)
+    current = _solver(context, result, ref, leds)
+    ohms = result.resistor(ref).ohms
+    for _ in range(_MAX_STEPS):
+        ohms = eseries.below(ohms / 1.001, series)
+        nom, low, high = current(ohms)
+        if ceiling is not None and high > ceiling:
+            return None
+        if low >= floor:
+            return ResistorChoice(ohms, series, tolerance, high, nom, low)
+    return None
+
+
+def sub_circuit(circuit: Circuit, refs: Iterable[str]) -> Circuit:
+    """The circuit cut down to the parts named, nets rebuilt from their pins."""
+    from linter.model import Net
+
+    parts = {ref: circuit.parts[ref] for ref in refs if ref in circuit.parts}
+    joined: dict[str, list[tuple[str, str]]] = {}
+    for ref, part in parts.items():
+        for pin in part.pins:
+            if pin.net is not None:
+                joined.setdefault(pin.net, []).append((ref, pin.name))
+    nets = {}
+    for name, pins in joined.items():
+        old = circuit.nets.get(name)
+        location = old.location if old is not None else next(iter(parts.values())).location
+        nets[name] = Net(name, tuple(pins), location)
+    return Circuit(circuit.source, circuit.format, parts, nets, (), circuit.design)
+
+
+def resolve_circuit(context: Any, circuit: Circuit,
+                    part_data: Mapping[str, Any]) -> tuple[GroupResult, ...]:
+    """Find the groups of an edited (sub-)circuit and solve them, as the engine would."""
+    from linter.topology import find_groups
+
+    data = dict(context.part_data)
+    data.update(part_data)
+    groups = find_groups(circuit, context.rails, data)
+    return analyse(groups, circuit, data, context.rails, context.settings.ambient)
+
+
+_BISECTIONS = 24
+"""Halvings of the rail search interval (a 20 V span to about 1 µV)."""
+
+
+def rail_for_min(context: Any, result: GroupResult, rail_name: str, leds: tuple[str, ...],
+                 floor: float, ceiling_v: float) -> float | None:
+    """The lowest minimum of rail ``rail_name`` (V) at which the solver's worst-case minimum
+    current over ``leds`` reaches ``floor`` (A); None when even ``ceiling_v`` does not."""
+    from linter.partdata import Rail
+
+    rail = context.rails[rail_name]
+
+    def lowest(volts: float) -> float:
+        moved = Rail(rail.name, max(rail.nom, volts), volts, max(rail.max, volts),
+                     rail.inferred, rail.origin)
+        again = resolve(context, result, rails={rail_name: moved})
+        if again.status != "solved":
+            raise RuntimeError(f"{result.id}: not solvable with {rail_name} at {volts} V")
+        return led_currents(again, leds)[1]
+
+    low, high = rail.min, ceiling_v
+    if lowest(high) < floor:
+        return None
+    for _ in range(_BISECTIONS):
+        middle = (low + high) / 2
+        low, high = (low, middle) if lowest(middle) >= floor else (middle, high)
+    return high

@@ -1,0 +1,153 @@
+"""Rule ``led-overcurrent``: an LED's worst-case current above its rating."""
+
+from __future__ import annotations
+
+from typing import Any, Iterable
+
+from linter import fix_search
+from linter.findings import Finding
+from linter.results import GroupResult, LedResult
+from linter.rulekit import amps, at_corner, led_data, ohms, say, solved_groups
+from linter.rules import Rule, register
+
+SHARED = "shared-ballast"
+"""LEDs in parallel on one part are that rule's finding (one cause, one finding)."""
+
+
+def led_limits(context: Any, ref: str) -> tuple[float | None, float | None, bool]:
+    """(if_max, if_recommended, whether if_max is a generic figure) of an LED, A."""
+    data = led_data(context, ref)
+    if data is None:
+        return None, None, False
+    return data.if_max, data.if_recommended, "if_max" in data.assumed
+
+
+def target_current(context: Any, ref: str) -> float | None:
+    """The current a fix aims the worst case at: the recommended top, else if_max (A)."""
+    if_max, recommended, _ = led_limits(context, ref)
+    known = [x for x in (if_max, recommended) if x]
+    return min(known) if known else None
+
+
+def is_shared(context: Any, result: GroupResult) -> bool:
+    """True when ``shared-ballast`` is on and reports this group (parallel strings)."""
+    return (result.group.topology == "parallel" and len(result.group.strings) > 1
+            and context.enabled(SHARED))
+
+
+@register
+class LedOvercurrent(Rule):
+    """An LED's worst-case current is above its maximum (or its recommended range).
+
+    The current is solved at every corner (rail tolerance, resistor tolerance, the LED's
+    Vf bin, ambient, transistor gain); the highest is compared with the datasheet's
+    continuous maximum ``if_max`` (error) and, when the part data gives one, the top of the
+    recommended range ``if_recommended`` (warning). The fix is the next standard resistor
+    (IEC 60063 series of the resistor's tolerance: E24 at 5 %, E96 at 1 %) that keeps the
+    worst case at or below the recommended top (else ``if_max``), found by solving the group
+    again with that value, so a re-run agrees. Where a sink sets the current the emitter
+    resistor is recomputed the same way. LEDs in parallel on one part are reported by
+    ``shared-ballast`` instead (splitting the part is the fix).
+
+    **Anti-pattern**
+
+    A red LED rated 25 mA on 100 Ω from a 5 V ±5 % rail: at 5.25 V with a vf_min LED and
+    the resistor 5 % low it takes about 36 mA::
+
+        R4 +5V a 100
+        D4 a 0 LEDRED
+
+    **Best practice**
+
+    Size the resistor for the worst corner, not the typical one: 150 Ω keeps the same LED
+    below 25 mA at every corner::
+
+        R4 +5V a 150
+        D4 a 0 LEDRED
+    """
+
+    id = "led-overcurrent"
+    default_severity = "error"
+
+    def check(self, context: Any) -> Iterable[Finding]:
+        for result in solved_groups(context):
+            if is_shared(context, result):
+                continue
+            finding = self._group_finding(context, result)
+            if finding is not None:
+                yield finding
+
+    def _group_finding(self, context: Any, result: GroupResult) -> Finding | None:
+        """One finding per group: its LEDs over their limit, the hottest quoted."""
+        over: list[tuple[LedResult, float, str, bool]] = []
+        for led in result.leds:
+            if_max, recommended, generic = led_limits(context, led.ref)
+            if if_max is not None and led.current.max > if_max:
+                over.append((led, if_max, "error", generic))
+            elif recommended is not None and led.current.max > recommended:
+                over.append((led, recommended, "warning", False))
+        if not over:
+            return None
+        level = "error" if any(item[2] == "error" for item in over) else "warning"
+        hottest = max((x for x in over if x[2] == level), key=lambda x: x[0].current.max)
+        return self._finding(context, result, hottest, tuple(x[0].ref for x in over), level)
+
+    def _finding(self, context: Any, result: GroupResult,
+                 hottest: tuple[LedResult, float, str, bool], parts: tuple[str, ...],
+                 level: str) -> Finding:
+        led, limit, _, generic = hottest
+        what = "maximum" if level == "error" else "recommended maximum"
+        if generic:
+            what += " (generic figure)"
+        where = at_corner(led.current.at_max, result, (led.ref,))
+        others = [p for p in parts if p != led.ref]
+        also = f" (also {', '.join(others)})" if others else ""
+        message = say(led.ref, f"{amps(led.current.max)} at {where}, above its {amps(limit)} "
+                               f"{what}; {amps(led.current.nom)} nominal{also}")
+        values = {"current_max_a": led.current.max, "current_nom_a": led.current.nom,
+                  "current_min_a": led.current.min, "limit_a": limit}
+        fix = self._fix(context, result, values)
+        severity = context.severity(self) if level == "error" else context.severity(self, "warning")
+        return Finding(rule=self.id, severity=severity, message=message, parts=parts,
+                       nets=(), group=result.id, values=values, fix=fix)
+
+    def _fix(self, context: Any, result: GroupResult, values: dict) -> str | None:
+        """The standard resistor that brings every LED of the group under its target."""
+        targets = [t for t in (target_current(context, x.ref) for x in result.leds) if t]
+        ref = current_resistor(context, result)
+        if not targets or ref is None:
+            return None
+        target = min(targets)
+        leds = tuple(x.ref for x in result.leds)
+        try:
+            choice = fix_search.resistor_for_max(context, result, ref, leds, target)
+        except RuntimeError:
+            return None
+        if choice is None:
+            return f"no standard value of {ref} brings the current under {amps(target)}"
+        values.update(fix_ohms=choice.ohms, fix_current_nom_a=choice.current_nom_a or 0.0,
+                      fix_current_min_a=choice.current_min_a or 0.0,
+                      fix_current_max_a=choice.current_max_a, fix_target_a=target)
+        role = "" if ref == result.group.setter else " (emitter resistor)"
+        return (f"make {ref}{role} {ohms(choice.ohms)} ({choice.series}): "
+                f"{amps(choice.current_nom_a or 0.0)} nominal, "
+                f"{amps(choice.current_min_a or 0.0)}–{amps(choice.current_max_a)} worst case")
+
+
+def current_resistor(context: Any, result: GroupResult) -> str | None:
+    """The resistor that sets the group's current: the setter, or a sink's emitter resistor."""
+    setter = result.group.setter
+    names = {r.ref for r in result.resistors}
+    if setter in names:
+        return setter
+    transistor = result.group.transistor
+    part = context.circuit.parts.get(transistor) if transistor else None
+    if part is None:
+        return None
+    emitter = part.pin("E") or part.pin("S")
+    if emitter is None or emitter.net is None:
+        return None
+    for ref in sorted(names):
+        if emitter.net in context.circuit.parts[ref].nets:
+            return ref
+    return None

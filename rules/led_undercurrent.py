@@ -1,0 +1,128 @@
+"""Rule ``led-undercurrent``: an LED that stays dark, or nearly, at some corner."""
+
+from __future__ import annotations
+
+from typing import Any, Iterable
+
+from linter import fix_search
+from linter.config import RuleOption
+from linter.findings import Finding
+from linter.results import GroupResult, LedResult
+from linter.rulekit import amps, at_corner, ohms, say, solved_groups, volts
+from linter.rules import Rule, register
+from linter.rules.led_overcurrent import current_resistor, is_shared, target_current
+
+DARK_A = 1e-6
+"""A, below this an LED is said not to conduct (no visible light at all; from memory)."""
+RAIL_SEARCH_SPAN = 3.0
+"""The rail search looks up to this multiple of the rail's maximum (dimensionless)."""
+
+
+@register
+class LedUndercurrent(Rule):
+    """An LED does not light, or lights below a visible floor, at some corner.
+
+    The lowest current over every corner is compared with ``visible_floor`` (default
+    0.5 mA, common practice for a small indicator seen indoors). Below it at some corner
+    (typically the rail at its minimum with the LEDs at vf_max, when the rail hardly
+    exceeds the string's forward voltage) is a warning; below it at the nominal corner —
+    the LED cannot light as designed — is an error. The fix is computed with the solver:
+    the standard resistor (series of its tolerance) that lifts the minimum over the floor
+    without taking the maximum over the LED's rating, else the rail minimum that would.
+    LEDs in parallel on one part, starved by a Vf spread, are ``shared-ballast``'s finding;
+    this rule then checks only their nominal current.
+
+    **Anti-pattern**
+
+    Three white LEDs (about 3.2 V each) on 470 Ω from 9 V ±10 %: at 8.1 V with the LEDs at
+    vf_max the rail is below the string's forward voltage and nothing lights::
+
+        R1 +9V a 470
+        D1 a b LEDWHT
+        D2 b c LEDWHT
+        D3 c 0 LEDWHT
+
+    **Best practice**
+
+    Leave headroom for the worst corner: two white LEDs per string on that rail, or a
+    higher rail, or a current sink with its compliance checked::
+
+        R1 +9V a 120
+        D1 a b LEDWHT
+        D2 b 0 LEDWHT
+    """
+
+    id = "led-undercurrent"
+    default_severity = "error"
+    options = (RuleOption("visible_floor", "A", 0.5e-3,
+                          "lowest current (A) at which an indicator still counts as lit"),)
+
+    def check(self, context: Any) -> Iterable[Finding]:
+        floor = float(context.option(self, "visible_floor"))
+        for result in solved_groups(context):
+            finding = self._group_finding(context, result, floor)
+            if finding is not None:
+                yield finding
+
+    def _group_finding(self, context: Any, result: GroupResult, floor: float) -> Finding | None:
+        lit = [led for led in result.leds if led.lit_scenarios]
+        dark_nominal = [led for led in lit if led.current.nom < floor]
+        if dark_nominal:
+            return self._finding(context, result, dark_nominal, floor, nominal=True)
+        if is_shared(context, result):
+            return None
+        dim = [led for led in lit if led.current.min < floor]
+        if dim:
+            return self._finding(context, result, dim, floor, nominal=False)
+        return None
+
+    def _finding(self, context: Any, result: GroupResult, leds: list[LedResult], floor: float,
+                 nominal: bool) -> Finding:
+        worst = min(leds, key=lambda x: x.current.nom if nominal else x.current.min)
+        current = worst.current.nom if nominal else worst.current.min
+        where = "the nominal corner" if nominal else at_corner(worst.current.at_min, result,
+                                                               (worst.ref,))
+        state = ("does not conduct" if current < DARK_A
+                 else f"gets {amps(current)}, below the {amps(floor)} visible floor")
+        tail = "" if nominal else f"; {amps(worst.current.nom)} nominal"
+        others = [x.ref for x in leds if x.ref != worst.ref]
+        also = f" (also {', '.join(others)})" if others else ""
+        message = say(worst.ref, f"{state} at {where}{tail}{also}")
+        values = {"current_min_a": worst.current.min, "current_nom_a": worst.current.nom,
+                  "current_max_a": worst.current.max, "floor_a": floor}
+        severity = context.severity(self) if nominal else context.severity(self, "warning")
+        return Finding(rule=self.id, severity=severity, message=message,
+                       parts=tuple(x.ref for x in leds), group=result.id, values=values,
+                       fix=self._fix(context, result, floor, values))
+
+    def _fix(self, context: Any, result: GroupResult, floor: float, values: dict) -> str | None:
+        leds = tuple(x.ref for x in result.leds if x.lit_scenarios)
+        targets = [t for t in (target_current(context, ref) for ref in leds) if t]
+        ceiling = min(targets) if targets else None
+        ref = current_resistor(context, result)
+        try:
+            if ref is not None and ref == result.group.setter:
+                choice = fix_search.resistor_for_min(context, result, ref, leds, floor, ceiling)
+                if choice is not None:
+                    values.update(fix_ohms=choice.ohms, fix_current_min_a=choice.current_min_a
+                                  or 0.0, fix_current_max_a=choice.current_max_a)
+                    return (f"make {ref} {ohms(choice.ohms)} ({choice.series}): at least "
+                            f"{amps(choice.current_min_a or 0.0)}, at most "
+                            f"{amps(choice.current_max_a)}")
+            return self._rail_fix(context, result, leds, floor, values)
+        except RuntimeError:
+            return None
+
+    def _rail_fix(self, context: Any, result: GroupResult, leds: tuple[str, ...], floor: float,
+                  values: dict) -> str | None:
+        name = result.rail
+        rail = context.rails.get(name) if name else None
+        if rail is None or rail.is_ground:
+            return None
+        needed = fix_search.rail_for_min(context, result, name, leds, floor,
+                                         max(rail.max, 1.0) * RAIL_SEARCH_SPAN)
+        if needed is None:
+            return f"no {name} level up to {volts(rail.max * RAIL_SEARCH_SPAN)} lights it"
+        values.update(fix_rail_min_v=needed)
+        return (f"keep {name} at or above {volts(needed)} (its minimum is {volts(rail.min)}), "
+                f"or put fewer LEDs in the string")
