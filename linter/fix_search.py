@@ -21,7 +21,7 @@ from linter.results import GroupResult
 
 __all__ = ["DEFAULT_TOLERANCE", "resolve", "with_resistor", "led_currents",
            "resistor_for_max", "resistor_for_min", "rail_for_min", "sub_circuit",
-           "resolve_circuit", "resistor_record", "tolerance_of"]
+           "resolve_circuit", "resistor_record", "tolerance_of", "split_resistor"]
 
 DEFAULT_TOLERANCE = 0.05
 """Resistor tolerance (fraction) when the part data gives none (DESIGN.md: else 5 %)."""
@@ -163,3 +163,37 @@ def rail_for_min(context: Any, result: GroupResult, rail_name: str, leds: tuple[
         middle = (low + high) / 2
         low, high = (low, middle) if lowest(middle) >= floor else (middle, high)
     return high
+
+
+def split_resistor(circuit: Circuit, group: Any, shared: str, ohms_each: float
+                   ) -> tuple[Circuit, dict[str, str]]:
+    """The group's sub-circuit with the shared resistor replaced by one per string.
+
+    The shared resistor joins a rail-side net and the node the strings meet at; each string's
+    end LED pin on that node moves to a net of its own, and a new resistor (named
+    ``<shared>_<first LED>``, value ``ohms_each``) joins it to the rail-side net. Returns the
+    circuit and the new resistor names by first LED.
+    """
+    from dataclasses import replace as copy
+
+    from linter.model import Part, Pin
+
+    resistor = circuit.parts[shared]
+    nets = [pin.net for pin in resistor.pins]
+    node = next(n for n in nets if any(n in circuit.parts[s[0]].nets or
+                                       n in circuit.parts[s[-1]].nets for s in group.strings))
+    far = next(n for n in nets if n != node)
+    parts = {ref: circuit.parts[ref] for ref in group.parts if ref != shared}
+    names: dict[str, str] = {}
+    for string in group.strings:
+        name = f"{shared}_{string[0]}"
+        own = f"{name}_NODE"
+        for ref in (string[0], string[-1]):
+            part = parts[ref]
+            parts[ref] = copy(part, pins=tuple(Pin(p.name, own if p.net == node else p.net)
+                                               for p in part.pins))
+        parts[name] = Part(name, "resistor", None, (Pin("1", far), Pin("2", own)),
+                           resistor.location, value_si=ohms_each)
+        names[string[0]] = name
+    edited = Circuit(circuit.source, circuit.format, {**circuit.parts, **parts}, circuit.nets)
+    return sub_circuit(edited, parts), names

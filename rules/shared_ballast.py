@@ -1,0 +1,162 @@
+"""Rule ``shared-ballast``: LEDs or strings in parallel on one current-setting part."""
+
+from __future__ import annotations
+
+from typing import Any, Iterable
+
+from linter import eseries, fix_search
+from linter.findings import Finding
+from linter.fixes import per_led_resistors
+from linter.results import GroupResult
+from linter.rulekit import amps, at_corner, group_rail, led_data, ohms, solved_groups, watts
+from linter.rules import Rule, register
+from linter.rules.led_overcurrent import target_current
+
+MAX_FIX_STEPS = 40
+"""Series steps the per-LED resistor search climbs before it gives up."""
+
+
+def fold(refs: tuple[str, ...]) -> str:
+    """``"D7–D10"`` for a run listed in order, else the references joined by commas."""
+    return f"{refs[0]}–{refs[-1]}" if len(refs) > 2 else ", ".join(refs)
+
+
+@register
+class SharedBallast(Rule):
+    """LEDs (or strings) in parallel share one resistor or sink.
+
+    Parallel LEDs split one current by their forward voltages, and Vf spreads by a few
+    hundred millivolts between parts of one bin (more between bins) while the current
+    rises exponentially with it: the LED with the lowest Vf hogs the current, heats, its Vf
+    falls further, and it takes even more. The analysis solves the bank with one LED at
+    vf_min and the rest at vf_max and reports the hottest LED's worst-case current against
+    its rating, the shared part's total current and power, and each LED's nominal share.
+    The fix gives each LED (or string) its own resistor, chosen from the series of the
+    shared resistor's tolerance for the intended current (the nominal share), checked by
+    solving the split circuit at every corner; a shared sink becomes one sink per string.
+
+    **Anti-pattern**
+
+    Four yellow LEDs on one 39 Ω resistor from 5 V: about 18 mA each on paper, but one
+    low-Vf part can take several times its share::
+
+        R6 +5V bar 39
+        D7 bar 0 LEDYEL
+        D8 bar 0 LEDYEL
+        D9 bar 0 LEDYEL
+        D10 bar 0 LEDYEL
+
+    **Best practice**
+
+    One resistor per LED, each sized for the LED's own current::
+
+        R6A +5V a1 180
+        D7 a1 0 LEDYEL
+        R6B +5V a2 180
+        D8 a2 0 LEDYEL
+    """
+
+    id = "shared-ballast"
+    default_severity = "error"
+
+    def check(self, context: Any) -> Iterable[Finding]:
+        for result in solved_groups(context):
+            if result.group.topology == "parallel" and len(result.group.strings) > 1:
+                yield self._finding(context, result)
+
+    def _finding(self, context: Any, result: GroupResult) -> Finding:
+        group = result.group
+        hottest = max(result.leds, key=lambda x: x.current.max)
+        shared = group.setter or "one part"
+        count = len(group.strings)
+        share = sum(x.current.nom for x in result.leds if x.ref in
+                    {s[0] for s in group.strings}) / count
+        values = {"count": float(count), "share_nom_a": share,
+                  "hottest_current_max_a": hottest.current.max}
+        where = at_corner(hottest.current.at_max, result, (hottest.ref,))
+        text = (f"{fold(group.leds)} share {shared}: {hottest.ref} takes up to "
+                f"{amps(hottest.current.max)} ({where})")
+        data = led_data(context, hottest.ref)
+        if data is not None and data.if_max:
+            values["if_max_a"] = data.if_max
+            text += f", {hottest.current.max / data.if_max:.1f}× its {amps(data.if_max)} maximum"
+        text += f"; {amps(share)} each nominal"
+        text += self._shared_part(result, shared, values)
+        fix = self._fix(context, result, share, values)
+        return Finding(rule=self.id, severity=context.severity(self), message=text,
+                       parts=(shared, *group.leds) if group.setter else group.leds,
+                       group=result.id, values=values, fix=fix)
+
+    @staticmethod
+    def _shared_part(result: GroupResult, shared: str, values: dict) -> str:
+        names = {r.ref: r for r in result.resistors}
+        if shared in names:
+            part = names[shared]
+            current, power = part.current, part.power
+        elif shared in {t.ref for t in result.transistors}:
+            part = result.transistor(shared)
+            current, power = part.current, part.power
+        else:
+            return ""
+        values.update(shared_current_max_a=current.max, shared_power_max_w=power.max)
+        return (f"; {shared} carries up to {amps(current.max)} and dissipates up to "
+                f"{watts(power.max)}")
+
+    def _fix(self, context: Any, result: GroupResult, share: float, values: dict) -> str | None:
+        shared = result.group.setter
+        if shared is None:
+            return None
+        if shared in {r.ref for r in result.resistors}:
+            return self._per_led(context, result, shared, share, values)
+        return self._per_string_sink(result, shared, share)
+
+    def _per_led(self, context: Any, result: GroupResult, shared: str, share: float,
+                 values: dict) -> str | None:
+        """One resistor per string: nominal current near the share, worst case under the
+        LED's limit, confirmed by solving the split circuit."""
+        rail = group_rail(context, result)
+        string = result.group.strings[0]
+        leds = [result.led(ref) for ref in string]
+        tolerance = fix_search.tolerance_of(context, shared)
+        series = eseries.series_for_tolerance(tolerance)
+        if rail is None or share <= 0:
+            return None
+        start = per_led_resistors(len(result.group.strings), rail.nom,
+                                  sum(x.vf.nom for x in leds), share, series, 0.0)
+        if start is None:
+            return None
+        limits = [t for t in (target_current(context, x.ref) for x in result.leds) if t]
+        limit = min(limits) if limits else None
+        ohms_each = start.choice.ohms
+        for _ in range(MAX_FIX_STEPS):
+            currents = self._split_currents(context, result, shared, ohms_each, tolerance)
+            if currents is None:
+                return None
+            if limit is None or currents[2] <= limit:
+                values.update(fix_ohms=ohms_each, fix_current_nom_a=currents[0],
+                              fix_current_min_a=currents[1], fix_current_max_a=currents[2])
+                return (f"give each LED its own resistor: {len(result.group.strings)} × "
+                        f"{ohms(ohms_each)} ({series}) from {result.rail} in place of "
+                        f"{shared}: {amps(currents[0])} each nominal, "
+                        f"{amps(currents[1])}–{amps(currents[2])} worst case")
+            ohms_each = eseries.above(ohms_each * 1.001, series)
+        return None
+
+    @staticmethod
+    def _split_currents(context: Any, result: GroupResult, shared: str, ohms_each: float,
+                        tolerance: float) -> tuple[float, float, float] | None:
+        circuit, names = fix_search.split_resistor(context.circuit, result.group, shared,
+                                                   ohms_each)
+        data = {name: fix_search.resistor_record(context, shared, ohms_each)
+                for name in names.values()}
+        solved = fix_search.resolve_circuit(context, circuit, data)
+        if not solved or any(g.status != "solved" for g in solved):
+            return None
+        leds = [led for g in solved for led in g.leds]
+        return (max(x.current.nom for x in leds), min(x.current.min for x in leds),
+                max(x.current.max for x in leds))
+
+    @staticmethod
+    def _per_string_sink(result: GroupResult, shared: str, share: float) -> str:
+        return (f"give each of the {len(result.group.strings)} strings its own sink "
+                f"set to {amps(share)} in place of the shared {shared}")
