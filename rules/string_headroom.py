@@ -1,0 +1,174 @@
+"""Rule ``string-headroom``: LEDs on a resistor whose current swings too much over corners."""
+
+from __future__ import annotations
+
+import math
+from typing import Any, Iterable
+
+from linter.config import RuleOption
+from linter.findings import Finding
+from linter.fixes import SinkDesign, rail_for_resistor, sink_design
+from linter.partdata import Rail
+from linter.results import GroupResult, LedResult
+from linter.rulekit import amps, at_corner, group_rail, ohms, say, solved_groups, volts, watts
+from linter.rules import Rule, register
+from linter import fix_search
+
+
+SKIPPED = ("parallel", "pin-source", "pin-sink", "pin-bicolour")
+"""Topologies left out: a shared resistor is ``shared-ballast``'s finding; an indicator
+driven straight from a microcontroller pin has no rail to regulate from (the pin is its
+supply) and no place for a sink, so its swing is not reported."""
+
+
+def reference_rail(context: Any, fallback: Rail) -> Rail:
+    """The rail a sink's divider should hang from: the tightest non-ground rail (relative
+    tolerance) of at least 2 V, lower voltage first on a tie; else ``fallback``."""
+    def spread(rail: Rail) -> float:
+        return (rail.max - rail.min) / rail.nom
+
+    usable = [r for r in context.rails.values() if not r.is_ground and r.nom >= 2.0
+              and r.nom <= fallback.nom]
+    return min(usable, key=lambda r: (spread(r), r.nom), default=fallback)
+
+
+@register
+class StringHeadroom(Rule):
+    """LEDs on a resistor whose current swings by more than ``ratio`` across the corners.
+
+    A resistor sets I = (V − ΣVf)/R: the smaller the headroom V − ΣVf, the more the rail's
+    tolerance and the Vf spread move the current (dI/dVf = −1/R per volt of string
+    voltage). The rule solves every corner and reports the lowest and highest current, the
+    headroom at nominal and at the worst corner, and dI/dVf; a ratio above ``ratio``
+    (default 1.5) is poor regulation: visible brightness steps between boards and a
+    string that may run dim or hot. (Darkness and damage are ``led-undercurrent`` and
+    ``led-overcurrent``.) The fix is a computed NPN current sink (divider from the tightest
+    rail, E-series emitter resistor, transistor dissipation) with the rail it needs, or the
+    rail at which a plain resistor would hold the swing within ``ratio``, or fewer LEDs per
+    string where the rail's minimum cannot hold a sink in regulation. LEDs driven straight
+    from a microcontroller pin, and parallel LEDs on a shared resistor, are left to other
+    rules.
+
+    **Anti-pattern**
+
+    Three white LEDs (about 3.15 V each) on 150 Ω from 12 V ±10 %: 1.5 V of headroom, so
+    the current runs from about 7 mA to 28 mA::
+
+        R13 +12V a 150
+        D16 a b LEDWHT
+        D17 b c LEDWHT
+        D18 c 0 LEDWHT
+
+    **Best practice**
+
+    A current sink below the string (base from a divider on a regulated rail, emitter
+    resistor setting the current), with its compliance checked at the rail minimum::
+
+        D16 +12V b LEDWHT
+        D17 b c LEDWHT
+        Q4 c base e QNPN
+        R20 +5V base 1.5k
+        R21 base 0 1k
+        R22 e 0 68
+    """
+
+    id = "string-headroom"
+    default_severity = "warning"
+    options = (RuleOption("ratio", "", 1.5, "largest accepted max/min current ratio"),)
+
+    def check(self, context: Any) -> Iterable[Finding]:
+        ratio = float(context.option(self, "ratio"))
+        for result in solved_groups(context):
+            names = {r.ref for r in result.resistors}
+            if result.group.setter not in names or result.group.topology in SKIPPED:
+                continue
+            finding = self._group_finding(context, result, ratio)
+            if finding is not None:
+                yield finding
+
+    def _group_finding(self, context: Any, result: GroupResult, limit: float) -> Finding | None:
+        swinging = [led for led in result.leds if led.lit_scenarios and _ratio(led) > limit]
+        if not swinging:
+            return None
+        worst = max(swinging, key=_ratio)
+        string = next(s for s in result.group.strings if worst.ref in s)
+        leds = [result.led(ref) for ref in string]
+        rail = group_rail(context, result)
+        values = {"current_min_a": worst.current.min, "current_max_a": worst.current.max,
+                  "current_nom_a": worst.current.nom, "ratio": _ratio(worst), "limit": limit}
+        if worst.di_dvf is not None:
+            values["di_dvf_a_per_v"] = worst.di_dvf
+        head = ""
+        if rail is not None:
+            values["headroom_nom_v"] = rail.nom - sum(x.vf.nom for x in leds)
+            values["headroom_min_v"] = rail.min - sum(x.vf.max for x in leds)
+            head = (f"; headroom {volts(values['headroom_nom_v'])} nominal, "
+                    f"{volts(values['headroom_min_v'])} at {result.rail} min with vf_max")
+        slope = ("" if worst.di_dvf is None else
+                 f"; dI/dVf {amps(abs(worst.di_dvf))}/V")
+        label = worst.ref if len(string) == 1 else f"{string[0]}–{string[-1]}"
+        text = (f"{amps(worst.current.min)} ({at_corner(worst.current.at_min, result)}) to "
+                f"{amps(worst.current.max)} ({at_corner(worst.current.at_max, result)}), "
+                f"{_ratio(worst):.2f}× (limit {limit:g}×) on {result.group.setter}"
+                f"{head}{slope}")
+        fix = None if rail is None else self._fix(context, result, leds, rail, limit, values)
+        return Finding(rule=self.id, severity=context.severity(self), message=say(label, text),
+                       parts=(*(x.ref for x in swinging), result.group.setter),
+                       group=result.id, values=values, fix=fix)
+
+    def _fix(self, context: Any, result: GroupResult, leds: list[LedResult], rail: Rail,
+             limit: float, values: dict) -> str:
+        setter = result.group.setter
+        tolerance = fix_search.tolerance_of(context, setter)
+        vf_min = sum(x.vf.min for x in leds)
+        vf_max = sum(x.vf.max for x in leds)
+        reference = reference_rail(context, rail)
+        design = sink_design(rail.min, vf_max, leds[0].current.nom, reference.nom,
+                             v_rail_max=rail.max, vf_string_min=vf_min,
+                             reference_name=reference.name,
+                             reference_tolerance=(reference.max - reference.min) / 2 / reference.nom,
+                             resistor_tolerance=tolerance)
+        plain = rail_for_resistor(vf_min, vf_max, limit, rail_min_ratio=rail.min / rail.nom,
+                                  rail_max_ratio=rail.max / rail.nom, resistor_tolerance=tolerance)
+        parts = []
+        if design is not None:
+            parts.append(_sink_text(design, setter, result.rail, rail, values))
+        if plain is not None:
+            values["rail_for_resistor_v"] = plain
+            parts.append(f"a plain resistor holds {limit:g}× only from a {volts(plain)} nominal "
+                         f"{result.rail} (same tolerance)")
+        if design is not None and not design.regulates:
+            fewer = _leds_that_fit(leds, rail, design)
+            if 0 < fewer < len(leds):
+                values["fix_leds_per_string"] = float(fewer)
+                parts.append(f"or {fewer} LED{'s' if fewer > 1 else ''} per string")
+        return "; ".join(parts) if parts else "no computed fix"
+
+
+def _ratio(led: LedResult) -> float:
+    return math.inf if led.current.min <= 0 else led.current.max / led.current.min
+
+
+def _sink_text(design: SinkDesign, setter: str, rail_name: str, rail: Rail, values: dict) -> str:
+    values.update(sink_r_top_ohms=design.r_top, sink_r_bottom_ohms=design.r_bottom,
+                  sink_r_emitter_ohms=design.r_emitter, sink_reference_v=design.v_reference,
+                  sink_current_nom_a=design.current_nom_a,
+                  sink_current_min_a=design.current_min_a,
+                  sink_current_max_a=design.current_max_a,
+                  sink_transistor_power_w=design.transistor_power_w,
+                  sink_rail_min_v=design.rail_min_v)
+    text = (f"replace {setter} by an NPN sink below the string: divider "
+            f"{ohms(design.r_top)}/{ohms(design.r_bottom)} from {design.reference_name}, emitter "
+            f"{ohms(design.r_emitter)} ({design.series}), {amps(design.current_min_a)}–"
+            f"{amps(design.current_max_a)}, transistor up to {watts(design.transistor_power_w)}; "
+            f"it needs {rail_name} ≥ {volts(design.rail_min_v)}")
+    if not design.regulates:
+        text += f", above the {volts(rail.min)} minimum"
+    return text
+
+
+def _leds_that_fit(leds: list[LedResult], rail: Rail, design: SinkDesign) -> int:
+    """How many of these LEDs (at their highest Vf) a sink can regulate at the rail minimum."""
+    each = max(x.vf.max for x in leds)
+    spare = rail.min - (design.rail_min_v - sum(x.vf.max for x in leds))
+    return max(0, int(spare // each))
