@@ -173,10 +173,13 @@ def run(models: list[GroupModel], plan: RowPlan, ambient: Ambient,
     cur = element_currents(first.network, params, v)
     shape = (g, s, c)
     out = {"v": v, "converged": solution.converged[:, None]}
-    out.update(_led_outputs(first, v, cur))
-    out.update(_resistor_outputs(first, params, v, cur))
-    out.update(_bjt_outputs(first, params, v, cur))
-    out.update(_mosfet_outputs(first, params, v, cur))
+    # A row that did not converge may hold voltages far out of range; its products may
+    # overflow to inf. Such rows are flagged in ``converged`` and never reported as figures.
+    with np.errstate(over="ignore", invalid="ignore"):
+        out.update(_led_outputs(first, v, cur))
+        out.update(_resistor_outputs(first, params, v, cur))
+        out.update(_bjt_outputs(first, params, v, cur))
+        out.update(_mosfet_outputs(first, params, v, cur))
     return {k: a.reshape(shape + (a.shape[-1],)) for k, a in out.items()}
 
 

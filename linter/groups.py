@@ -56,13 +56,14 @@ class PinDrive:
 class Scenario:
     """One state of the pins that drive a group, and the LEDs meant to be lit in it.
 
-    ``levels`` maps a pin id (``U1.PA4``) to ``"high"`` or ``"low"``. A group with no pins has
-    one scenario with no levels, every LED lit.
+    ``levels`` maps a pin id (``U1.PA4``) to ``"high"`` or ``"low"``. ``lit`` names the LEDs
+    meant to be on; None (the default) means every LED of the group, and an empty tuple means
+    none (a reversed LED is never meant to light).
     """
 
     name: str
     levels: Mapping[str, Literal["high", "low"]] = field(default_factory=dict, hash=False)
-    lit: tuple[str, ...] = ()
+    lit: tuple[str, ...] | None = None
 
 
 @dataclass(frozen=True)

@@ -451,13 +451,12 @@ def _scenario_arrays(group: Group, pins: list[PinSpec], leds: list[str]
                      ) -> tuple[np.ndarray, np.ndarray]:
     """Pin levels (S, P): +1 high, −1 low, 0 undriven; LED lit mask (S, L).
 
-    An LED is lit in the scenarios whose ``lit`` names it; when no scenario names any LED,
-    every LED is lit in every scenario.
+    An LED is lit in the scenarios whose ``lit`` names it, and in every scenario whose
+    ``lit`` is None (all of the group's LEDs).
     """
     levels = np.array([[{"high": 1, "low": -1}.get(s.levels.get(p.id, ""), 0) for p in pins]
                        for s in group.scenarios], np.int8).reshape(len(group.scenarios), len(pins))
-    named = any(s.lit for s in group.scenarios)
-    lit = np.array([[(ref in s.lit) if named else True for ref in leds]
+    lit = np.array([[s.lit is None or ref in s.lit for ref in leds]
                     for s in group.scenarios], bool).reshape(len(group.scenarios), len(leds))
     return levels, lit
 
