@@ -1,0 +1,126 @@
+"""Rule ``led-overpower``: an LED's worst-case dissipation above its derated pd_max."""
+
+from __future__ import annotations
+
+from typing import Any, Iterable
+
+from linter import fix_search
+from linter.dissipation import Allowance, over, semiconductor_allowance
+from linter.findings import Finding
+from linter.fixes import resistor_for_current_solved
+from linter.results import GroupResult, LedResult
+from linter.rulekit import amps, at_corner, led_data, ohms, say, solved_groups, volts, watts
+from linter.rules import Rule, register
+
+
+@register
+class LedOverpower(Rule):
+    """An LED dissipates more than its derated pd_max allows.
+
+    Only where the part data gives the LED's ``pd_max``: without it nothing is judged (no
+    generic figure is taken). The dissipation I·Vf is solved at every corner; the largest
+    is compared with pd_max derated to the ambient maximum — full at 25 °C, falling
+    linearly to zero at 150 °C (small packages, common practice) — held to the
+    ``[derating] transistor_power`` share (60 % by default, common practice; LEDs are
+    semiconductor junctions like transistors). The fix is the standard value of the
+    current-setting resistor that keeps the worst case within the allowance, found by
+    solving the group again, or else the current the LED may take.
+
+    **Anti-pattern**
+
+    A 0603 LED with pd_max 75 mW at 30 mA and 2.4 V (72 mW) in a 60 °C enclosure, where only
+    about 32 mW are allowed::
+
+        R1 +5V a 82
+        D1 a 0 LD0603RD
+
+    **Best practice**
+
+    Size the current for the hot end: 240 Ω keeps the same LED at about 15 mA and 30 mW at
+    the worst corner, inside the allowance::
+
+        R1 +5V a 240
+        D1 a 0 LD0603RD
+    """
+
+    id = "led-overpower"
+    default_severity = "error"
+
+    def check(self, context: Any) -> Iterable[Finding]:
+        ambient = context.settings.ambient.max
+        share = context.settings.derating.transistor_power
+        for result in solved_groups(context):
+            hot: list[tuple[LedResult, Allowance]] = []
+            for led in result.leds:
+                data = led_data(context, led.ref)
+                if data is None or data.pd_max is None or "pd_max" in data.assumed:
+                    continue
+                allowance = semiconductor_allowance(data.pd_max, ambient, share)
+                if over(led.power.max, allowance):
+                    hot.append((led, allowance))
+            if hot:
+                yield self._finding(context, result, hot)
+
+    def _finding(self, context: Any, result: GroupResult,
+                 hot: list[tuple[LedResult, Allowance]]) -> Finding:
+        """One finding per group: the LED furthest over its allowance quoted, all named."""
+        led, allowance = max(hot, key=lambda item: item[0].power.max / item[1].allowed_w)
+        power = led.power
+        others = [x.ref for x, _ in hot if x.ref != led.ref]
+        also = f" (also {', '.join(others)})" if others else ""
+        message = say(led.ref, f"{watts(power.max)} at "
+                               f"{at_corner(power.at_max, result, (led.ref,))}, above the "
+                               f"{watts(allowance.allowed_w)} allowed "
+                               f"({allowance.describe('pd_max')}); {watts(power.nom)} nominal"
+                               f"{also}")
+        values = {"power_max_w": power.max, "power_nom_w": power.nom,
+                  "pd_max_w": allowance.rating_w, "allowed_w": allowance.allowed_w,
+                  "ambient_max_c": allowance.ambient_c, "derating_share": allowance.share,
+                  "current_max_a": led.current.max, "vf_max_v": led.vf.max}
+        part = context.circuit.parts.get(led.ref)
+        return Finding(rule=self.id, severity=context.severity(self), message=message,
+                       parts=tuple(x.ref for x, _ in hot), group=result.id, values=values,
+                       fix=_fix(context, result, hot, led, allowance, values),
+                       location=None if part is None else part.location)
+
+
+def _fix(context: Any, result: GroupResult, hot: list[tuple[LedResult, Allowance]],
+         led: LedResult, allowance: Allowance, values: dict) -> str:
+    """The setter resistor found by solving again, else the current to stay under (I = P/Vf)."""
+    vf_hot = led.power.max / led.current.max if led.current.max > 0 else led.vf.max
+    limit = allowance.allowed_w / vf_hot
+    values["fix_current_max_a"] = limit
+    plain = (f"keep {led.ref} at or below about {amps(limit)} at worst "
+             f"({watts(allowance.allowed_w)} at {volts(vf_hot)})")
+    setter = result.group.setter
+    if setter not in {r.ref for r in result.resistors}:
+        return plain
+    limits = {x.ref: a.allowed_w for x, a in hot}
+    choice = _resistor_for_power(context, result, setter, limits)
+    if choice is None:
+        return plain
+    values["fix_ohms"] = choice.ohms
+    worst = choice.current_max_a * allowance.allowed_w
+    return (f"make {setter} {ohms(choice.ohms)} ({choice.series}): {led.ref} then dissipates at "
+            f"most {watts(worst)} ({watts(allowance.allowed_w)} allowed)")
+
+
+def _resistor_for_power(context: Any, result: GroupResult, ref: str,
+                        limits: dict[str, float]):
+    """Smallest standard value of ``ref`` for which every LED named in ``limits`` keeps its
+    solved worst-case power (W) within its allowance (W). The choice's "current" fields
+    hold the largest ratio power/allowance (dimensionless; at most 1)."""
+    def ratio(value: float) -> tuple[float, float, float]:
+        again = fix_search.with_resistor(context, result, ref, value)
+        if again.status != "solved":
+            raise RuntimeError(f"{result.id}: not solvable with {ref} = {value} Ω")
+        spans = [(again.led(r).power, allowed) for r, allowed in limits.items()]
+        return (max(s.nom / a for s, a in spans), min(s.min / a for s, a in spans),
+                max(s.max / a for s, a in spans))
+
+    try:
+        return resistor_for_current_solved(ratio, 1.0, result.resistor(ref).ohms,
+                                           tolerance=fix_search.tolerance_of(context, ref),
+                                           max_steps=200)
+    except RuntimeError:
+        return None

@@ -1,0 +1,95 @@
+"""Rule ``resistor-overload``: a resistor's worst-case dissipation above its derated rating."""
+
+from __future__ import annotations
+
+from typing import Any, Iterable
+
+from linter.dissipation import Allowance, over, resistor_allowance
+from linter.findings import Finding
+from linter.fixes import resistor_rating
+from linter.results import GroupResult, ResistorResult
+from linter.rulekit import at_corner, say, solved_groups, watts
+from linter.rules import Rule, register
+
+
+@register
+class ResistorOverload(Rule):
+    """A resistor dissipates more than its derated power rating allows.
+
+    The dissipation P = I²·R is solved at every corner (rail tolerance, resistor tolerance,
+    the LEDs' Vf bins, ambient); the largest is compared with the rating derated to the
+    ambient maximum — full rating up to 70 °C, falling linearly to zero at 155 °C (thick
+    film, common practice) — and held to the ``[derating] resistor_power`` share (60 % by
+    default, common practice). The rating comes from the BOM's power column, the part data,
+    or the chip size (0603: 100 mW, 1206: 250 mW…); a resistor with no known rating is not
+    judged here (``unknown-part`` says so). The fix names the smallest chip size whose
+    derated rating covers the worst case, or a split across several parts.
+
+    **Anti-pattern**
+
+    A green LED on 1 kΩ from 12 V ±10 %: about 137 mW at the high rail, in an 0603 rated
+    100 mW, which may use only 60 mW (full rating at 50 °C, 60 % share)::
+
+        R12 +12V pwr_a 1k      ; BOM: 0603, 0.1 W
+        D15 pwr_a 0 LEDGRN
+
+    **Best practice**
+
+    A 1206 (250 mW, 150 mW allowed at 50 °C), or a larger resistance with a lower current
+    that still lights the LED::
+
+        R12 +12V pwr_a 1k      ; BOM: 1206, 0.25 W
+        D15 pwr_a 0 LEDGRN
+    """
+
+    id = "resistor-overload"
+    default_severity = "error"
+
+    def check(self, context: Any) -> Iterable[Finding]:
+        ambient = context.settings.ambient.max
+        share = context.settings.derating.resistor_power
+        seen: set[str] = set()
+        for result in solved_groups(context):
+            for resistor in result.resistors:
+                if resistor.ref in seen or resistor.rating_w is None:
+                    continue
+                seen.add(resistor.ref)
+                allowance = resistor_allowance(resistor.rating_w, ambient, share)
+                if over(resistor.power.max, allowance):
+                    yield self._finding(context, result, resistor, allowance)
+
+    def _finding(self, context: Any, result: GroupResult, resistor: ResistorResult,
+                 allowance: Allowance) -> Finding:
+        power = resistor.power
+        package = f"{resistor.package}, " if resistor.package else ""
+        rating = allowance.describe(f"{package}rated")
+        message = say(resistor.ref, f"{watts(power.max)} at {at_corner(power.at_max, result)}, "
+                                    f"above the {watts(allowance.allowed_w)} allowed ({rating}); "
+                                    f"{watts(power.nom)} nominal")
+        values = {"power_max_w": power.max, "power_nom_w": power.nom,
+                  "rating_w": allowance.rating_w, "allowed_w": allowance.allowed_w,
+                  "ambient_max_c": allowance.ambient_c, "derating_share": allowance.share,
+                  "current_max_a": resistor.current.max}
+        return Finding(rule=self.id, severity=context.severity(self), message=message,
+                       parts=(resistor.ref,), group=result.id, values=values,
+                       fix=_fix(resistor.ref, power.max, allowance, values),
+                       location=_location(context, resistor.ref))
+
+
+def _fix(ref: str, power_w: float, allowance: Allowance, values: dict) -> str:
+    """The package and rating to buy (or a split), from :func:`linter.fixes.resistor_rating`."""
+    choice = resistor_rating(power_w, allowance.ambient_c, allowance.share)
+    if choice is None:
+        return (f"no resistor rating is left at {allowance.ambient_c:g} °C ambient: lower the "
+                f"current through {ref} or move it off the hot area")
+    values.update(fix_rating_w=choice.rating_w, fix_count=float(choice.count),
+                  fix_allowed_w=choice.allowed_w)
+    if choice.count == 1:
+        return (f"use a {choice.text} part for {ref} ({watts(choice.allowed_w)} allowed at "
+                f"{allowance.ambient_c:g} °C)")
+    return f"{choice.text} for {ref} ({watts(choice.allowed_w)} allowed each)"
+
+
+def _location(context: Any, ref: str) -> Any:
+    part = context.circuit.parts.get(ref)
+    return None if part is None else part.location
