@@ -8,7 +8,8 @@ corner's Vf bin with the Shockley equation (IS' = IS·exp(−(Vf_bin − Vf_typ)
 the model's voltage at the 20 mA test current, Vt = k·T/q at 25 °C from scipy.constants),
 and a transistor at hfe_min given BF = hfe_min. ngspice then solves it; 0 V sources in series
 with every LED read the currents. The fixtures hold the ambient at 25 °C, so no temperature
-shift enters.
+shift enters; ngspice is told to solve at 25 °C with the models' figures taken at 25 °C
+(``.options temp=25 tnom=25``), the temperature ledlint's solver uses for SPICE figures.
 """
 
 from __future__ import annotations
@@ -94,7 +95,8 @@ def at_corner(text: str, rails: Mapping[str, float] = (), resistors: Mapping[str
             line = " ".join(words[:4] + [name])
         out.append(line)
     body = [x for x in out if x.strip().lower() not in (".op", ".end")]
-    return "\n".join(body + extra + [".control", "op", "print all", ".endc", ".end", ""])
+    options = [".options temp=25 tnom=25"]  # the model figures at 25 °C, as ledlint reads them
+    return "\n".join(body[:1] + options + body[1:] + extra + [".control", "op", "print all", ".endc", ".end", ""])
 
 
 def ngspice(text: str, tmp_path: Path) -> dict[str, float]:
