@@ -18,7 +18,7 @@ from pathlib import Path
 import pytest
 
 sys.path.insert(0, str(Path(__file__).resolve().parent))
-from rule_fixture_kit import ROOT, check  # noqa: E402
+from electrical_rule_kit import ROOT, check  # noqa: E402
 
 RULES = ("led-overcurrent", "shared-ballast", "string-headroom")
 DECKS = sorted((ROOT / "fixtures" / "rules" / rule / name)

@@ -8,7 +8,7 @@ from pathlib import Path
 import pytest
 
 sys.path.insert(0, str(Path(__file__).resolve().parent))
-from rule_fixture_kit import (RULES, at_corner, check, corner_args, findings,  # noqa: E402
+from electrical_rule_kit import (RULES, at_corner, check, corner_args, findings,  # noqa: E402
                               led_current, ngspice)
 
 from linter import eseries  # noqa: E402
