@@ -58,6 +58,7 @@ class ReportFormat(str, Enum):
     TEXT = "text"
     JSON = "json"
     SARIF = "sarif"
+    HTML = "html"
 
     def reporter_class(self) -> type[Reporter]:
         """The class that writes this format (imported on demand: start-up stays quick)."""
@@ -73,6 +74,10 @@ class ReportFormat(str, Enum):
             from linter.report.sarif import SarifReporter
 
             return SarifReporter
+        if self is ReportFormat.HTML:
+            from linter.report.html import HtmlReporter
+
+            return HtmlReporter
         assert_never(self)
 
     def reporter(self, options: ReportOptions | None = None, *, verbose: bool = False,
