@@ -107,7 +107,7 @@ def test_hostile_names_render_as_text(netlist, tmp_path):
         assert "R1<script>alert(\"r\")&'1'" in text
         assert "D\"1\"<b>&amp;'x'" in text
     else:
-        assert "R<script>alert&1</script>" in text
+        assert "R<script>alert&1" in text and "D<b>&x" in text
     for svg in re.findall(r"<svg\b.*?</svg>", html, re.S):
         ET.fromstring(svg)
 
