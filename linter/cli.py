@@ -105,13 +105,21 @@ def _run_check(args: argparse.Namespace) -> int:
     _refuse_output_over_input(args, netlists)
     if len(netlists) > 1 and (args.format != ReportFormat.TEXT.value or args.bom is not None):
         raise UsageError("ledlint check: several netlists need --format text and no --bom")
-    results = [run_check(CheckRequest(netlist=netlist, bom=args.bom, config=args.config,
-                                      parts_files=tuple(args.parts), baseline=args.baseline))
-               for netlist in netlists]
-    to_terminal = args.output is None and sys.stdout.isatty() and "NO_COLOR" not in os.environ
-    reporter = ReportFormat(args.format).reporter(verbose=args.verbose, quiet=args.quiet,
-                                                  color=to_terminal)
-    text = "\n".join(reporter.render(result) for result in results)
+    from linter.progress import Progress
+
+    with Progress(total=len(netlists) + 1) as progress:  # on stderr, only on a terminal
+        results = []
+        for netlist in netlists:
+            progress.step(f"checking {netlist.name}")
+            results.append(run_check(CheckRequest(netlist=netlist, bom=args.bom,
+                                                  config=args.config,
+                                                  parts_files=tuple(args.parts),
+                                                  baseline=args.baseline)))
+        progress.step(f"writing the {args.format} report")
+        to_terminal = args.output is None and sys.stdout.isatty() and "NO_COLOR" not in os.environ
+        reporter = ReportFormat(args.format).reporter(verbose=args.verbose, quiet=args.quiet,
+                                                      color=to_terminal)
+        text = "\n".join(reporter.render(result) for result in results)
     if args.output is not None:
         from linter.output import write_atomically
 
