@@ -19,7 +19,8 @@ from linter.refs import fold_refs, natural_key
 from linter.report import Reporter
 from linter.report.html_page import (esc, findings_section, page, severity_badge,
                                      summary_section)
-from linter.report.html_tables import group_tables
+from linter.report.common import sorted_groups
+from linter.report.html_tables import group_tables, plain_group_section
 
 if TYPE_CHECKING:
     from linter.engine import CheckResult
@@ -108,7 +109,9 @@ class HtmlReporter(Reporter):
     limit: int = MAX_FIGURE_GROUPS
 
     def render(self, result: "CheckResult") -> str:
-        groups = sorted(result.groups, key=lambda g: natural_key(g.id))
+        solved = [g for g in result.groups if hasattr(g, "group")]
+        plain = [g for g in result.groups if not hasattr(g, "group")]  # records with as_dict() only
+        groups = sorted(solved, key=lambda g: natural_key(g.id))
         anchors = {group.id: f"group-{index + 1}" for index, group in enumerate(groups)}
         drawn = figure_groups(groups, result.findings, self.limit)
         left_out = [g.id for g in groups if g.id not in drawn]
@@ -119,9 +122,10 @@ class HtmlReporter(Reporter):
         board = result.circuit.design or Path(str(result.circuit.source)).stem
         body = [summary_section(result, board, note), findings_section(result, anchors),
                 '<section id="groups"><h2>LED groups</h2>']
-        if not groups:
+        if not result.groups:
             body.append("<p>No LED groups found.</p>")
         body += [_group_section(group, result, anchors[group.id], group.id in drawn, index)
                  for index, group in enumerate(groups)]
+        body += [plain_group_section(entry) for entry in sorted_groups(plain)]
         body.append("</section>")
         return page(f"ledlint audit: {board}", body)

@@ -17,7 +17,7 @@ if TYPE_CHECKING:
     from linter.partdata import PartDataMap
     from linter.results import GroupResult, Span
 
-__all__ = ["UNKNOWN", "group_tables"]
+__all__ = ["UNKNOWN", "group_tables", "plain_group_section"]
 
 UNKNOWN = "unknown"
 
@@ -122,3 +122,19 @@ def group_tables(result: "GroupResult", part_data: "PartDataMap") -> str:
     notes.append(f"{result.corners} corners per scenario ({result.scheme})")
     out.append("".join(f'<p class="note">{esc(note)}</p>' for note in notes))
     return "\n".join(out)
+
+
+def plain_group_section(entry: dict[str, Any]) -> str:
+    """A group known only by its JSON form (``as_dict()``): heading and tables, no figures."""
+    words = f"{entry.get('topology', UNKNOWN)} from {entry.get('rail') or 'an unknown rail'}"
+    leds = [[led.get("ref", ""), led.get("part") or UNKNOWN,
+             *(_si((led.get("current_a") or {}).get(k), "A") for k in ("nom", "min", "max")),
+             *(_si((led.get("vf_v") or {}).get(k), "V") for k in ("nom", "min", "max"))]
+            for led in entry.get("leds", ())]
+    resistors = [[r.get("ref", ""), _si(r.get("ohms"), "Ω"),
+                  *(_si((r.get("power_w") or {}).get(k), "W") for k in ("nom", "max")),
+                  _si(r.get("rating_w"), "W")] for r in entry.get("resistors", ())]
+    return (f'<section class="group"><h3>{esc(entry.get("id", ""))}: {esc(words)}</h3>'
+            + _table(["LED", "part", "I nom", "I min", "I max", "Vf nom", "Vf min", "Vf max"], leds, 2)
+            + _table(["resistor", "value", "P nom", "P max", "rating"], resistors, 1)
+            + "</section>")
