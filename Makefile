@@ -16,6 +16,10 @@ demo: $(STAMP)
 	$(BIN)/ledlint check fixtures/demo/dust_extractor_panel.edif --bom fixtures/demo/bom.csv --verbose || test $$? -eq 1
 
 test: $(STAMP)
+	@# the browser test needs Debian's chromium: install it when root and it is missing
+	if [ "$$(id -u)" = 0 ] && ! command -v chromium >/dev/null; then \
+	    DEBIAN_FRONTEND=noninteractive apt-get install -y -qq chromium >/dev/null || \
+	    { apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq chromium >/dev/null; }; fi
 	$(BIN)/python -m pytest -q -p no:cacheprovider
 
 bench: $(STAMP)
