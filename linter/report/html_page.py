@@ -50,13 +50,13 @@ td.num, th.num { text-align: right; font-variant-numeric: tabular-nums; white-sp
          break-inside: avoid; page-break-inside: avoid; }
 .figures { display: flex; flex-wrap: wrap; gap: 1.2rem; align-items: flex-start; }
 figure { margin: 0; } figure svg { display: block; height: auto; max-width: 100%; }
-figure.schematic svg { max-height: 30rem; width: auto; max-width: 34rem; }
-figure.plot svg { width: 30rem; }
+figure.schematic svg { max-width: 100%; }
+figure.plot svg { width: 40rem; }
 .fix { color: #1d4d1d; } code, .mono { font-family: ui-monospace, "DejaVu Sans Mono", monospace;
        font-size: 12.5px; }
 a { color: #0b4f8a; } .nowrap { white-space: nowrap; }
 @media print { body { max-width: none; margin: 0; font-size: 11px; } a { color: inherit; }
-               h2 { break-after: avoid; } figure.plot svg { width: 24rem; } }
+               h2 { break-after: avoid; } figure.plot svg { width: 34rem; } }
 """
 """Print-friendly: severities differ by border style as well as colour."""
 

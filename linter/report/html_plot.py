@@ -30,7 +30,7 @@ CORNER_STYLE: dict[str, dict[str, str]] = {
 marker, and its name in the legend."""
 
 _RC = {"svg.fonttype": "none", "svg.hashsalt": "ledlint", "text.parse_math": False,
-       "font.size": 8.0, "font.family": "sans-serif", "axes.linewidth": 0.6}
+       "font.size": 9.0, "font.family": "sans-serif", "axes.linewidth": 0.6}
 
 
 def _matplotlib():
@@ -78,8 +78,8 @@ def iv_plot_svg(data: "IvData", prefix: str) -> str:
     """The plot as inline SVG (ids prefixed with ``prefix``)."""
     matplotlib, figure_class = _matplotlib()
     with matplotlib.rc_context(_RC):
-        figure = figure_class(figsize=(4.6, 3.1))
-        figure.subplots_adjust(left=0.12, right=0.98, bottom=0.14, top=0.97)
+        figure = figure_class(figsize=(7.0, 3.2))
+        figure.subplots_adjust(left=0.09, right=0.58, bottom=0.15, top=0.97)
         ax = figure.add_subplot()
         _draw(ax, data)
         count = len(data.string)
@@ -87,7 +87,8 @@ def iv_plot_svg(data: "IvData", prefix: str) -> str:
                       else f"voltage across the string of {count} LEDs (V)")
         ax.set_ylabel("LED current (mA)")
         ax.grid(True, linewidth=0.3, color="#bbbbbb")
-        ax.legend(loc="upper left", fontsize=7, frameon=True, framealpha=0.9)
+        ax.legend(loc="upper left", bbox_to_anchor=(1.03, 1.0), fontsize=8.5, frameon=False,
+                  borderaxespad=0.0)  # beside the axes: it never hides a curve
         buffer = io.StringIO()
         figure.savefig(buffer, format="svg", metadata={"Date": None, "Creator": None})
     return inline_svg(buffer.getvalue(), prefix)

@@ -58,8 +58,10 @@ def _led_table(result: "GroupResult", part_data: "PartDataMap") -> str:
 def _resistor_table(result: "GroupResult") -> str:
     rows = []
     for r in result.resistors:
-        share = (f"{100 * r.power.max / r.rating_w:.0f} %"
-                 if r.rating_w and math.isfinite(r.power.max) else UNKNOWN)
+        share = UNKNOWN
+        if r.rating_w and math.isfinite(r.power.max):
+            percent = 100 * r.power.max / r.rating_w
+            share = f"{percent:.0f} %" if percent >= 1 else "<1 %"
         rows.append([r.ref, r.package or UNKNOWN, _si(r.ohms, "Ω"), f"±{100 * r.tolerance:g} %",
                      _si(r.current.nom, "A"), _si(r.current.max, "A"), _si(r.power.nom, "W"),
                      _si(r.power.max, "W"), _si(r.rating_w, "W"), share])
@@ -100,7 +102,7 @@ def _extremes(result: "GroupResult") -> str:
             items.append(f"<li>{esc(t.ref)} leaves regulation at {esc(t.saturated_at.label())}</li>")
     if not items:
         return ""
-    return ('<details class="extremes"><summary>corners of the extremes</summary>'
+    return ('<details class="extremes" open><summary>corners of the extremes</summary>'
             f"<ul>{''.join(items)}</ul></details>")
 
 
