@@ -104,8 +104,9 @@ def test_hostile_names_render_as_text(netlist, tmp_path):
     assert not {"script", "b", "i"} & set(tags.tags)  # the names' markup stays text
     text = "".join(tags.text)
     if netlist.endswith(".edif"):  # names from the fixture, read back as the page's text
-        assert "R1<script>alert(\"r\")&'1'" in text
-        assert "D\"1\"<b>&amp;'x'" in text
+        assert "R1<script>alert(&'r')" in text and "D1<b>&amp;'x'" in text
+        assert "from +5V<script>&'" in text  # the rail, a net name
+        assert 'L&RED<script>"q"' in text  # the part number, %34% decoded to a double quote
     else:
         assert "R<script>alert&1" in text and "D<b>&x" in text
     for svg in re.findall(r"<svg\b.*?</svg>", html, re.S):
