@@ -257,14 +257,16 @@ def diode_current(v: np.ndarray, i_s: np.ndarray, n_vt: np.ndarray
     return i_s * (e - 1.0), i_s * de / n_vt
 
 
-def pn_limit(v_new: np.ndarray, v_old: np.ndarray, n_vt: np.ndarray, i_s: np.ndarray
-             ) -> np.ndarray:
+def pn_limit(v_new: np.ndarray, v_old: np.ndarray, n_vt: np.ndarray, i_s: np.ndarray,
+             v_crit: np.ndarray | None = None) -> np.ndarray:
     """SPICE's junction-voltage limiting: the junction voltage to evaluate at next.
 
     Above the critical voltage Vcrit = n·Vt·ln(n·Vt/(√2·Is)), a step of more than 2·n·Vt is
     cut to a logarithmic one, so that exp() does not run away between Newton iterations.
+    ``v_crit`` may be passed in when already computed (it depends only on n·Vt and Is).
     """
-    v_crit = n_vt * np.log(n_vt / (math.sqrt(2.0) * i_s))
+    if v_crit is None:
+        v_crit = n_vt * np.log(n_vt / (math.sqrt(2.0) * i_s))
     big = (v_new > v_crit) & (np.abs(v_new - v_old) > 2.0 * n_vt)
     arg = 1.0 + (v_new - v_old) / n_vt
     from_on = np.where(arg > 0, v_old + n_vt * np.log(np.maximum(arg, 1e-300)), v_crit)

@@ -1,10 +1,10 @@
 """DC operating point of small nodal networks, vectorised over a batch axis.
 
-A :class:`Network` is the structure (nodes and elements, stamped once into two small
-scatter matrices); :class:`Params` holds each element's parameters as arrays of shape
-(B, m): one row per corner (and per group of identical structure). :func:`solve` runs
-Newton's method on all B rows at once: it assembles the KCL residual F (B, n) and the
-Jacobian J (B, n, n) with two matrix products, solves the stacked systems with
+A :class:`Network` is the structure (nodes and elements, with a stamp plan built once);
+:class:`Params` holds each element's parameters as arrays of shape (B, m): one row per
+corner (and per group of identical structure). :func:`solve` runs Newton's method on all B
+rows at once: it assembles the KCL residual F (B, n) and the Jacobian J (B, n, n) with one
+gather and one sum each (:mod:`linter.stamps`), solves the stacked systems with
 ``np.linalg.solve`` and damps each row's step so that no junction voltage jumps further than
 SPICE's junction limiting allows. Rows that do not converge are flagged, never left as NaN.
 
@@ -31,6 +31,7 @@ from functools import cached_property
 import numpy as np
 
 from linter.devices import VT_REF, bjt_currents, diode_current, mosfet_current, pn_limit
+from linter.stamps import StampPlan, junction_nodes
 
 __all__ = ["GMIN", "CURRENT_TOL", "VOLTAGE_TOL", "MAX_ITERATIONS", "Network", "Params",
            "Solution", "solve", "element_currents"]
@@ -43,14 +44,6 @@ VOLTAGE_TOL: float = 1e-9
 """V, largest last Newton step of a converged row."""
 MAX_ITERATIONS: int = 400
 """Newton iterations before a row is declared not converged."""
-
-
-def _pairs(nodes: np.ndarray) -> np.ndarray:
-    """Every (row, column) terminal pair of each element: (m, t, t, 2)."""
-    t = nodes.shape[1]
-    rows = np.repeat(nodes[:, :, None], t, axis=2)
-    cols = np.repeat(nodes[:, None, :], t, axis=1)
-    return np.stack([rows, cols], axis=-1)
 
 
 @dataclass(frozen=True, eq=False)
@@ -85,24 +78,14 @@ class Network:
                                (self.resistors, self.diodes, self.bjts, self.mosfets)])
 
     @cached_property
-    def scatter_f(self) -> np.ndarray:
-        """(T, n): terminal currents → KCL residual at the unknown nodes."""
-        terminals = self._terminals()
-        scatter = np.zeros((terminals.size, self.n_nodes))
-        inner = terminals < self.n_nodes
-        scatter[np.nonzero(inner)[0], terminals[inner]] = 1.0
-        return scatter
+    def stamps(self) -> StampPlan:
+        """Where each element's currents and conductances land (built once, on first use)."""
+        return StampPlan.of(self)
 
     @cached_property
-    def scatter_j(self) -> np.ndarray:
-        """(T·t, n·n): terminal conductances → Jacobian entries of the unknown nodes."""
-        n = self.n_nodes
-        pairs = np.concatenate([_pairs(np.asarray(a, int)).reshape(-1, 2) for a in
-                                (self.resistors, self.diodes, self.bjts, self.mosfets)])
-        scatter = np.zeros((pairs.shape[0], n * n))
-        both = (pairs[:, 0] < n) & (pairs[:, 1] < n)
-        scatter[np.nonzero(both)[0], pairs[both, 0] * n + pairs[both, 1]] = 1.0
-        return scatter
+    def junctions(self) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        """Every pn junction: (anode nodes, cathode nodes, polarity)."""
+        return junction_nodes(self)
 
     @property
     def n_all(self) -> int:
@@ -150,92 +133,54 @@ class Solution:
     residual: np.ndarray
 
 
-def _terms(net: Network, v: np.ndarray, nodes: np.ndarray) -> np.ndarray:
-    """Voltages at each element terminal: (B, m, t)."""
-    return v[:, nodes] if nodes.size else np.zeros((v.shape[0], 0, nodes.shape[1]))
+CHUNK_ROWS: int = 16384
+"""Rows iterated together: large enough to amortise numpy's per-call cost, small enough for
+the temporaries to stay in the processor's cache."""
 
 
-def _resistor_stamps(net: Network, p: Params, v: np.ndarray):
-    vt = _terms(net, v, net.resistors)
-    i = p.r_g * (vt[..., 0] - vt[..., 1])
-    g = p.r_g[..., None, None] * np.array([[1.0, -1.0], [-1.0, 1.0]])
-    return np.stack([i, -i], axis=-1), g
+def _evaluate(net: Network, p: Params, v: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Residual columns (B, kf) and Jacobian columns (B, kj) in :mod:`linter.stamps` order."""
+    r, d, q, m = net.resistors, net.diodes, net.bjts, net.mosfets
+    mr, md, mq, mm = len(r), len(d), len(q), len(m)
+    rows = v.shape[0]
+    cur = np.empty((rows, mr + md + 2 * mq + mm))
+    cond = np.empty((rows, mr + md + 4 * mq + 2 * mm))
+    if mr:
+        cur[:, :mr] = p.r_g * (v[:, r[:, 0]] - v[:, r[:, 1]])
+        cond[:, :mr] = p.r_g
+    if md:
+        i, g = diode_current(v[:, d[:, 0]] - v[:, d[:, 1]], p.d_is, p.d_nvt)
+        cur[:, mr:mr + md], cond[:, mr:mr + md] = i, g
+    first = mr + md
+    if mq:
+        s = net.bjt_polarity
+        vb = v[:, q[:, 1]]
+        c = bjt_currents(s * (vb - v[:, q[:, 2]]), s * (vb - v[:, q[:, 0]]), p.q_is, p.q_bf,
+                         p.q_br, VT_REF)
+        cur[:, first:first + mq], cur[:, first + mq:first + 2 * mq] = s * c["ic"], s * c["ib"]
+        for k, key in enumerate(("dic_dvbe", "dic_dvbc", "dib_dvbe", "dib_dvbc")):
+            cond[:, first + k * mq:first + (k + 1) * mq] = c[key]
+    if mm:
+        s = net.mosfet_polarity
+        vs = v[:, m[:, 2]]
+        i_d, gm, gds = mosfet_current(s * (v[:, m[:, 1]] - vs), s * (v[:, m[:, 0]] - vs),
+                                      p.m_vto, p.m_kp, p.m_lambda)
+        cur[:, first + 2 * mq:] = s * i_d
+        cond[:, first + 4 * mq:first + 4 * mq + mm], cond[:, first + 4 * mq + mm:] = gm, gds
+    return cur, cond
 
 
-def _diode_stamps(net: Network, p: Params, v: np.ndarray):
-    vt = _terms(net, v, net.diodes)
-    i, g = diode_current(vt[..., 0] - vt[..., 1], p.d_is, p.d_nvt)
-    return np.stack([i, -i], axis=-1), g[..., None, None] * np.array([[1.0, -1.0], [-1.0, 1.0]])
-
-
-def _bjt_stamps(net: Network, p: Params, v: np.ndarray):
-    vt = _terms(net, v, net.bjts)
-    s = net.bjt_polarity
-    c = bjt_currents(s * (vt[..., 1] - vt[..., 2]), s * (vt[..., 1] - vt[..., 0]),
-                     p.q_is, p.q_bf, p.q_br, VT_REF)
-    ic, ib = s * c["ic"], s * c["ib"]
-    currents = np.stack([ic, ib, -ic - ib], axis=-1)
-    d_c = np.stack([-c["dic_dvbc"], c["dic_dvbe"] + c["dic_dvbc"], -c["dic_dvbe"]], axis=-1)
-    d_b = np.stack([-c["dib_dvbc"], c["dib_dvbe"] + c["dib_dvbc"], -c["dib_dvbe"]], axis=-1)
-    return currents, np.stack([d_c, d_b, -d_c - d_b], axis=-2)
-
-
-def _mosfet_stamps(net: Network, p: Params, v: np.ndarray):
-    vt = _terms(net, v, net.mosfets)
-    s = net.mosfet_polarity
-    i_d, gm, gds = mosfet_current(s * (vt[..., 1] - vt[..., 2]), s * (vt[..., 0] - vt[..., 2]),
-                                  p.m_vto, p.m_kp, p.m_lambda)
-    currents = np.stack([s * i_d, np.zeros_like(i_d), -s * i_d], axis=-1)
-    d_d = np.stack([gds, gm, -gm - gds], axis=-1)
-    zero = np.zeros_like(d_d)
-    return currents, np.stack([d_d, zero, -d_d], axis=-2)
-
-
-_STAMPERS = (_resistor_stamps, _diode_stamps, _bjt_stamps, _mosfet_stamps)
-
-
-def _assemble(net: Network, p: Params, x: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """KCL residual F (B, n) (current leaving each node, A) and Jacobian J (B, n, n) (S)."""
-    v = np.concatenate([x, p.fixed], axis=1)
-    rows = x.shape[0]
-    currents, conductances = [], []
-    for stamper in _STAMPERS:
-        i, g = stamper(net, p, v)
-        currents.append(i.reshape(rows, -1))
-        conductances.append(g.reshape(rows, -1))
-    n = net.n_nodes
-    f = np.concatenate(currents, axis=1) @ net.scatter_f + GMIN * x
-    j = (np.concatenate(conductances, axis=1) @ net.scatter_j).reshape(rows, n, n)
-    j[:, np.arange(n), np.arange(n)] += GMIN
-    return f, j
-
-
-def _junctions(net: Network, p: Params):
-    """Every junction as (anode node, cathode node, sign, Is, n·Vt) arrays over the batch."""
-    s_q = net.bjt_polarity
-    a = np.concatenate([net.diodes[:, 0], net.bjts[:, 1], net.bjts[:, 1]]).astype(int)
-    k = np.concatenate([net.diodes[:, 1], net.bjts[:, 2], net.bjts[:, 0]]).astype(int)
-    sign = np.concatenate([np.ones(len(net.diodes)), s_q, s_q])
-    i_s = np.concatenate([p.d_is, p.q_is, p.q_is], axis=1)
-    nvt = np.concatenate([p.d_nvt, np.full_like(p.q_is, VT_REF), np.full_like(p.q_is, VT_REF)],
-                         axis=1)
-    return a, k, sign, i_s, nvt
-
-
-def _step_factor(net: Network, p: Params, x: np.ndarray, dx: np.ndarray) -> np.ndarray:
-    """Per row, the share of the Newton step to take so that junction limiting holds."""
-    a, k, sign, i_s, nvt = _junctions(net, p)
-    if a.size == 0:
-        return np.ones(x.shape[0])
-    v_old = np.concatenate([x, p.fixed], axis=1)
-    v_new = v_old + np.concatenate([dx, np.zeros_like(p.fixed)], axis=1)
-    old = sign * (v_old[:, a] - v_old[:, k])
-    new = sign * (v_new[:, a] - v_new[:, k])
-    limited = pn_limit(new, old, nvt, i_s)
-    change = new - old
-    with np.errstate(divide="ignore", invalid="ignore"):
-        ratio = np.where(np.abs(change) > 0, (limited - old) / change, 1.0)
-    return np.clip(np.min(ratio, axis=1), 1e-6, 1.0)
+def _assemble(net: Network, p: Params, v: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """KCL residual F (B, n) (current leaving each node, A) and Jacobian J (B, n, n) (S) at
+    the node voltages ``v`` (B, n + nf)."""
+    n, rows = net.n_nodes, v.shape[0]
+    cur, cond = _evaluate(net, p, v)
+    f = GMIN * v[:, :n]
+    net.stamps.f.apply(cur, f)
+    j = np.zeros((rows, n * n))
+    net.stamps.j.apply(cond, j)
+    j[:, ::n + 1] += GMIN
+    return f, j.reshape(rows, n, n)
 
 
 def _newton_step(jacobian: np.ndarray, residual: np.ndarray) -> np.ndarray:
@@ -243,13 +188,62 @@ def _newton_step(jacobian: np.ndarray, residual: np.ndarray) -> np.ndarray:
 
     A row whose Jacobian is numerically singular (a cluster of junctions far into forward
     bias joined to the rest only by ordinary conductances: 1e16 S against 0.2 S) makes the
-    batched LU solve fail for the whole batch; the pseudo-inverse (SVD) then gives the
-    minimum-norm step for every row, and junction limiting takes it from there.
+    batched LU solve fail for the whole batch; such rows (a zero LU pivot, so a zero
+    determinant) then take the pseudo-inverse's minimum-norm step, the rest the LU solution,
+    and junction limiting takes it from there.
     """
     try:
         return np.linalg.solve(jacobian, -residual[..., None])[..., 0]
     except np.linalg.LinAlgError:
-        return (np.linalg.pinv(jacobian) @ -residual[..., None])[..., 0]
+        pass
+    with np.errstate(all="ignore"):
+        det = np.linalg.det(jacobian)
+    bad = ~(np.isfinite(det) & (det != 0.0))
+    step = np.empty_like(residual)
+    try:
+        step[~bad] = np.linalg.solve(jacobian[~bad], -residual[~bad][..., None])[..., 0]
+    except np.linalg.LinAlgError:
+        bad[:] = True
+    step[bad] = (np.linalg.pinv(jacobian[bad]) @ -residual[bad][..., None])[..., 0]
+    return step
+
+
+@dataclass(frozen=True, eq=False)
+class _Junctions:
+    """Every pn junction of the rows being iterated: Is (A), n·Vt (V), Vcrit (V)."""
+
+    i_s: np.ndarray
+    nvt: np.ndarray
+    v_crit: np.ndarray
+
+    @classmethod
+    def of(cls, p: Params) -> "_Junctions":
+        i_s = np.concatenate([p.d_is, p.q_is, p.q_is], axis=1)
+        vt = np.full_like(p.q_is, VT_REF)
+        nvt = np.concatenate([p.d_nvt, vt, vt], axis=1)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            v_crit = nvt * np.log(nvt / (np.sqrt(2.0) * i_s))
+        return cls(i_s, nvt, v_crit)
+
+    def take(self, keep: np.ndarray) -> "_Junctions":
+        return _Junctions(self.i_s[keep], self.nvt[keep], self.v_crit[keep])
+
+
+def _step_factor(net: Network, junctions: _Junctions, v: np.ndarray, dx: np.ndarray
+                 ) -> np.ndarray:
+    """Per row, the share of the Newton step to take so that junction limiting holds."""
+    a, k, sign = net.junctions
+    if a.size == 0:
+        return np.ones(v.shape[0])
+    n = net.n_nodes
+    old = sign * (v[:, a] - v[:, k])
+    padded = np.concatenate([dx, np.zeros((dx.shape[0], 1))], axis=1)
+    change = sign * (padded[:, np.minimum(a, n)] - padded[:, np.minimum(k, n)])
+    new = old + change
+    limited = pn_limit(new, old, junctions.nvt, junctions.i_s, junctions.v_crit)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        ratio = np.where(limited == new, 1.0, (limited - old) / change)
+    return np.clip(np.min(ratio, axis=1), 1e-6, 1.0)
 
 
 def solve(net: Network, params: Params, initial: np.ndarray | None = None,
@@ -258,30 +252,46 @@ def solve(net: Network, params: Params, initial: np.ndarray | None = None,
 
     Rows that converge leave the active set; the rest keep iterating until
     ``max_iterations``, then are flagged ``converged = False`` (their voltages are the last
-    iterate, finite).
+    iterate, finite). Rows are iterated :data:`CHUNK_ROWS` at a time.
     """
     rows, n = params.rows, net.n_nodes
     x = np.zeros((rows, n)) if initial is None else np.array(initial, dtype=float)
+    if rows > CHUNK_ROWS:
+        parts = [_solve_rows(net, params.take(np.arange(lo, min(rows, lo + CHUNK_ROWS))),
+                             x[lo:lo + CHUNK_ROWS], max_iterations)
+                 for lo in range(0, rows, CHUNK_ROWS)]
+        return Solution(*(np.concatenate([getattr(s, k) for s in parts])
+                          for k in ("voltages", "converged", "iterations", "residual")))
+    return _solve_rows(net, params, x, max_iterations)
+
+
+def _solve_rows(net: Network, params: Params, x: np.ndarray, max_iterations: int) -> Solution:
+    rows, n = params.rows, net.n_nodes
     converged = np.zeros(rows, bool)
     iterations = np.zeros(rows, int)
     residual = np.full(rows, np.inf)
     active = np.arange(rows)
+    p, junctions = params, _Junctions.of(params)
+    v = np.concatenate([x, params.fixed], axis=1)
     for step in range(1, max_iterations + 1):
         if active.size == 0:
             break
-        p = params.take(active) if active.size < rows else params
-        xa = x[active]
-        f, j = _assemble(net, p, xa)
-        dx = _newton_step(j, f) if n else np.zeros_like(xa)
+        f, j = _assemble(net, p, v)
+        dx = _newton_step(j, f) if n else np.zeros((active.size, 0))
         dx = np.where(np.isfinite(dx), dx, 0.0)
-        alpha = _step_factor(net, p, xa, dx)
-        x[active] = xa + alpha[:, None] * dx
+        alpha = _step_factor(net, junctions, v, dx)
+        v[:, :n] += alpha[:, None] * dx
         iterations[active] = step
-        residual[active] = np.max(np.abs(f), axis=1, initial=0.0)
-        done = ((residual[active] <= CURRENT_TOL)
+        largest = np.max(np.abs(f), axis=1, initial=0.0)
+        residual[active] = largest
+        done = ((largest <= CURRENT_TOL)
                 & (np.max(np.abs(dx), axis=1, initial=0.0) <= VOLTAGE_TOL) & (alpha >= 1.0))
-        converged[active[done]] = True
-        active = active[~done]
+        if done.any():
+            x[active[done]] = v[done, :n]
+            converged[active[done]] = True
+            keep = ~done
+            active, v, p, junctions = active[keep], v[keep], p.take(keep), junctions.take(keep)
+    x[active] = v[:, :n]
     return Solution(np.concatenate([x, params.fixed], axis=1), converged, iterations, residual)
 
 
