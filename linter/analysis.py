@@ -10,12 +10,17 @@ need a particular point).
 
 from __future__ import annotations
 
-from typing import Iterable, Mapping
+import gc
+import time
+from contextlib import contextmanager
+from dataclasses import dataclass
+from typing import Iterable, Iterator, Mapping
 
 import numpy as np
 
-from linter.batchsolve import RowPlan, run
-from linter.corners import (FULL_PRODUCT_AXES, probe_codes, vertex_codes, worst_case_codes)
+from linter.batchsolve import BucketData, RowPlan, run
+from linter.corners import (FULL_PRODUCT_AXES, distinct_codes, probe_codes, vertex_codes,
+                            worst_case_codes)
 from linter.groups import Group
 from linter.model import Circuit
 from linter.netbuild import GroupModel, ModelGap, build_model
@@ -23,27 +28,94 @@ from linter.partdata import Ambient, PartDataMap, Rail
 from linter.reduce import group_result
 from linter.results import GroupResult
 
-__all__ = ["VF_PROBE", "analyse", "operating_point"]
+__all__ = ["VF_PROBE", "WARM_PROBE_AXES", "STAGE_TIMES", "analyse", "operating_point"]
 
 VF_PROBE: float = 0.01
 """V, the Vf shift of the sensitivity row (dI/dVf by finite difference)."""
 
 
-def _codes(models: list[GroupModel], ambient: Ambient) -> tuple[np.ndarray, str]:
-    """(G, C, A) corner codes, row 0 nominal, and the scheme's name."""
-    axes = models[0].axes
-    g = len(models)
+WARM_PROBE_AXES: int = 4
+"""From this many axes, vertex-scheme groups are probed one axis at a time first, so that
+every vertex starts Newton's method from the sum of the probed moves (fewer iterations)."""
+
+STAGE_TIMES: dict[str, float] = {}
+"""Seconds spent in each stage by the last :func:`analyse` call (for bench scripts)."""
+
+_OUTPUTS = ("led_i", "res_p", "q_p", "m_p", "pin_i")
+"""The outputs whose extremes choose the sensitivity scheme's vertices."""
+
+
+@contextmanager
+def _stage(name: str) -> Iterator[None]:
+    started = time.perf_counter()
+    try:
+        yield
+    finally:
+        STAGE_TIMES[name] = STAGE_TIMES.get(name, 0.0) + time.perf_counter() - started
+
+
+@contextmanager
+def _gc_paused() -> Iterator[None]:
+    """Pause the cyclic garbage collector: the analysis allocates many small acyclic
+    records, and full collections over a large heap cost more than the work itself."""
+    was_enabled = gc.isenabled()
+    gc.disable()
+    try:
+        yield
+    finally:
+        if was_enabled:
+            gc.enable()
+
+
+@dataclass(frozen=True, eq=False)
+class _Bucket:
+    """Same-signature models, their stacked figures and their nominal solution."""
+
+    models: list[GroupModel]
+    data: BucketData
+    ambient: Ambient
+    nominal: dict[str, np.ndarray]
+
+    @property
+    def x_nominal(self) -> np.ndarray:
+        """(G, S, n) nominal node voltages."""
+        return self.nominal["v"][:, :, 0, :self.models[0].network.n_nodes]
+
+
+def _nominal(models: list[GroupModel], data: BucketData, ambient: Ambient) -> _Bucket:
+    count = len(models[0].axes)
+    codes = np.zeros((len(models), 1, count), np.int8)
+    out = run(models, RowPlan(codes, np.zeros(1), np.zeros(1, bool)), ambient, data=data)
+    return _Bucket(models, data, ambient, out)
+
+
+def _probe(bucket: _Bucket) -> dict[str, np.ndarray]:
+    """Nominal and each axis alone at each extreme (G, S, 1 + 2k, …), started at nominal."""
+    probes = probe_codes(bucket.models[0].axes)
+    g, rows = len(bucket.models), probes.shape[0]
+    codes = np.broadcast_to(probes, (g,) + probes.shape)
+    start = np.broadcast_to(bucket.x_nominal[:, :, None], bucket.x_nominal.shape[:2] + (
+        rows, bucket.x_nominal.shape[-1])).reshape(-1, bucket.x_nominal.shape[-1])
+    return run(bucket.models, RowPlan(codes, np.zeros(rows), np.zeros(rows, bool)),
+               bucket.ambient, start, bucket.data)
+
+
+def _codes(bucket: _Bucket, probed: dict | None) -> tuple[np.ndarray, np.ndarray, str]:
+    """(G, C, A) corner codes (row 0 nominal), distinct rows per group, scheme name."""
+    axes = bucket.models[0].axes
+    g = len(bucket.models)
     if len(axes) <= FULL_PRODUCT_AXES:
         codes = vertex_codes(axes)
-        return np.broadcast_to(codes, (g,) + codes.shape).copy(), "vertices"
-    probes = np.broadcast_to(probe_codes(axes), (g,) + probe_codes(axes).shape).copy()
-    count = probes.shape[1]
-    out = run(models, RowPlan(probes, np.zeros(count), np.zeros(count, bool)), ambient)
-    outputs = np.concatenate([out[k] for k in ("led_i", "res_p", "q_p", "m_p", "pin_i")], axis=-1)
-    worst = worst_case_codes(axes, outputs)                   # (G, S, 2K, A)
-    worst = worst.reshape(g, -1, len(axes))
+        return (np.broadcast_to(codes, (g,) + codes.shape), np.full(g, codes.shape[0]),
+                "vertices")
+    assert probed is not None
+    outputs = np.concatenate([probed[k] for k in _OUTPUTS], axis=-1)   # (G, S, P, K)
+    ok = probed["converged"].astype(bool)
+    outputs = np.where(ok, outputs, outputs[:, :, :1])   # a failed probe moves nothing
+    worst = worst_case_codes(axes, outputs).reshape(g, -1, len(axes))   # (G, S·2K, A)
     nominal = np.zeros((g, 1, len(axes)), np.int8)
-    return np.concatenate([nominal, worst], axis=1), "sensitivity"
+    codes, counts = distinct_codes(np.concatenate([nominal, worst], axis=1))
+    return codes, counts, "sensitivity"
 
 
 def _plan(models: list[GroupModel], codes: np.ndarray) -> RowPlan:
@@ -59,23 +131,47 @@ def _plan(models: list[GroupModel], codes: np.ndarray) -> RowPlan:
     return RowPlan(np.concatenate(parts, axis=1), np.concatenate(shift), np.concatenate(aux))
 
 
-def _warm_start(models: list[GroupModel], plan: RowPlan, ambient: Ambient) -> np.ndarray:
-    """Initial voltages for every row: each group's nominal solution (fewer iterations)."""
-    nominal = run(models, RowPlan(plan.codes[:, :1], np.zeros(1), np.zeros(1, bool)), ambient)
-    n = models[0].network.n_nodes
-    start = nominal["v"][..., :n]                               # (G, S, 1, n)
-    g, s = start.shape[:2]
-    c = plan.codes.shape[1]
-    return np.broadcast_to(start, (g, s, c, n)).reshape(g * s * c, n)
+def _start(bucket: _Bucket, plan: RowPlan, probed: dict | None) -> np.ndarray:
+    """Initial voltages of every row (G·S·R, n): nominal plus, when the axes were probed,
+    the sum of each axis's probed move to the row's level (superposition)."""
+    x_nom = bucket.x_nominal                                        # (G, S, n)
+    g, s, n = x_nom.shape
+    rows = plan.codes.shape[1]
+    start = np.broadcast_to(x_nom[:, :, None], (g, s, rows, n))
+    if probed is not None:
+        axes = bucket.models[0].axes
+        ok = probed["converged"][..., :1].astype(bool)              # (G, S, P, 1)
+        x_probe = np.where(ok, probed["v"][..., :n], x_nom[:, :, None])
+        low = np.array([a.extremes[0] for a in axes])
+        high = np.array([a.extremes[1] for a in axes])
+        moves = 0.0
+        for level, first in ((low, 1), (high, 2)):
+            delta = x_probe[:, :, first::2][:, :, :len(axes)] - x_nom[:, :, None]
+            weight = (plan.codes == level).astype(float)            # (G, R, k)
+            moves = moves + np.einsum("grk,gskn->gsrn", weight, delta)
+        start = start + moves
+    return start.reshape(g * s * rows, n)
 
 
 def _solve_bucket(models: list[GroupModel], ambient: Ambient) -> list[GroupResult]:
-    codes, scheme = _codes(models, ambient)
+    with _stage("params"):
+        data = BucketData.of(models)
+    with _stage("nominal"):
+        bucket = _nominal(models, data, ambient)
+    axes = len(models[0].axes)
+    probed = None
+    if axes > FULL_PRODUCT_AXES or axes >= WARM_PROBE_AXES:
+        with _stage("probe"):
+            probed = _probe(bucket)
+    codes, counts, scheme = _codes(bucket, probed)
     plan = _plan(models, codes)
-    out = run(models, plan, ambient, _warm_start(models, plan, ambient))
+    with _stage("corners"):
+        out = run(models, plan, ambient, _start(bucket, plan, probed), data)
     corners = codes.shape[1]
-    return [group_result(model, {k: a[i] for k, a in out.items()}, plan.codes[i], corners,
-                         scheme, ambient, VF_PROBE) for i, model in enumerate(models)]
+    with _stage("reduce"):
+        return [group_result(model, {k: a[i] for k, a in out.items()}, plan.codes[i], corners,
+                             scheme, ambient, VF_PROBE, int(counts[i]))
+                for i, model in enumerate(models)]
 
 
 def analyse(groups: Iterable[Group], circuit: Circuit, part_data: PartDataMap,
@@ -97,19 +193,22 @@ def analyse(groups: Iterable[Group], circuit: Circuit, part_data: PartDataMap,
     returned with ``status == "unsolved"`` and the reason.
     """
     groups = tuple(groups)
+    STAGE_TIMES.clear()
     results: list[GroupResult | None] = [None] * len(groups)
     buckets: dict[tuple, list[tuple[int, GroupModel]]] = {}
-    for index, group in enumerate(groups):
-        try:
-            model = build_model(group, circuit, part_data, dict(rails))
-        except ModelGap as exc:
-            results[index] = GroupResult(group, "unsolved", reason=str(exc))
-            continue
-        buckets.setdefault(model.signature, []).append((index, model))
-    for members in buckets.values():
-        solved = _solve_bucket([m for _, m in members], ambient)
-        for (index, _), result in zip(members, solved):
-            results[index] = result
+    with _gc_paused():
+        with _stage("build"):
+            for index, group in enumerate(groups):
+                try:
+                    model = build_model(group, circuit, part_data, dict(rails))
+                except ModelGap as exc:
+                    results[index] = GroupResult(group, "unsolved", reason=str(exc))
+                    continue
+                buckets.setdefault(model.signature, []).append((index, model))
+        for members in buckets.values():
+            solved = _solve_bucket([m for _, m in members], ambient)
+            for (index, _), result in zip(members, solved):
+                results[index] = result
     return tuple(r for r in results if r is not None)
 
 

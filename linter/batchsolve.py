@@ -16,7 +16,7 @@ from linter.netbuild import HIGH_Z_SIEMENS, GroupModel
 from linter.partdata import Ambient
 from linter.solve import Params, element_currents, solve
 
-__all__ = ["RowPlan", "element_params", "run", "headroom_offset"]
+__all__ = ["RowPlan", "BucketData", "element_params", "run", "headroom_offset"]
 
 
 @dataclass(frozen=True, eq=False)
@@ -35,9 +35,71 @@ def headroom_offset(model: GroupModel) -> float:
     return 10.0 + 5.0 * len(model.diodes)
 
 
-def _stack(models: list[GroupModel], getter) -> np.ndarray:
-    """(G, k) float array of ``getter(model)`` lists."""
-    return np.array([getter(m) for m in models], float).reshape(len(models), -1)
+@dataclass(frozen=True, eq=False)
+class BucketData:
+    """Every figure of a bucket's models stacked once as (G, k) arrays (k elements or
+    fixed nodes), so that each run turns codes into parameters with array operations only.
+
+    ``rails`` (G, nf, 3) the min, nom, max of each fixed node's rail (0 where none);
+    ``supply`` (G, nf) a pin's fixed supply voltage; ``offset`` (G,) the headroom shift;
+    ``ohms``, ``tol`` (G, mr); ``nvt``, ``tempco``, ``d_is`` (G, md, 3) Is at vf_min, typ,
+    vf_max (plain diodes: their Is thrice); ``q`` (G, mq, 4) Is, hfe_min, hfe_typ, BR;
+    ``m`` (G, mm, 3) VTO, KP, λ.
+    """
+
+    rails: np.ndarray
+    supply: np.ndarray
+    offset: np.ndarray
+    ohms: np.ndarray
+    tol: np.ndarray
+    nvt: np.ndarray
+    tempco: np.ndarray
+    d_is: np.ndarray
+    q: np.ndarray
+    m: np.ndarray
+
+    @classmethod
+    def of(cls, models: list[GroupModel]) -> "BucketData":
+        first = models[0]
+        g = len(models)
+        nf, mr, md = len(first.fixed), len(first.resistors), len(first.diodes)
+        mq, mm = len(first.bjts), len(first.mosfets)
+
+        def table(rows: list, k: int, width: int = 0) -> np.ndarray:
+            shape = (g, k, width) if width else (g, k)
+            return np.array(rows, float).reshape(shape)
+
+        return cls(
+            rails=table([[_rail_levels(f.rail) for f in m.fixed] for m in models], nf, 3),
+            supply=table([[_pin_supply(m, f) for f in m.fixed] for m in models], nf),
+            offset=np.array([m.headroom[1] * headroom_offset(m) if m.headroom else 0.0
+                             for m in models], float),
+            ohms=table([[r.ohms for r in m.resistors] for m in models], mr),
+            tol=table([[r.tolerance for r in m.resistors] for m in models], mr),
+            nvt=table([[d.ideality * VT_REF for d in m.diodes] for m in models], md),
+            tempco=table([[d.tempco for d in m.diodes] for m in models], md),
+            d_is=table([[_diode_is_levels(d) for d in m.diodes] for m in models], md, 3),
+            q=table([[(b.i_s, b.hfe_min, b.hfe_typ, b.br) for b in m.bjts] for m in models],
+                    mq, 4),
+            m=table([[(x.vto, x.kp, x.lam) for x in m.mosfets] for m in models], mm, 3),
+        )
+
+
+def _rail_levels(rail) -> tuple[float, float, float]:
+    return (rail.min, rail.nom, rail.max) if rail is not None else (0.0, 0.0, 0.0)
+
+
+def _pin_supply(model: GroupModel, spec) -> float:
+    if spec.kind != "pin" or spec.rail is not None:
+        return 0.0
+    return float(model.pins[spec.pin].supply_voltage)
+
+
+def _diode_is_levels(spec) -> tuple[float, float, float]:
+    if spec.curve is None:
+        return (spec.i_s, spec.i_s, spec.i_s)
+    c = spec.curve
+    return (c.is_min_vf, c.is_typ, c.is_max_vf)
 
 
 def _level(code: np.ndarray, low, mid, high) -> np.ndarray:
@@ -46,51 +108,42 @@ def _level(code: np.ndarray, low, mid, high) -> np.ndarray:
     return np.where(code < 0, mid + code * (mid - low), mid + code * (high - mid))
 
 
-def _rail_volts(models, code, getter) -> np.ndarray:
-    """(G, C) voltage of a rail picked by ``getter(model) -> Rail`` at ``code`` (G, C)."""
-    lo, nom, hi = (_stack(models, lambda m: [getattr(getter(m), k)]) for k in ("min", "nom", "max"))
-    return _level(code, lo, nom, hi)
+def _axis_codes(codes: np.ndarray, axes: list[int]) -> np.ndarray:
+    """(G, C, k) codes of the axes ``axes`` (an axis of −1: held at 0)."""
+    index = np.array(axes, int).reshape(-1)
+    picked = codes[:, :, np.maximum(index, 0)] if index.size else codes[:, :, :0]
+    return np.where(index >= 0, picked, 0)
 
 
-def _fixed(models, plan: RowPlan, temp_shape) -> np.ndarray:
+def _fixed(models, data: BucketData, plan: RowPlan, s: int) -> np.ndarray:
     """(G, S, C, nf) fixed-node voltages."""
     first = models[0]
-    g, s, c = temp_shape
-    out = np.zeros((g, s, c, len(first.fixed)))
+    code = _axis_codes(plan.codes, [f.axis for f in first.fixed])      # (G, C, nf)
+    lo, nom, hi = (data.rails[:, None, :, k] for k in range(3))
+    volts = _level(code, lo, nom, hi)
+    kinds = [f.kind for f in first.fixed]
+    head = np.array([k == "headroom" for k in kinds])
+    volts = volts + (plan.aux[None, :, None] * head) * data.offset[:, None, None]
+    fixed_supply = np.array([k == "pin" and f.rail is None for k, f in zip(kinds, first.fixed)])
+    volts = np.where(fixed_supply, data.supply[:, None, :], volts)
+    out = np.broadcast_to(volts[:, None], (volts.shape[0], s) + volts.shape[1:]).copy()
     for f_index, spec in enumerate(first.fixed):
-        code = plan.codes[:, :, spec.axis] if spec.axis >= 0 else np.zeros((g, c), np.int8)
         if spec.kind == "pin":
-            pin = first.pins[spec.pin]
-            if pin.supply is not None:
-                supply = _rail_volts(models, code, lambda m, i=f_index: m.fixed[i].rail)
-            else:
-                supply = _stack(models, lambda m: [m.pins[spec.pin].supply_voltage]) + 0 * code
             high = first.levels[:, spec.pin] > 0
-            out[..., f_index] = np.where(high[None, :, None], supply[:, None, :], 0.0)
-            continue
-        volts = _rail_volts(models, code, lambda m, i=f_index: m.fixed[i].rail)
-        if spec.kind == "headroom":
-            offset = _stack(models, lambda m: [m.headroom[1] * headroom_offset(m)])
-            volts = volts + plan.aux[None, :] * offset
-        out[..., f_index] = volts[:, None, :]
+            out[:, ~high, :, f_index] = 0.0
     return out
 
 
-def _resistor_g(models, plan: RowPlan, shape) -> np.ndarray:
+def _resistor_g(models, data: BucketData, plan: RowPlan, s: int) -> np.ndarray:
+    """(G, S, C, mr) conductances; an undriven pin's resistor is opened."""
     first = models[0]
-    g, s, c = shape
-    out = np.zeros((g, s, c, len(first.resistors)))
-    ohms = _stack(models, lambda m: [r.ohms for r in m.resistors])
-    tol = _stack(models, lambda m: [r.tolerance for r in m.resistors])
+    code = _axis_codes(plan.codes, [r.axis for r in first.resistors])
+    cond = 1.0 / (data.ohms[:, None, :] * (1.0 + code * data.tol[:, None, :]))
+    out = np.broadcast_to(cond[:, None], (cond.shape[0], s) + cond.shape[1:]).copy()
     for index, spec in enumerate(first.resistors):
-        value = np.broadcast_to(ohms[:, index, None], (g, c))
-        if spec.axis >= 0:
-            value = value * (1.0 + plan.codes[:, :, spec.axis] * tol[:, index, None])
-        cond = np.broadcast_to((1.0 / value)[:, None, :], (g, s, c))
         if spec.role == "pin":
             driven = first.levels[:, spec.pin] != 0
-            cond = np.where(driven[None, :, None], cond, HIGH_Z_SIEMENS)
-        out[..., index] = cond
+            out[:, ~driven, :, index] = HIGH_Z_SIEMENS
     return out
 
 
@@ -101,42 +154,32 @@ def _temperature_rise(plan: RowPlan, ambient: Ambient) -> np.ndarray:
     return temp - ambient.reference
 
 
-def _diode_is(models, plan: RowPlan, rise: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """(G, C, md) Is after Vf bin, temperature and probe shift; (G, md) n·Vt."""
+def _diode_is(models, data: BucketData, plan: RowPlan, rise: np.ndarray) -> np.ndarray:
+    """(G, C, md) Is after Vf bin, temperature and probe shift (a Vf shift is linear in
+    ln Is)."""
     first = models[0]
-    nvt = _stack(models, lambda m: [d.ideality * VT_REF for d in m.diodes])
-    tempco = _stack(models, lambda m: [d.tempco for d in m.diodes])
-    is_out = np.zeros(plan.codes.shape[:2] + (len(first.diodes),))
-    for index, spec in enumerate(first.diodes):
-        if spec.curve is not None:
-            lo, mid, hi = (_stack(models, lambda m, k=k: [getattr(m.diodes[index].curve, k)])
-                           for k in ("is_min_vf", "is_typ", "is_max_vf"))
-            base = np.exp(_level(plan.codes[:, :, spec.axis], np.log(lo), np.log(mid),
-                                 np.log(hi)))   # a Vf shift is linear in ln(Is)
-            shift = tempco[:, index, None] * rise + plan.vf_shift[None, :]
-        else:
-            base = _stack(models, lambda m: [m.diodes[index].i_s]) + 0 * rise
-            shift = tempco[:, index, None] * rise
-        is_out[..., index] = base * np.exp(-shift / nvt[:, index, None])
-    return is_out, nvt
+    led = np.array([d.curve is not None for d in first.diodes], bool)
+    code = _axis_codes(plan.codes, [d.axis if d.curve is not None else -1 for d in first.diodes])
+    logs = np.log(data.d_is)[:, None]                                    # (G, 1, md, 3)
+    base = np.where(led, np.exp(_level(code, logs[..., 0], logs[..., 1], logs[..., 2])),
+                    data.d_is[:, None, :, 1])
+    shift = data.tempco[:, None, :] * rise[..., None] + led * plan.vf_shift[None, :, None]
+    return base * np.exp(-shift / data.nvt[:, None, :])
 
 
-def element_params(models: list[GroupModel], plan: RowPlan, ambient: Ambient) -> Params:
+def element_params(models: list[GroupModel], plan: RowPlan, ambient: Ambient,
+                   data: BucketData | None = None) -> Params:
     """Parameters of every row (G·S·C of them) of a bucket of same-signature models."""
     from linter.netbuild import GENERIC
+    data = BucketData.of(models) if data is None else data
     g, c = plan.codes.shape[:2]
     s = models[0].levels.shape[0]
     rise = _temperature_rise(plan, ambient)
-    d_is, nvt = _diode_is(models, plan, rise)
     q = models[0].bjts
-    q_is = _stack(models, lambda m: [b.i_s for b in m.bjts])[:, None, :] * np.exp(
+    q_is = data.q[:, None, :, 0] * np.exp(
         -GENERIC["bjt_tempco"] * rise[..., None] / VT_REF)
-    bf = np.zeros((g, c, len(q)))
-    for i, bjt in enumerate(q):
-        typ = _stack(models, lambda m: [m.bjts[i].hfe_typ])
-        bf[..., i] = _level(np.minimum(plan.codes[:, :, bjt.axis], 0),
-                            _stack(models, lambda m: [m.bjts[i].hfe_min]), typ, typ)
-    br = _stack(models, lambda m: [b.br for b in m.bjts])
+    beta_code = np.minimum(_axis_codes(plan.codes, [b.axis for b in q]), 0)
+    bf = _level(beta_code, data.q[:, None, :, 1], data.q[:, None, :, 2], data.q[:, None, :, 2])
 
     def rows(a: np.ndarray, per_scenario: bool = False) -> np.ndarray:
         a = a if per_scenario else np.broadcast_to(a[:, None], (g, s) + a.shape[1:])
@@ -146,17 +189,17 @@ def element_params(models: list[GroupModel], plan: RowPlan, ambient: Ambient) ->
         return rows(np.broadcast_to(a[:, None, :], (g, c, a.shape[1])))
 
     return Params(
-        fixed=rows(_fixed(models, plan, (g, s, c)), True),
-        r_g=rows(_resistor_g(models, plan, (g, s, c)), True),
-        d_is=rows(d_is), d_nvt=flat(nvt), q_is=rows(q_is), q_bf=rows(bf), q_br=flat(br),
-        m_vto=flat(_stack(models, lambda m: [x.vto for x in m.mosfets])),
-        m_kp=flat(_stack(models, lambda m: [x.kp for x in m.mosfets])),
-        m_lambda=flat(_stack(models, lambda m: [x.lam for x in m.mosfets])),
+        fixed=rows(_fixed(models, data, plan, s), True),
+        r_g=rows(_resistor_g(models, data, plan, s), True),
+        d_is=rows(_diode_is(models, data, plan, rise)), d_nvt=flat(data.nvt),
+        q_is=rows(q_is), q_bf=rows(bf), q_br=flat(data.q[..., 3]),
+        m_vto=flat(data.m[..., 0]), m_kp=flat(data.m[..., 1]), m_lambda=flat(data.m[..., 2]),
     )
 
 
 def run(models: list[GroupModel], plan: RowPlan, ambient: Ambient,
-        initial: np.ndarray | None = None) -> dict[str, np.ndarray]:
+        initial: np.ndarray | None = None, data: BucketData | None = None
+        ) -> dict[str, np.ndarray]:
     """Solve every row; every array in the result is shaped (G, S, C, k).
 
     Keys: ``v`` node voltages; ``converged`` (k = 1); ``led_i``, ``led_vf``, ``led_p``,
@@ -167,7 +210,7 @@ def run(models: list[GroupModel], plan: RowPlan, ambient: Ambient,
     first = models[0]
     g, c = plan.codes.shape[:2]
     s = first.levels.shape[0]
-    params = element_params(models, plan, ambient)
+    params = element_params(models, plan, ambient, data)
     solution = solve(first.network, params, initial)
     v = solution.voltages
     cur = element_currents(first.network, params, v)

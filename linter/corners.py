@@ -36,13 +36,20 @@ from typing import Literal, Mapping
 
 import numpy as np
 
-__all__ = ["AxisKind", "Axis", "FULL_PRODUCT_AXES", "LEVEL_NAMES", "Corner", "vertex_codes",
-           "probe_codes", "worst_case_codes"]
+__all__ = ["AxisKind", "Axis", "FULL_PRODUCT_AXES", "NO_CHANGE_REL", "NO_CHANGE_ABS",
+           "LEVEL_NAMES", "Corner", "vertex_codes", "probe_codes", "worst_case_codes",
+           "distinct_codes"]
 
 AxisKind = Literal["rail", "resistor", "vf", "ambient", "beta"]
 
-FULL_PRODUCT_AXES: int = 8
-"""Up to this many axes a group is solved at every vertex (2^8 = 256 rows)."""
+FULL_PRODUCT_AXES: int = 7
+"""Up to this many axes a group is solved at every vertex (2^7 = 128 rows); beyond it the
+sensitivity scheme needs far fewer rows (about 2k + 2K instead of 2^k)."""
+
+NO_CHANGE_REL: float = 1e-9
+"""Relative change of a probed output below which an axis counts as not moving it."""
+NO_CHANGE_ABS: float = 1e-15
+"""Absolute change (in the output's SI unit) below which an axis counts as not moving it."""
 
 LEVEL_NAMES: dict[str, dict[int, str]] = {
     "rail": {-1: "min", 0: "nom", 1: "max"},
@@ -111,18 +118,56 @@ def worst_case_codes(axes: tuple[Axis, ...], probe_outputs: np.ndarray) -> np.nd
     -------
     array (..., 2K, k) int8
         For output j, row 2j is the vertex of its largest value, row 2j + 1 of its smallest.
-        An axis whose moves do not change an output is put at its high extreme.
+        An axis whose moves do not change an output (by more than :data:`NO_CHANGE_REL` of
+        the output's largest probed magnitude, plus :data:`NO_CHANGE_ABS`: the solver's
+        rounding, not a dependence) is put at its high extreme.
     """
     k = len(axes)
     low = np.array([a.extremes[0] for a in axes], np.int8)
     high = np.array([a.extremes[1] for a in axes], np.int8)
     at_low = probe_outputs[..., 1::2, :][..., :k, :]
     at_high = probe_outputs[..., 2::2, :][..., :k, :]
-    rises = np.swapaxes(at_high >= at_low, -1, -2)            # (..., K, k)
+    scale = np.max(np.abs(probe_outputs), axis=-2, keepdims=True)
+    unmoved = np.abs(at_high - at_low) <= NO_CHANGE_REL * scale + NO_CHANGE_ABS
+    rises = np.swapaxes((at_high >= at_low) | unmoved, -1, -2)  # (..., K, k)
     up = np.where(rises, high, low)
     down = np.where(rises, low, high)
     stacked = np.stack([up, down], axis=-2)                     # (..., K, 2, k)
     return stacked.reshape(*stacked.shape[:-3], -1, k).astype(np.int8)
+
+
+def distinct_codes(codes: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Each group's distinct corner rows, nominal first, padded with nominal rows.
+
+    Parameters
+    ----------
+    codes : int array (G, C, k) of levels in {−1, 0, 1}; row 0 of each group is nominal.
+
+    Returns
+    -------
+    (codes, counts) : int8 (G, C', k), nominal then the group's distinct non-nominal rows
+        (in ascending order of their base-3 number), then nominal again up to the longest
+        group's count; int (G,) the distinct rows of each group, nominal included.
+
+    >>> rows, counts = distinct_codes(np.array([[[0, 0], [1, -1], [0, 0], [1, -1]]]))
+    >>> rows.tolist(), counts.tolist()
+    ([[[0, 0], [1, -1]]], [2])
+    """
+    g, c, k = codes.shape
+    weights = 3 ** np.arange(k, dtype=np.int64)
+    nominal = int(weights.sum())
+    keys = np.sort(((codes[:, 1:].astype(np.int64) + 1) * weights).sum(axis=-1), axis=1)
+    repeat = np.zeros(keys.shape, bool)
+    repeat[:, 1:] = keys[:, 1:] == keys[:, :-1]
+    repeat |= keys == nominal
+    counts = (~repeat).sum(axis=1)
+    width = int(counts.max(initial=0))
+    first = np.argsort(repeat, axis=1, kind="stable")[:, :width]
+    picked = np.take_along_axis(keys, first, axis=1)
+    picked = np.where(np.arange(width) < counts[:, None], picked, nominal)
+    keys = np.concatenate([np.full((g, 1), nominal, np.int64), picked], axis=1)
+    out = (keys[..., None] // weights) % 3 - 1
+    return out.astype(np.int8), counts + 1
 
 
 @dataclass(frozen=True)

@@ -201,9 +201,12 @@ def _mosfet_results(r: _Reducer) -> list[TransistorResult]:
 
 
 def group_result(model: GroupModel, out: dict, codes: np.ndarray, corners: int, scheme: str,
-                 ambient: Ambient, probe: float) -> GroupResult:
-    """Reduce one group's rows (arrays (S, R, k)) to its result."""
+                 ambient: Ambient, probe: float, distinct: int | None = None) -> GroupResult:
+    """Reduce one group's rows (arrays (S, R, k)) to its result; ``corners`` rows per
+    scenario are corners, of which ``distinct`` (default all) differ (the rest repeat the
+    nominal corner)."""
     r = _Reducer(model, out, codes, corners, ambient)
+    corners = corners if distinct is None else distinct
     if not r.ok.any():
         return GroupResult(model.group, "unsolved", corners=corners, scheme=scheme,
                            notes=model.notes, reason="Newton's method did not converge")
