@@ -25,7 +25,7 @@ from linter.groups import Group
 from linter.model import Circuit
 from linter.netbuild import GroupModel, ModelGap, build_model
 from linter.partdata import Ambient, PartDataMap, Rail
-from linter.reduce import group_result
+from linter.reduce_bucket import bucket_results
 from linter.results import GroupResult
 
 __all__ = ["VF_PROBE", "WARM_PROBE_AXES", "STAGE_TIMES", "analyse", "operating_point"]
@@ -169,9 +169,8 @@ def _solve_bucket(models: list[GroupModel], ambient: Ambient) -> list[GroupResul
         out = run(models, plan, ambient, _start(bucket, plan, probed), data)
     corners = codes.shape[1]
     with _stage("reduce"):
-        return [group_result(model, {k: a[i] for k, a in out.items()}, plan.codes[i], corners,
-                             scheme, ambient, VF_PROBE, int(counts[i]))
-                for i, model in enumerate(models)]
+        return bucket_results(models, out, plan.codes, corners, counts, scheme, ambient,
+                              VF_PROBE)
 
 
 def analyse(groups: Iterable[Group], circuit: Circuit, part_data: PartDataMap,
