@@ -25,6 +25,7 @@ from linter.groups import Group
 from linter.model import Circuit
 from linter.netbuild import GroupModel, ModelGap, build_model
 from linter.partdata import Ambient, PartDataMap, Rail
+from linter.reduce import group_result
 from linter.reduce_bucket import bucket_results
 from linter.results import GroupResult
 
@@ -153,7 +154,10 @@ def _start(bucket: _Bucket, plan: RowPlan, probed: dict | None) -> np.ndarray:
     return start.reshape(g * s * rows, n)
 
 
-def _solve_bucket(models: list[GroupModel], ambient: Ambient) -> list[GroupResult]:
+def _solve_bucket(models: list[GroupModel], ambient: Ambient, per_group: bool = False
+                  ) -> list[GroupResult]:
+    """Every group of a bucket solved and reduced; ``per_group`` reduces each group on its
+    own with :func:`linter.reduce.group_result` (the plain reference path, for tests)."""
     with _stage("params"):
         data = BucketData.of(models)
     with _stage("nominal"):
@@ -169,6 +173,10 @@ def _solve_bucket(models: list[GroupModel], ambient: Ambient) -> list[GroupResul
         out = run(models, plan, ambient, _start(bucket, plan, probed), data)
     corners = codes.shape[1]
     with _stage("reduce"):
+        if per_group:
+            return [group_result(model, {k: a[i] for k, a in out.items()}, plan.codes[i],
+                                 corners, scheme, ambient, VF_PROBE, int(counts[i]))
+                    for i, model in enumerate(models)]
         return bucket_results(models, out, plan.codes, corners, counts, scheme, ambient,
                               VF_PROBE)
 

@@ -203,6 +203,7 @@ class _Builder:
         self.group, self.circuit, self.data, self.rails = group, circuit, part_data, rails
         self.nets = _Nets()
         self.axes: list[Axis] = []
+        self.axis_index: dict[tuple[str, str], int] = {}
         self.unknown: list[str] = []
         self.fixed: list[FixedSpec] = []
         self.elements: dict[str, list] = {"r": [], "d": [], "q": [], "m": []}
@@ -216,10 +217,11 @@ class _Builder:
         self.headroom_ends: set[str] = set()
 
     def axis(self, kind: str, name: str) -> int:
-        wanted = Axis(kind, name)  # type: ignore[arg-type]
-        if wanted not in self.axes:
-            self.axes.append(wanted)
-        return self.axes.index(wanted)
+        found = self.axis_index.get((kind, name))
+        if found is None:
+            found = self.axis_index[(kind, name)] = len(self.axes)
+            self.axes.append(Axis(kind, name))  # type: ignore[arg-type]
+        return found
 
     def key(self, net: str) -> str:
         """The node key of a net: fixed (``f:``) when it is a rail, else unknown."""
@@ -470,8 +472,9 @@ def _finish(b: _Builder) -> GroupModel:
         rows = [[index[k] for k in element] for element in b.elements[kind]]
         return np.array(rows, int).reshape(len(rows), width)
 
-    network = Network(n, len(b.fixed), nodes("r", 2), nodes("d", 2), nodes("q", 3),
-                      nodes("m", 3), np.array([q.polarity for q in b.bjts], float),
+    terminals = {k: nodes(k, w) for k, w in (("r", 2), ("d", 2), ("q", 3), ("m", 3))}
+    network = Network(n, len(b.fixed), terminals["r"], terminals["d"], terminals["q"],
+                      terminals["m"], np.array([q.polarity for q in b.bjts], float),
                       np.array([m.polarity for m in b.mosfets], float))
     diodes = tuple(replace(d, anode=index[d.anode], cathode=index[d.cathode])  # type: ignore[index]
                    for d in b.diodes)
@@ -483,7 +486,7 @@ def _finish(b: _Builder) -> GroupModel:
     signature = (
         n, tuple(f.kind for f in b.fixed), tuple(f.axis for f in b.fixed),
         tuple(f.pin for f in b.fixed),
-        repr([nodes(k, w).tolist() for k, w in (("r", 2), ("d", 2), ("q", 3), ("m", 3))]),
+        tuple((a.shape, a.tobytes()) for a in terminals.values()),
         tuple(q.polarity for q in bjts), tuple(m.polarity for m in mosfets),
         tuple(a.kind for a in b.axes), tuple((r.role, r.axis, r.pin) for r in b.resistors),
         tuple((d.curve is not None, d.axis) for d in diodes), tuple(q.axis for q in bjts),
