@@ -167,10 +167,12 @@ def _solve_bucket(models: list[GroupModel], ambient: Ambient, per_group: bool = 
     if axes > FULL_PRODUCT_AXES or axes >= WARM_PROBE_AXES:
         with _stage("probe"):
             probed = _probe(bucket)
-    codes, counts, scheme = _codes(bucket, probed)
-    plan = _plan(models, codes)
+    with _stage("plan"):
+        codes, counts, scheme = _codes(bucket, probed)
+        plan = _plan(models, codes)
+        start = _start(bucket, plan, probed)
     with _stage("corners"):
-        out = run(models, plan, ambient, _start(bucket, plan, probed), data)
+        out = run(models, plan, ambient, start, data)
     corners = codes.shape[1]
     with _stage("reduce"):
         if per_group:

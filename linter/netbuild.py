@@ -16,6 +16,7 @@ that extra rows can move it out of the way and find the current the sink would r
 
 from __future__ import annotations
 
+import functools
 from dataclasses import dataclass, field, replace
 
 import numpy as np
@@ -276,6 +277,10 @@ def _led_data(b: _Builder, part: Part) -> LedData:
     return data
 
 
+_cached_curve = functools.lru_cache(maxsize=4096)(led_curve)
+""":func:`~linter.devices.led_curve` once per distinct LedData (boards repeat parts)."""
+
+
 def _add_diode(b: _Builder, part: Part) -> None:
     anode = b.key(_pin_net(part, _PIN_NAMES["led"][0], 0))
     cathode = b.key(_pin_net(part, _PIN_NAMES["led"][1], 1))
@@ -286,7 +291,7 @@ def _add_diode(b: _Builder, part: Part) -> None:
             cathode = b.headroom[0]
     if part.kind == "led":
         try:
-            curve = led_curve(_led_data(b, part))
+            curve = _cached_curve(_led_data(b, part))
         except ValueError as exc:
             raise ModelGap(f"{part.ref}: {exc}") from exc
         b.note(part.ref, curve.assumed)
