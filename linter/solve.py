@@ -4,7 +4,7 @@ A :class:`Network` is the structure (nodes and elements, with a stamp plan built
 :class:`Params` holds each element's parameters as arrays of shape (B, m): one row per
 corner (and per group of identical structure). :func:`solve` runs Newton's method on all B
 rows at once: it assembles the KCL residual F (B, n) and the Jacobian J (B, n, n) with one
-gather and one sum each (:mod:`linter.stamps`), solves the stacked systems with
+gather and one segmented sum each (:mod:`linter.stamps`), solves the stacked systems with
 ``np.linalg.solve`` and damps each row's step so that no junction voltage jumps further than
 SPICE's junction limiting allows. Rows that do not converge are flagged, never left as NaN.
 
@@ -175,10 +175,9 @@ def _assemble(net: Network, p: Params, v: np.ndarray) -> tuple[np.ndarray, np.nd
     the node voltages ``v`` (B, n + nf)."""
     n, rows = net.n_nodes, v.shape[0]
     cur, cond = _evaluate(net, p, v)
-    f = GMIN * v[:, :n]
-    net.stamps.f.apply(cur, f)
-    j = np.zeros((rows, n * n))
-    net.stamps.j.apply(cond, j)
+    f = net.stamps.f.apply(cur)
+    f += GMIN * v[:, :n]
+    j = net.stamps.j.apply(cond)
     j[:, ::n + 1] += GMIN
     return f, j.reshape(rows, n, n)
 

@@ -4,9 +4,8 @@ A :class:`StampPlan` is built once per :class:`~linter.solve.Network`. Element c
 conductances are evaluated as compact columns over the batch (one column per element and
 quantity: a resistor's G, a diode's dI/dV, a BJT's four derivatives, a MOSFET's gm and
 gds); each column feeds a few signed entries of the KCL residual F (B, n) and the Jacobian
-J (B, n·n). The entries are sorted by their target once, so that every Newton iteration
-assembles F and J with one gather and one ``np.add.reduceat`` each: O(entries) work per
-row, where a dense scatter-matrix product costs O(entries · n²).
+J (B, n·n). The entries are sorted by target once, so that every Newton iteration
+assembles F and J with one gather and one ``np.add.reduceat`` each.
 
 Residual columns: ``[i_r (mr), i_d (md), ic (mq), ib (mq), s·id (mm)]`` (A).
 Jacobian columns: ``[g_r (mr), g_d (md), ∂ic/∂vbe, ∂ic/∂vbc, ∂ib/∂vbe, ∂ib/∂vbc (mq each),
@@ -25,30 +24,36 @@ __all__ = ["Scatter", "StampPlan", "junction_nodes"]
 
 @dataclass(frozen=True, eq=False)
 class Scatter:
-    """Signed entries (column → target) sorted by target, for ``np.add.reduceat``."""
+    """Signed entries (column → target), sorted by target, every target present.
+
+    A target without entries gets one entry of sign 0, so that ``np.add.reduceat`` over the
+    gathered, signed columns yields every target in order: no zeroed array, no scatter, and
+    no matrix product (whose threading costs more than it saves on so few columns).
+    """
 
     columns: np.ndarray
     signs: np.ndarray
     starts: np.ndarray
-    targets: np.ndarray
+    size: int
 
     @classmethod
-    def of(cls, entries: list[tuple[int, int, float]]) -> "Scatter":
+    def of(cls, entries: list[tuple[int, int, float]], size: int) -> "Scatter":
         """From (column, target, sign) triples (targets already restricted to unknowns)."""
-        if not entries:
-            empty = np.zeros(0, int)
-            return cls(empty, np.zeros(0), empty, empty)
-        table = np.array(sorted(entries, key=lambda e: e[1]), float)
-        targets = table[:, 1].astype(int)
-        starts = np.flatnonzero(np.r_[True, targets[1:] != targets[:-1]])
-        return cls(table[:, 0].astype(int), table[:, 2], starts, targets[starts])
+        present = {target for _, target, _ in entries}
+        entries = entries + [(0, target, 0.0) for target in range(size) if target not in present]
+        table = sorted(entries, key=lambda e: e[1])
+        targets = np.array([e[1] for e in table], int)
+        starts = np.flatnonzero(np.r_[True, targets[1:] != targets[:-1]]) if table else targets
+        return cls(np.array([e[0] for e in table], int), np.array([e[2] for e in table]),
+                   starts, size)
 
-    def apply(self, values: np.ndarray, out: np.ndarray) -> None:
-        """Add the entries of ``values`` (B, columns) into ``out`` (B, targets)."""
-        if self.columns.size:
-            gathered = values[:, self.columns]
-            gathered *= self.signs
-            out[:, self.targets] += np.add.reduceat(gathered, self.starts, axis=1)
+    def apply(self, values: np.ndarray) -> np.ndarray:
+        """(B, size): the entries of ``values`` (B, columns) summed into their targets."""
+        if values.shape[1] == 0 or self.size == 0:
+            return np.zeros((values.shape[0], self.size))
+        gathered = np.take(values, self.columns, axis=1)
+        gathered *= self.signs
+        return np.add.reduceat(gathered, self.starts, axis=1)
 
 
 def _two_terminal(pairs: np.ndarray, first: int, f: list, j: list) -> None:
@@ -105,7 +110,7 @@ class StampPlan:
                         f, j)
         f_kept = [(c, node, s) for c, node, s in f if node < n]
         j_kept = [(c, row * n + col, s) for c, row, col, s in j if row < n and col < n]
-        return cls(Scatter.of(f_kept), Scatter.of(j_kept))
+        return cls(Scatter.of(f_kept, n), Scatter.of(j_kept, n * n))
 
 
 def junction_nodes(net) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
