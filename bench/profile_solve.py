@@ -4,8 +4,10 @@ Generates a board with :func:`bench.gen_board.generate` of about ``--groups`` LE
 every kind (resistor, string, parallel, npn-sink with divider, pin source and sink with a
 microcontroller, low-side N-MOSFET switch), reads its flat EDIF with its ``ledlint.toml``
 and times: reading, topology, and inside :func:`linter.analysis.analyse` the stages that
-:data:`linter.analysis.STAGE_TIMES` records (model building, corner choice, solving,
-reduction to results). ``--profile`` adds a cProfile listing of the solve stage.
+:data:`linter.analysis.STAGE_TIMES` records: ``build`` (group models), ``params`` (figures
+stacked per bucket), ``nominal`` (each group's nominal point, from zero), ``probe`` (each axis
+alone at each extreme), ``plan`` (corner choice and warm starts), ``corners`` (every corner
+row) and ``reduce`` (spans and result records). ``--profile N`` adds a cProfile listing.
 
 Usage::
 
