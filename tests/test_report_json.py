@@ -55,7 +55,9 @@ def test_contract_fields() -> None:
     assert report["tool"]["name"] == "ledlint"
     assert report["inputs"]["netlist"] == NETLIST
     # Expected: the hand-built sample (7 parts, 5 nets, 2 groups, one finding per severity).
+    # The sample has no waived and no baselined findings.
     assert report["summary"] == {"parts": 7, "nets": 5, "led_groups": 2,
+                                 "waived": 0, "baselined": 0,
                                  "findings": {"error": 1, "warning": 1, "info": 1}}
     assert [group["id"] for group in report["groups"]] == ["G-D7", "G-D15"]  # natural order
     assert [f["severity"] for f in report["findings"]] == ["error", "warning", "info"]

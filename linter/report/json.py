@@ -79,6 +79,8 @@ def report_dict(result: "CheckResult") -> dict[str, Any]:
             "nets": len(result.circuit.nets),
             "led_groups": len(groups),
             "findings": severity_counts(result.findings),
+            "waived": len(result.waived),
+            "baselined": len(result.baselined),
         },
         "groups": groups,
         "findings": [_finding_dict(finding, result.circuit)

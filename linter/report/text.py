@@ -58,6 +58,10 @@ def _summary(result: "CheckResult") -> Text:
     text.append(f" ({circuit.format.upper()}): {_plural(len(circuit.parts), 'part')}, "
                 f"{_plural(len(circuit.nets), 'net')}, {_plural(len(circuit.leds()), 'LED')} "
                 f"in {_plural(len(result.groups), 'LED group')}; findings: {found}")
+    accepted = [(len(result.waived), "waived"), (len(result.baselined), "in the baseline")]
+    for count, why in accepted:
+        if count:
+            text.append(f"; {count} {why}")
     return text
 
 
