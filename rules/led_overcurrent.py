@@ -11,6 +11,7 @@ from linter.rulekit import amps, at_corner, led_data, ohms, say, solved_groups
 from linter.rules import Rule, register
 
 SHARED = "shared-ballast"
+PULSED = "pulse-overstress"
 """LEDs in parallel on one part are that rule's finding (one cause, one finding)."""
 
 
@@ -33,6 +34,14 @@ def is_shared(context: Any, result: GroupResult) -> bool:
     """True when ``shared-ballast`` is on and reports this group (parallel strings)."""
     return (result.group.topology == "parallel" and len(result.group.strings) > 1
             and context.enabled(SHARED))
+
+
+def is_pulsed(context: Any, result: GroupResult) -> bool:
+    """True when ``pulse-overstress`` is on and one of the group's nets is declared pulsed:
+    its peak is judged against the pulse ratings there, not against if_max here."""
+    pulsed = context.settings.pulsed
+    return (bool(pulsed) and context.enabled(PULSED)
+            and any(net in pulsed for net in result.group.nets))
 
 
 @register
@@ -71,7 +80,7 @@ class LedOvercurrent(Rule):
 
     def check(self, context: Any) -> Iterable[Finding]:
         for result in solved_groups(context):
-            if is_shared(context, result):
+            if is_shared(context, result) or is_pulsed(context, result):
                 continue
             finding = self._group_finding(context, result)
             if finding is not None:
