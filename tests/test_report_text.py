@@ -82,8 +82,11 @@ def test_verbose_adds_group_tables_with_units_and_unknowns() -> None:
     assert d15.split()[1] == "?" and d15.split()[-1] == "?"  # unknown part number, power
 
 
-def test_groups_only_with_verbose() -> None:
-    assert "G-D7" not in _render()
+def test_group_tables_only_with_verbose_and_no_groups_when_quiet() -> None:
+    assert "G-D7 parallel" in _render()  # one line per group by default
+    assert "I nom" not in _render()  # the tables' heading
+    assert "I nom" in _render(verbose=True)
+    assert "G-D7" not in _render(quiet=True)
     assert "G-D7" not in _render(verbose=True, quiet=True)
 
 
@@ -109,4 +112,23 @@ def test_same_result_same_text_whatever_the_finding_order() -> None:
 def test_no_findings_no_headings() -> None:
     text = _render(replace(sample_result(), findings=()))
     assert text.splitlines()[0].endswith("findings: 0 errors, 0 warnings, 0 info")
-    assert len(text.splitlines()) == 1
+    # the summary line, then one line for each of the sample's two groups, no headings
+    assert len(text.splitlines()) == 3
+    assert all(line.startswith("  G-") for line in text.splitlines()[1:])
+
+
+def test_one_line_per_group_without_verbose():
+    # The demo board has nine LED groups (fixtures/demo/BOARD.md); without --verbose each is
+    # one line naming its topology, rail, setter and LEDs.
+    from pathlib import Path
+
+    from linter.engine import CheckRequest, run_check
+    from linter.report import ReportFormat
+
+    demo = Path(__file__).resolve().parent.parent / "fixtures" / "demo"
+    result = run_check(CheckRequest(demo / "dust_extractor_panel.edif", bom=demo / "bom.csv"))
+    text = ReportFormat("text").reporter().render(result)
+    lines = [line for line in text.splitlines() if line.startswith("  G-")]
+    assert len(lines) == 9
+    assert any(line.startswith("  G-D7 parallel from +5V, set by R6: D7–D10") for line in lines)
+    assert "LED  " not in text  # no tables without --verbose

@@ -118,6 +118,33 @@ def _group_heading(group: Mapping[str, Any]) -> Text:
     return heading
 
 
+GROUP_LINES_MAX = 40
+"""Groups listed one line each without ``--verbose``; past this the rest are counted."""
+
+
+def _group_line(group: Mapping[str, Any]) -> Text:
+    """``G-D7 parallel from +5V, set by R6: D7–D10 18.5 mA nom (4.39 µA–75.1 mA)``."""
+    line = Text(f"  {group.get('id', '')} {group.get('topology', UNKNOWN)}")
+    line.append(f" from {group['rail']}" if group.get("rail") else ", rail unknown")
+    if group.get("setter"):
+        line.append(f", set by {group['setter']}")
+    leds = group.get("leds") or []
+    currents = [led.get("current_a") or {} for led in leds]
+    noms = [c["nom"] for c in currents if c.get("nom") is not None]
+    lows = [c["min"] for c in currents if c.get("min") is not None]
+    highs = [c["max"] for c in currents if c.get("max") is not None]
+    line.append(f": {fold_refs([led.get('ref', '') for led in leds])}")
+    if noms:
+        low, high = _si(min(noms), "A"), _si(max(noms), "A")
+        spread = low if low == high else f"{low}–{high}"
+        line.append(f" {spread} nom")
+        if lows and highs:
+            line.append(f" ({_si(min(lows), 'A')}–{_si(max(highs), 'A')} over the corners)")
+    else:
+        line.append(" not solved")
+    return line
+
+
 class TextReporter(Reporter):
     """Readable when piped; colour only when asked for (the CLI asks on a terminal)."""
 
@@ -132,6 +159,8 @@ class TextReporter(Reporter):
             console.print(_summary(result))
             if self.options.verbose:
                 self._print_groups(console, result)
+            else:
+                self._print_group_lines(console, result)
         self._print_findings(console, result)
         return buffer.getvalue()
 
@@ -144,6 +173,14 @@ class TextReporter(Reporter):
                 console.print(_led_table(group, style), soft_wrap=False)
             if group.get("resistors"):
                 console.print(_resistor_table(group, style), soft_wrap=False)
+
+    def _print_group_lines(self, console: Console, result: "CheckResult") -> None:
+        groups = sorted_groups(result.groups)
+        for group in groups[:GROUP_LINES_MAX]:
+            console.print(_group_line(group))
+        if len(groups) > GROUP_LINES_MAX:
+            console.print(Text(f"  … and {len(groups) - GROUP_LINES_MAX} more groups "
+                               "(--verbose lists them all)"))
 
     def _print_findings(self, console: Console, result: "CheckResult") -> None:
         findings = ordered_findings(result.findings)
