@@ -15,7 +15,7 @@ from pathlib import Path
 from typing import NoReturn, Sequence
 
 from linter import __version__
-from linter.errors import LedlintError, UsageError
+from linter.errors import LedlintError, UsageError, one_line
 from linter.report import ReportFormat
 
 __all__ = ["main", "EXIT_CLEAN", "EXIT_FINDINGS", "EXIT_BAD_INPUT"]
@@ -41,9 +41,12 @@ def _build_parser() -> argparse.ArgumentParser:
     commands = parser.add_subparsers(dest="command", required=True, parser_class=_Parser)
 
     check = commands.add_parser("check", help="check a netlist and report findings")
-    check.add_argument("netlist", type=Path, help="EDIF 2.0.0 or SPICE netlist")
+    check.add_argument("netlist", type=Path,
+                       help="EDIF 2.0.0 or SPICE netlist, or a folder: every netlist below it")
     check.add_argument("more_netlists", type=Path, nargs="*", metavar="NETLIST",
-                       help="further netlists, each checked on its own (text format only)")
+                       help="further netlists or folders, each board checked on its own")
+    check.add_argument("--jobs", "-j", type=int, default=1, metavar="N",
+                       help="check N boards at a time (separate processes); default 1")
     check.add_argument("--bom", type=Path, help="bill of materials (CSV)")
     check.add_argument("--config", type=Path, help="settings file (default: found upward)")
     check.add_argument("--parts", type=Path, action="append", default=[],
@@ -98,13 +101,15 @@ def _refuse_output_over_input(args: argparse.Namespace, netlists: Sequence[Path]
 
 
 def _run_check(args: argparse.Namespace) -> int:
+    from linter.cli_many import run_many, wants_many
+
+    if wants_many(args):  # several paths or a folder: one combined report (linter.batch)
+        return run_many(args)
     from linter.engine import CheckRequest, run_check
     from linter.findings import severity_rank
 
-    netlists = (args.netlist, *args.more_netlists)
+    netlists = (args.netlist,)
     _refuse_output_over_input(args, netlists)
-    if len(netlists) > 1 and (args.format != ReportFormat.TEXT.value or args.bom is not None):
-        raise UsageError("ledlint check: several netlists need --format text and no --bom")
     from linter.progress import Progress
 
     with Progress(total=len(netlists) + 1) as progress:  # on stderr, only on a terminal
@@ -187,7 +192,7 @@ def main(argv: Sequence[str] | None = None) -> int:
             return _run_baseline(args)
         return _run_rules(args)
     except LedlintError as exc:
-        sys.stderr.write(f"{exc}\n")
+        sys.stderr.write(f"{one_line(str(exc))}\n")
         return EXIT_BAD_INPUT
     except RecursionError:
         sys.stderr.write("ledlint: input nested too deeply\n")

@@ -15,7 +15,32 @@ __all__ = [
     "ConfigError",
     "PartsError",
     "UsageError",
+    "one_line",
+    "MAX_MESSAGE_LENGTH",
 ]
+
+MAX_MESSAGE_LENGTH = 400
+"""Longest error line printed; a longer one keeps its start and end (a 50 MB token quoted in a
+message must not flood the terminal or a CI log)."""
+
+_LINE_BREAKS = {code: f"\\x{code:02x}" for code in (*range(0x20), 0x7F, 0x85)}
+_LINE_BREAKS.update({0x2028: "\\u2028", 0x2029: "\\u2029", ord("\t"): " ",
+                     ord("\n"): "\\n", ord("\r"): "\\r"})
+
+
+def one_line(text: str) -> str:
+    """``text`` as one printable line: control characters and line separators escaped
+    (a tab becomes a space), the middle of an over-long text replaced by an ellipsis.
+
+    >>> one_line("a.csv:2:4: quantity 'two\\nthree' is not a whole number")
+    "a.csv:2:4: quantity 'two\\\\nthree' is not a whole number"
+    """
+    text = text.translate(_LINE_BREAKS)
+    if len(text) > MAX_MESSAGE_LENGTH:
+        head = MAX_MESSAGE_LENGTH * 2 // 3
+        tail = MAX_MESSAGE_LENGTH - head - 1
+        text = f"{text[:head]}…{text[-tail:]}"
+    return text
 
 
 class LedlintError(Exception):
@@ -48,7 +73,7 @@ class InputError(LedlintError, ValueError):
             where += f":{self.line}"
             if self.column is not None:
                 where += f":{self.column}"
-        return f"{where}: {self.message}"
+        return one_line(f"{where}: {self.message}")
 
 
 class NetlistError(InputError):
