@@ -85,6 +85,7 @@ class Settings:
     source: str | None = None
     assume: Assumptions = Assumptions()
     parts_sources: tuple[str, ...] = ()
+    limits: Mapping[str, int] = field(default_factory=dict, hash=False)
 
 
 def _pyproject_has_table(path: Path) -> bool:
@@ -115,11 +116,11 @@ def find_settings_file(start: Path) -> Path | None:
 
 
 def _read_doc(path: Path, source: str, error: type[InputError]) -> TomlDoc:
-    try:
-        data = path.read_bytes()
-    except OSError as exc:
-        raise error(source, None, None, f"cannot read: {exc.strerror or exc}") from None
-    text = decode_text(data, source, error)
+    from linter.limits import read_input
+
+    data = read_input(path, source, error)
+    # a lone CR ends a line as LF does (old Mac editors); TOML itself knows only LF and CRLF
+    text = decode_text(data, source, error).replace("\r\n", "\n").replace("\r", "\n")
     decoded = load_toml(text, source, error)
     if path.name == "pyproject.toml":
         table = decoded.get("tool", {}).get("ledlint")
@@ -146,6 +147,7 @@ def merge_layers(layers: Sequence[Layer], source: str | None = None) -> Settings
     parts: dict[str, PartSpec] = {}
     pulsed: dict[str, Pulse] = {}
     waivers: list[Waiver] = []
+    limits: dict[str, int] = {}
     for layer in layers:
         rails.update(layer.rails)
         ambient.update(layer.ambient)
@@ -154,11 +156,12 @@ def merge_layers(layers: Sequence[Layer], source: str | None = None) -> Settings
         parts.update(layer.parts)
         pulsed.update(layer.pulsed)
         waivers.extend(layer.waivers)
+        limits.update(layer.limits)
         for rule_id, settings in layer.rules.items():
             rules[rule_id] = _merge_rule(rules.get(rule_id), settings)
     return Settings(rails=rails, ambient=_ambient(ambient), derating=Derating(**derating),
                     rules=rules, waivers=tuple(waivers), parts=parts, pulsed=pulsed,
-                    source=source, assume=Assumptions(**assume))
+                    source=source, assume=Assumptions(**assume), limits=limits)
 
 
 def _merge_rule(base: RuleSettings | None, top: RuleSettings) -> RuleSettings:

@@ -19,7 +19,8 @@ from linter.units import ValueParseError, parse_temperature, parse_with_toleranc
 
 __all__ = ["Layer", "RuleSettings", "Waiver", "Pulse", "read_layer", "TOP_LEVEL_TABLES"]
 
-TOP_LEVEL_TABLES = ("rails", "ambient", "derating", "assume", "rules", "waive", "parts", "pulsed")
+TOP_LEVEL_TABLES = ("rails", "ambient", "derating", "assume", "rules", "waive", "parts", "pulsed",
+                    "limits")
 
 
 @dataclass(frozen=True)
@@ -68,6 +69,7 @@ class Layer:
     waivers: tuple[Waiver, ...] = ()
     parts: dict[str, PartSpec] = field(default_factory=dict)
     pulsed: dict[str, Pulse] = field(default_factory=dict)
+    limits: dict[str, int] = field(default_factory=dict)
 
 
 def read_layer(doc: TomlDoc) -> Layer:
@@ -83,7 +85,23 @@ def read_layer(doc: TomlDoc) -> Layer:
         waivers=_waivers(doc),
         parts=read_part_specs(doc),
         pulsed=_pulsed(doc),
+        limits=_limits(doc),
     )
+
+
+def _limits(doc: TomlDoc) -> dict[str, int]:
+    """``[limits]``: input limits (:mod:`linter.limits`); the environment overrides them."""
+    from linter.limits import ENVIRONMENT, parse_limit
+
+    table = doc.table(("limits",), doc.data.get("limits", {}))
+    doc.check_keys(("limits",), table, tuple(ENVIRONMENT))
+    found: dict[str, int] = {}
+    for key, value in table.items():
+        try:
+            found[key] = parse_limit(key, value)
+        except ValueError as exc:
+            doc.fail(("limits", key), f"[limits] {exc}")
+    return found
 
 
 def _rails(doc: TomlDoc) -> dict[str, Rail]:
@@ -115,6 +133,9 @@ def _rail_values(doc: TomlDoc, path: tuple[str, ...], value: Any) -> tuple[float
             nom, tolerance = parse_with_tolerance(value, "V")
         except ValueParseError as exc:
             doc.fail(path, f"rail {path[-1]!r}: {exc} (write it as '5 V ±5%')")
+        if tolerance is not None and not 0.0 <= tolerance <= 1.0:
+            doc.fail(path, f"rail {path[-1]!r}: tolerance ±{tolerance * 100:g}% lies outside "
+                           "0% to 100%")
         spread = abs(nom) * (tolerance or 0.0)
         return nom, nom - spread, nom + spread
     nom = doc.quantity(path, value, "V")

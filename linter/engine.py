@@ -22,6 +22,7 @@ from dataclasses import dataclass, field, replace
 from pathlib import Path
 from typing import Any, Mapping
 
+from linter import limits
 from linter.bom_join import BomDiscrepancy, apply_bom
 from linter.config import Settings, check_rule_settings, load_settings
 from linter.context import AnalysisContext
@@ -89,11 +90,13 @@ def load_inputs(request: CheckRequest, registry: Mapping[str, Any] | None = None
     settings = load_settings(request.netlist, request.config, request.parts_files)
     settings = check_rule_settings(settings, registry)
     opaque = frozenset(number for number, spec in settings.parts.items() if spec.kind == "mcu")
-    circuit = read_netlist(request.netlist, source=str(request.netlist), opaque=opaque)
     bom: Bom | None = None
     discrepancies: tuple[BomDiscrepancy, ...] = ()
-    if request.bom is not None:
-        bom = read_bom(request.bom)
+    with limits.applied(limits.effective(settings.limits)):
+        circuit = read_netlist(request.netlist, source=str(request.netlist), opaque=opaque)
+        if request.bom is not None:
+            bom = read_bom(request.bom)
+    if bom is not None:
         circuit, discrepancies = apply_bom(circuit, bom)
     circuit, part_data = resolve_part_data(circuit, settings)
     rails = resolve_rails(circuit, settings)

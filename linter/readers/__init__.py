@@ -66,10 +66,9 @@ def read_netlist(path: Path, source: str | None = None, root: Path | None = None
     ``mcu``) whose instances stay whole parts.
     """
     name = source if source is not None else str(path)
-    try:
-        data = path.read_bytes()
-    except OSError as exc:
-        raise NetlistError(name, None, None, f"cannot read: {exc.strerror or exc}") from None
+    from linter.limits import read_input
+
+    data = read_input(path, name, NetlistError)
     if not data.strip():
         raise NetlistError(name, 1, 1, "empty file; expected an EDIF or SPICE netlist")
     text = decode_text(data, name)

@@ -18,6 +18,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from linter.limits import active
 from linter.readers.edif_syntax import (
     Cell, EdifFile, Instance, Name, Net, PortRef, View, member_display,
 )
@@ -188,14 +189,22 @@ class _Flattener:
         leaves: list[Leaf] = []
         wires: list[NetWire] = []
         stack = [(top_cell, top_view, (), (), (id(top_view),))]
+        limit, placed = active().max_parts, 0
         while stack:
             cell, view, keys, names, ancestors = stack.pop()
             self.place_nets(view, keys, names, wires)
+            if len(wires) > 4 * limit:
+                self.fail(view.form, f"the design expands to more than {4 * limit} net pieces "
+                                     "(4 x max_parts)")
             for index, wire, inst, port, pin in self.links_of(cell, view):
                 self.union(("n", keys, index, wire), ("p", keys + (inst,) if inst else keys, port, pin))
             children = []
             for key, target in self.targets_of(cell, view).items():
                 instance = view.instances[key]
+                placed += 1
+                if placed > limit:
+                    self.fail(instance.form, f"the design expands to more than {limit} "
+                                             "instances (max_parts)")
                 if target.leaf:
                     leaves.append(Leaf(keys + (key,), names + (instance.name.display,),
                                        instance, target.cell, target.view))

@@ -115,12 +115,10 @@ def _open_include(card: Card, stack: list[_Open], root_real: Path,
                             + [display(real)])
         raise NetlistError(here.file, here.line, here.column, f"{word} loop: {chain}")
     name = display(real)
-    try:
-        data = real.read_bytes()
-    except OSError as exc:
-        raise NetlistError(here.file, here.line, here.column,
-                           f"{word} {given!r}: cannot read: {exc.strerror or exc}") from None
+    from linter.limits import read_input
     from linter.readers import decode_text  # the package imports this module lazily
+
+    data = read_input(real, here.file, NetlistError, here.line, here.column, f"{word} {given!r}")
 
     cards = read_cards(decode_text(data, name), name, skip_title=False)
     return _Open(_section_cards(cards, section) if section else cards, real, name, section)

@@ -17,6 +17,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Collection, Iterator, Mapping
 
+from linter.limits import active
 from linter.model import DeviceModel, SourceLocation
 from linter.readers.spice_elements import ElementCard, parse_element
 from linter.readers.spice_expr import ExpressionError, evaluate, strip_braces
@@ -27,7 +28,8 @@ from linter.readers.spice_structure import ModelCard, Structure, Subcircuit, fai
 __all__ = ["FlatElement", "NetInfo", "Flattened", "flatten", "MAX_ELEMENTS", "GROUND"]
 
 MAX_ELEMENTS = 2_000_000
-"""Elements; a hierarchy that flattens to more is refused (a guard against runaway nesting)."""
+"""Hard ceiling on elements; below it ``max_parts`` (:mod:`linter.limits`) bounds both the
+elements and the subcircuit instances expanded (a guard against runaway nesting)."""
 
 GROUND = "0"
 """The key and display name of the ground net (``0`` and ``gnd``)."""
@@ -118,6 +120,8 @@ class _Flattener:
         self.global_params: dict[str, float] = {}
         _body_params(structure.body, self.global_params)
         self.global_models: dict[str, DeviceModel] = {}
+        self.limit = min(MAX_ELEMENTS, active().max_parts)
+        self.expanded = 0
 
     def run(self) -> Flattened:
         body = [card for card in self.structure.body if card.keyword != ".param"]
@@ -143,8 +147,9 @@ class _Flattener:
             raise fail_at(element.name, f"{element.name.text} is defined twice "
                                         f"(first at {frame.seen[key]})")
         frame.seen[key] = element.name.location
-        if len(self.result.elements) >= MAX_ELEMENTS:
-            raise fail_at(card, f"the design flattens to more than {MAX_ELEMENTS} elements")
+        if len(self.result.elements) >= self.limit:
+            raise fail_at(card, f"the design flattens to more than {self.limit} elements "
+                                "(max_parts)")
         if element.letter == "X":
             return self._instance(element, frame, stack)
         self.result.elements.append(self._primitive(element, frame))
@@ -171,6 +176,9 @@ class _Flattener:
             text = element.value.text.split("=", 1)[1] if "=" in element.value.text and \
                 strip_braces(element.value.text) is None else element.value.text
             value_si = evaluate_token(element.value, frame.params, text)
+            if element.letter == "R" and value_si is not None and value_si < 0:
+                raise fail_at(element.value, f"{element.name.text}: negative resistance "
+                                             f"{value_si:g} Ω; a resistor's value must be 0 Ω or more")
         model = self._model(element.model, frame) if element.model is not None else None
         params = {t.text.split("=", 1)[0].casefold(): t.text.split("=", 1)[1] for t in element.params}
         return FlatElement(element.name.text, frame.path, element.letter, pins, element.name.location,
@@ -204,6 +212,10 @@ class _Flattener:
             start = [n.casefold() for n in chain].index(definition.name.casefold())
             raise fail_at(element.name, "subcircuit used inside itself: "
                                         + " -> ".join([*chain[start:], definition.name]))
+        self.expanded += 1
+        if self.expanded > self.limit:
+            raise fail_at(element.name, f"the design expands more than {self.limit} subcircuit "
+                                        "instances (max_parts)")
         params = self._instance_params(element, frame, definition)
         ports = {port.folded: net for port, net in zip(definition.ports, nets)}
         body = [card for card in definition.body if card.keyword != ".param"]
