@@ -23,15 +23,23 @@ _CHUNKS = re.compile(r"(\d+)")
 _TRAILING_NUMBER = re.compile(r"^(?P<prefix>.*?)(?P<number>[1-9]\d*|0)$")
 
 
-def natural_key(ref: str) -> tuple[tuple[str | int, ...], str]:
+def natural_key(ref: str) -> tuple[tuple[str | tuple[int, str], ...], str]:
     """Sort key reading digit runs as numbers, letters without case; the text breaks ties.
+
+    A digit run is compared by its length without leading zeros, then its digits: the order
+    of the numbers, without converting them (a run of thousands of digits is no error).
 
     >>> sorted(["D10", "D2", "d1", "R1"], key=natural_key)
     ['d1', 'D2', 'D10', 'R1']
     """
     chunks = _CHUNKS.split(ref)
-    return tuple(int(chunk) if index % 2 else chunk.casefold()
+    return tuple(_number_key(chunk) if index % 2 else chunk.casefold()
                  for index, chunk in enumerate(chunks)), ref
+
+
+def _number_key(digits: str) -> tuple[int, str]:
+    significant = digits.lstrip("0")
+    return len(significant), significant
 
 
 def natural_sorted(refs: Iterable[str]) -> list[str]:

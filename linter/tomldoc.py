@@ -10,6 +10,7 @@ did you mean 'vf_typ'?``.
 from __future__ import annotations
 
 import difflib
+import math
 import re
 from dataclasses import dataclass
 from typing import Any, Iterable, NoReturn
@@ -85,6 +86,8 @@ class TomlDoc:
         if isinstance(value, bool) or not isinstance(value, (int, float, str)):
             self.fail(path, f"{_key(path)}: expected a value in {unit or 'plain numbers'} "
                             f"(such as {_EXAMPLES.get(unit, '1.5')!r}), not {_kind(value)}")
+        if isinstance(value, float) and not math.isfinite(value):
+            self.fail(path, f"{_key(path)}: expected a finite value, not {value!r}")
         if isinstance(value, (int, float)):
             return float(value) / (100.0 if unit == "%" and value > 1 else 1.0)
         try:

@@ -26,10 +26,39 @@ _DOTTED = re.compile(rf"^\s*(?P<key>{_KEY_PART}(?:\s*\.\s*{_KEY_PART})*)\s*=")
 _HEADER = re.compile(rf"^\s*(?P<open>\[\[?)\s*(?P<key>{_KEY_PART}(?:\s*\.\s*{_KEY_PART})*)\s*\]")
 
 
+TOML_MAX_DEPTH = 100
+"""Deepest nesting of arrays and inline tables read; the decoder recurses, so deeper text is
+refused at the bracket that goes too deep (settings nest three or four levels)."""
+_TOML_PIECES = re.compile(r'"""[\s\S]*?"""|\'\'\'[\s\S]*?\'\'\'|"(?:\\.|[^"\\\n])*"|\'[^\'\n]*\'|#[^\n]*|[\[\]{}]')
+
+
+def _too_deep(text: str) -> int | None:
+    """Offset of the first ``[`` or ``{`` nested deeper than :data:`TOML_MAX_DEPTH`, or None."""
+    if text.count("[") + text.count("{") <= TOML_MAX_DEPTH:
+        return None
+    depth = 0
+    for match in _TOML_PIECES.finditer(text):
+        piece = match.group()
+        if piece in ("[", "{"):
+            depth += 1
+            if depth > TOML_MAX_DEPTH:
+                return match.start()
+        elif piece in ("]", "}"):
+            depth = max(depth - 1, 0)
+    return None
+
+
 def load_toml(text: str, source: str, error: type[InputError]) -> dict[str, Any]:
     """Decode TOML; a syntax error becomes ``error`` at the decoder's line and column."""
+    deep = _too_deep(text)
+    if deep is not None:
+        line = text.count("\n", 0, deep) + 1
+        raise error(source, line, deep - (text.rfind("\n", 0, deep) + 1) + 1,
+                    f"invalid TOML: arrays or tables nested deeper than {TOML_MAX_DEPTH} levels")
     try:
         return tomllib.loads(text)
+    except RecursionError:
+        raise error(source, 1, 1, "invalid TOML: nested too deeply to read") from None
     except tomllib.TOMLDecodeError as exc:
         message = str(exc)
         match = _AT.search(message)

@@ -126,9 +126,18 @@ def parse_number(text: str, unit: str | None = None) -> float:
     return _parse_with_pint(text, unit, expected)
 
 
+_PINT_MAX_LENGTH = 100
+"""Longest text handed to pint; values are short, and pint's evaluator recurses."""
+_PINT_REFUSED = frozenset("*^()")
+"""Operators pint would evaluate (``9**9**9`` is a number too large to compute, deep
+parentheses exhaust its recursion): a value never needs them."""
+
+
 def _parse_with_pint(text: str, unit: str | None, expected: str) -> float:
     import pint
 
+    if len(text) > _PINT_MAX_LENGTH or not _PINT_REFUSED.isdisjoint(text):
+        raise ValueParseError(text, expected)
     ureg = registry()
     try:
         quantity = ureg.Quantity(text.strip().replace("Ω", "Ω"))

@@ -51,6 +51,8 @@ _NOT_FITTED_MARKS = frozenset({"no", "n", "0", "false", "dnp", "dnf", "nf"})
 _DNP_VALUES = frozenset({"dnp", "dnf", "nf"})
 MAX_RANGE = 10_000
 """The longest reference range accepted (``R1-R10000``); longer is taken for a typing slip."""
+_MAX_REFERENCE_DIGITS = 18
+"""Digits a range's numbers may have (read as integers only below Python's conversion limit)."""
 
 
 @dataclass(frozen=True)
@@ -99,10 +101,9 @@ class _Cell:
 def read_bom(path: Path, source: str | None = None) -> Bom:
     """Read a BOM file; ``source`` is the name used in messages (default: the path as given)."""
     name = source if source is not None else str(path)
-    try:
-        data = path.read_bytes()
-    except OSError as exc:
-        raise BomError(name, None, None, f"cannot read: {exc.strerror or exc}") from None
+    from linter.limits import read_input
+
+    data = read_input(path, name, BomError)
     if not data.strip(b" \t\r\n\xef\xbb\xbf"):
         raise BomError(name, 1, 1, "empty file; expected a CSV bill of materials with a header row")
     return parse_bom(decode_text(data, name, BomError), name)
@@ -142,36 +143,41 @@ def _tokenize(text: str, source: str, delimiter: str) -> Iterator[list[_Cell]]:
     start = (1, 1)
     quoted_from: tuple[int, int] | None = None
     in_quotes = False
+    has_text = False  # a character other than a blank since the cell began (kept, not rescanned)
     index, length = 0, len(text)
     while index < length:
         char = text[index]
         if in_quotes:
             if char == '"' and index + 1 < length and text[index + 1] == '"':
                 chars.append('"')
+                has_text = True
                 index, column = index + 2, column + 2
                 continue
             if char == '"':
                 in_quotes = False
             else:
                 chars.append(char)
-        elif char == '"' and not "".join(chars).strip():
+                has_text = has_text or not char.isspace()
+        elif char == '"' and not has_text:
             chars.clear()
             in_quotes, quoted_from = True, (line, column)
         elif char == delimiter:
             row.append(_Cell("".join(chars), *start))
             chars.clear()
+            has_text = False
             start = (line, column + 1)
         elif char in "\r\n":
             if char == "\r" and index + 1 < length and text[index + 1] == "\n":
                 index += 1
             row.append(_Cell("".join(chars), *start))
             yield row
-            row, chars = [], []
+            row, chars, has_text = [], [], False
             line, column, index = line + 1, 1, index + 1
             start = (line, 1)
             continue
         else:
             chars.append(char)
+            has_text = has_text or not char.isspace()
         if char == "\n":
             line, column = line + 1, 1
         else:
@@ -296,6 +302,9 @@ def _expand_token(token: str, source: str, line: int, column: int) -> list[str]:
     if prefix2 is not None and prefix2 != prefix:
         raise BomError(source, line, column,
                        f"reference range {token!r} mixes prefixes {prefix!r} and {prefix2!r}")
+    if max(len(match["first"]), len(match["last"])) > _MAX_REFERENCE_DIGITS:
+        raise BomError(source, line, column, f"reference range {token!r}: a number longer than "
+                                             f"{_MAX_REFERENCE_DIGITS} digits")
     first, last = int(match["first"]), int(match["last"])
     if last < first:
         raise BomError(source, line, column, f"reference range {token!r} runs backwards")

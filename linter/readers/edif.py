@@ -21,6 +21,7 @@ the outside) is refused: it is a drawing error, and an LED on it could not be an
 
 from __future__ import annotations
 
+import math
 import re
 from collections import Counter
 
@@ -141,10 +142,28 @@ def _part(leaf: Leaf, ref: str, flat: FlatDesign, net_names: dict[tuple, str], d
             name = port.name.display if not port.name.dims else member_display(port.name, index)
             root = flat.find(("p", leaf.keys, key, index))
             pins.append(Pin(name, net_names.get(root) if root is not None else None))
+    ohms = _ohms(kind, value)
+    problem = _resistance_problem(kind, value, ohms)
+    if problem:
+        raise doc.error(leaf.instance.form, f"{ref}: {problem}")
     return Part(ref=ref, kind=kind, value=value, pins=tuple(pins),
-                location=_location(doc, leaf.instance.form), value_si=_ohms(kind, value),
+                location=_location(doc, leaf.instance.form), value_si=ohms,
                 path="/".join(leaf.names), cell=leaf.cell.name.display,
                 part_number=part_number, properties=properties)
+
+
+def _resistance_problem(kind: str, value: str | None, ohms: float | None) -> str:
+    """Why a resistor's value cannot be a resistance ('' when it can, or is simply not a number):
+    a negative value, or a plain number beyond floating point (``1e400``, ``nan``, ``inf``)."""
+    if kind not in ("resistor", "link") or value is None:
+        return ""
+    if ohms is not None and ohms < 0:
+        return f"negative resistance {value!r}; a resistor's value must be 0 Ω or more"
+    try:
+        number = float(value.strip().removesuffix("Ω").removesuffix("ohm"))
+    except ValueError:
+        return ""
+    return "" if math.isfinite(number) else f"value {value!r} is not a finite resistance"
 
 
 def _ohms(kind: str, value: str | None) -> float | None:

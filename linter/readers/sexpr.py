@@ -37,17 +37,17 @@ import gc
 import re
 from bisect import bisect_right
 from contextlib import contextmanager
-from itertools import accumulate
 from typing import Iterator
 
 from sexpdata import Symbol
 
 from linter.errors import NetlistError
+from linter.limits import active
 
 __all__ = ["MAX_DEPTH", "Document", "parse", "paused_gc", "Symbol"]
 
 MAX_DEPTH = 1000
-"""Deepest list nesting accepted. EDIF netlists nest about 10 deep; 1,000 is far beyond any
+"""Deepest list nesting accepted by default (``max_nesting`` in :mod:`linter.limits` sets it). EDIF netlists nest about 10 deep; 1,000 is far beyond any
 real file and far below what recursive consumers of the tree (``==``, ``repr``) survive."""
 
 _WS = " \t\n\r\x0b\x0c"  # string.whitespace, as sexpdata uses
@@ -55,8 +55,10 @@ _TOKEN = re.compile(rf'[{_WS}]*+([()]|"[^"]*+"|[^{_WS}()"]++|")')
 """One token per match: a parenthesis, a whole string with its quotes, an atom, or a lone
 quote (a string that never closes). Every character is either whitespace or in a token."""
 _LOCATED_TOKEN = re.compile(rf'[{_WS}]*+(?:([()]|"[^"]*+"|[^{_WS}()"]++)|("))')
-_OPENS = re.compile(r'(?:[^"(]++|"[^"]*+")*+\(')
-"""Everything up to and including the next ``(`` outside strings (possessive: no backtracking)."""
+_LINE_END = re.compile(r"\r\n?|\n")
+_OPEN_OR_STRING = re.compile(r'"[^"]*+"|\(')
+"""A whole string or a ``(``: scanning left to right, the ``(`` found are those outside strings
+(linear: a search never starts inside a string, so a long string or tail is crossed once)."""
 _INT = re.compile(r"[+-]?[0-9]+")
 _FLOAT = re.compile(r"[+-]?(?:[0-9]+\.[0-9]*|\.[0-9]+|[0-9]+)(?:[eE][+-]?[0-9]+)?")
 _NUMBER_START = frozenset("0123456789+-.")
@@ -107,7 +109,8 @@ class Document:
         """Character offset of the ``(`` that opens ``node`` (a list of this document)."""
         if self._ordinal is None:
             self._ordinal = {id(item): index for index, item in enumerate(self._lists)}
-            self._open_offsets = [end - 1 for end in accumulate(map(len, _OPENS.findall(self.text)))]
+            self._open_offsets = [match.start() for match in _OPEN_OR_STRING.finditer(self.text)
+                                  if match.group() == "("]
         try:
             return self._open_offsets[self._ordinal[id(node)]]  # type: ignore[index]
         except KeyError:
@@ -116,10 +119,8 @@ class Document:
     def position(self, offset: int) -> tuple[int, int]:
         """1-based (line, column) of a character offset; columns count characters."""
         if self._line_starts is None:
-            starts = [0]
-            starts.extend(end + 1 for end in accumulate(map(len, self.text.split("\n")[:-1]),
-                                                         lambda total, n: total + n + 1))
-            self._line_starts = starts
+            # LF, CRLF and a lone CR each end a line
+            self._line_starts = [0, *(match.end() for match in _LINE_END.finditer(self.text))]
         line = bisect_right(self._line_starts, offset)
         return line, offset - self._line_starts[line - 1] + 1
 
@@ -181,6 +182,7 @@ def _build(tokens: list[str]) -> tuple[list, list[list]]:
     register = lists.append
     atoms: dict[str, object] = {}
     known = atoms.get
+    max_depth = active().max_nesting
     for token in tokens:
         first = token[0]
         if first == "(":
@@ -189,7 +191,7 @@ def _build(tokens: list[str]) -> tuple[list, list[list]]:
             push(current)
             register(child)
             current = child
-            if len(stack) > MAX_DEPTH:
+            if len(stack) > max_depth:
                 raise _SyntaxProblem
         elif first == ")":
             if not stack:
@@ -223,6 +225,7 @@ def _raise_located(text: str, source: str) -> None:
     doc = Document(text, source, None, [])
     opens: list[int] = []
     roots = 0
+    max_depth = active().max_nesting
     for offset, token in _located_tokens(text):
         if token is None:
             raise doc.error(offset, "unterminated string (no closing '\"')")
@@ -232,8 +235,8 @@ def _raise_located(text: str, source: str) -> None:
             raise doc.error(offset, "unexpected text after the end of the top-level form")
         if token == "(":
             opens.append(offset)
-            if len(opens) > MAX_DEPTH:
-                raise doc.error(offset, f"lists nested deeper than {MAX_DEPTH} levels")
+            if len(opens) > max_depth:
+                raise doc.error(offset, f"lists nested deeper than {max_depth} levels")
         elif token == ")":
             if not opens:
                 raise doc.error(offset, "unexpected ')' with no list open")

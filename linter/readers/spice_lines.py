@@ -11,6 +11,8 @@ from ``$`` at the start or after a blank. Tokens are separated by blanks and com
 
 from __future__ import annotations
 
+import re
+
 from dataclasses import dataclass
 from typing import Iterator
 
@@ -65,15 +67,18 @@ class _Segment:
     text: str
 
 
+_DOLLAR_COMMENT = re.compile(r"(?:^|(?<=[ \t]))\$")
+"""A ``$`` at the start of a line or after a blank opens a comment."""
+
+
 def _strip_comment(line: str) -> str:
     cut = len(line)
     semicolon = line.find(";")
     if semicolon >= 0:
         cut = semicolon
-    for index, char in enumerate(line[:cut]):
-        if char == "$" and (index == 0 or line[index - 1] in " \t"):
-            cut = index
-            break
+    dollar = _DOLLAR_COMMENT.search(line, 0, cut)
+    if dollar is not None:
+        cut = dollar.start()
     return line[:cut]
 
 
@@ -99,6 +104,9 @@ def _logical_lines(text: str, file: str, first_line: int) -> Iterator[list[_Segm
 
 
 _CLOSERS = {"{": "}", "'": "'", '"': '"'}
+_PLAIN_RUN = re.compile(r"[^ \t\r\f\v,(){'\"]+")
+"""A run of characters that neither end a token nor open a quote or brace (taken whole, so a
+long token costs linear time)."""
 
 
 def _split(segment: _Segment, file: str, base: int) -> list[Token]:
@@ -118,6 +126,11 @@ def _split(segment: _Segment, file: str, base: int) -> list[Token]:
             continue
         if not current:
             start = index
+        run = _PLAIN_RUN.match(text, index)
+        if run is not None:
+            current += run.group()
+            index = run.end()
+            continue
         if char in _CLOSERS:
             end = _closing(text, index, char)
             if end < 0:
