@@ -6,6 +6,7 @@ bench/run.py, never here.
 
 from __future__ import annotations
 
+import json
 import logging
 import math
 import re
@@ -201,3 +202,18 @@ def test_spice_reader_reads_the_small_board(small) -> None:
     placed = {ref for ref, part in circuit.parts.items() if part.kind != "source"}
     # The generator's parts; V12 and V5 are sources; XU1 is named U1 (demo BOARD.md).
     assert placed == {p.ref for p in board.flat_parts()} | {m.ref for m in board.mcus}
+
+
+def test_ledlint_recognises_every_generated_group(small, capsys: pytest.CaptureFixture) -> None:
+    from linter.cli import main
+
+    board, files = small
+    expected = {kind: n for kind, n in board.counts.items() if kind != "decoupling"}
+    for netlist, bom in (("edif", "bom"), ("edif_hier", "bom_hier"), ("spice", "bom")):
+        status = main(["check", str(files[netlist]), "--bom", str(files[bom]), "--format", "json"])
+        report = json.loads(capsys.readouterr().out)
+        assert status in (0, 1), netlist
+        found: dict[str, int] = {}
+        for group in report["groups"]:
+            found[group["topology"]] = found.get(group["topology"], 0) + 1
+        assert found == expected, netlist  # the generator placed one group per channel
