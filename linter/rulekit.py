@@ -13,8 +13,14 @@ from linter.corners import Corner
 from linter.partdata import BjtData, LedData, Rail, ResistorData
 from linter.units import format_si
 
-__all__ = ["solved_groups", "group_rail", "led_data", "resistor_data", "bjt_data",
+__all__ = ["part_location", "solved_groups", "group_rail", "led_data", "resistor_data", "bjt_data",
            "corner_phrase", "at_corner", "amps", "volts", "ohms", "watts", "say"]
+
+
+def part_location(context: Any, ref: str) -> Any:
+    """Where part ``ref`` was placed in the netlist, or None for a reference not in it."""
+    part = context.circuit.parts.get(ref)
+    return None if part is None else part.location
 
 
 def solved_groups(context: Any) -> Iterator[Any]:

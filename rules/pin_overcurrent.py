@@ -10,7 +10,7 @@ from linter.fixes import resistor_for_current_solved
 from linter.partdata import McuData
 from linter.refs import fold_refs
 from linter.results import GroupResult, PinResult
-from linter.rulekit import amps, at_corner, ohms, say, solved_groups
+from linter.rulekit import amps, at_corner, ohms, part_location, say, solved_groups
 from linter.rules import Rule, register
 
 
@@ -75,7 +75,7 @@ class PinOvercurrent(Rule):
         fix = _pin_fix(context, result, pin, values)
         return Finding(rule=self.id, severity=context.severity(self), message=message,
                        parts=(part, *result.group.leds), nets=(pin.net,), group=result.id,
-                       values=values, fix=fix, location=_location(context, part))
+                       values=values, fix=fix, location=part_location(context, part))
 
     def _package_finding(self, context: Any, part: str,
                          pins: list[tuple[PinResult, GroupResult]]) -> Finding | None:
@@ -98,7 +98,7 @@ class PinOvercurrent(Rule):
                f"the rail, or lower their currents")
         return Finding(rule=self.id, severity=context.severity(self), message=message,
                        parts=(part,), nets=tuple(sorted({pin.net for pin, _ in pins})),
-                       values=values, fix=fix, location=_location(context, part))
+                       values=values, fix=fix, location=part_location(context, part))
 
 
 def _largest_pin_per_part(result: GroupResult) -> dict[str, PinResult]:
@@ -153,8 +153,3 @@ def _resistor_for_pin(context: Any, result: GroupResult, ref: str, pin: PinResul
                                            max_steps=200)
     except (RuntimeError, StopIteration):
         return None
-
-
-def _location(context: Any, ref: str) -> Any:
-    part = context.circuit.parts.get(ref)
-    return None if part is None else part.location

@@ -8,7 +8,7 @@ from linter.dissipation import Allowance, over, resistor_allowance
 from linter.findings import Finding
 from linter.fixes import resistor_rating
 from linter.results import GroupResult, ResistorResult
-from linter.rulekit import at_corner, say, solved_groups, watts
+from linter.rulekit import at_corner, part_location, say, solved_groups, watts
 from linter.rules import Rule, register
 
 
@@ -73,7 +73,7 @@ class ResistorOverload(Rule):
         return Finding(rule=self.id, severity=context.severity(self), message=message,
                        parts=(resistor.ref,), group=result.id, values=values,
                        fix=_fix(resistor.ref, power.max, allowance, values),
-                       location=_location(context, resistor.ref))
+                       location=part_location(context, resistor.ref))
 
 
 def _fix(ref: str, power_w: float, allowance: Allowance, values: dict) -> str:
@@ -88,8 +88,3 @@ def _fix(ref: str, power_w: float, allowance: Allowance, values: dict) -> str:
         return (f"use a {choice.text} part for {ref} ({watts(choice.allowed_w)} allowed at "
                 f"{allowance.ambient_c:g} °C)")
     return f"{choice.text} for {ref} ({watts(choice.allowed_w)} allowed each)"
-
-
-def _location(context: Any, ref: str) -> Any:
-    part = context.circuit.parts.get(ref)
-    return None if part is None else part.location
