@@ -114,7 +114,9 @@ def test_several_netlists_make_one_text_report(sample_run, tmp_path, capsys) -> 
     assert main(["check", str(sample_run), str(second), "-q"]) == EXIT_FINDINGS
     single = ReportFormat.TEXT.reporter(ReportOptions(quiet=True)).render(sample_result())
     assert capsys.readouterr().out == f"{single}\n{single}"
-    _refused(["check", str(sample_run), str(second), "--format", "json"], capsys)
+    assert main(["check", str(sample_run), str(second), "--format", "json"]) == EXIT_FINDINGS
+    combined = json.loads(capsys.readouterr().out)  # several boards: one combined JSON report
+    assert len(combined["boards"]) == 2 and combined["complete"] is True
 
 
 class _Terminal(io.StringIO):
