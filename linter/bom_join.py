@@ -77,8 +77,9 @@ def apply_bom(circuit: Circuit, bom: Bom) -> tuple[Circuit, tuple[BomDiscrepancy
                     "missing-from-bom", (ref,),
                     f"{ref} is in the netlist but not in the BOM", part.location))
             continue
-        problems.extend(_compare(part, line))
-        parts[ref] = _enrich(part, line)
+        same_value = line.value is None or part.value is None or _value_matches(part, line)
+        problems.extend(_compare(part, line, same_value))
+        parts[ref] = _enrich(part, line, same_value)
     return replace(circuit, parts=parts), tuple(problems)
 
 
@@ -93,8 +94,11 @@ def _check_quantity(line: BomLine) -> list[BomDiscrepancy]:
         line.location, {"quantity": float(line.quantity), "references": float(count)})]
 
 
-def _enrich(part: Part, line: BomLine) -> Part:
-    """The part with the BOM's facts in its properties (and part number where it had none)."""
+def _enrich(part: Part, line: BomLine, same_value: bool) -> Part:
+    """The part with the BOM's facts in its properties (and part number where it had none).
+
+    ``same_value`` says whether the BOM's value agrees with the netlist's (or either is absent).
+    """
     properties = dict(part.properties)
     for name in _BOM_PROPERTIES:
         text = getattr(line, name)
@@ -102,16 +106,15 @@ def _enrich(part: Part, line: BomLine) -> Part:
             properties[name] = text
     if line.dnp:
         properties["dnp"] = "yes"
-    if line.value is not None and part.value is not None and not _value_matches(part, line):
-        properties["bom_value"] = line.value
+    if not same_value:
+        properties["bom_value"] = line.value  # type: ignore[assignment]
     part_number = part.part_number or line.part_number
     return replace(part, properties=properties, part_number=part_number)
 
 
-def _compare(part: Part, line: BomLine) -> list[BomDiscrepancy]:
+def _compare(part: Part, line: BomLine, same_value: bool) -> list[BomDiscrepancy]:
     problems: list[BomDiscrepancy] = []
-    if line.value is not None and part.value is not None and not line.dnp \
-            and not _value_matches(part, line):
+    if not same_value and not line.dnp:
         problems.append(_value_discrepancy(part, line))
     from_model = part.model is not None and part.part_number == part.model.name
     if part.part_number and line.part_number and not from_model and \

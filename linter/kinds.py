@@ -9,6 +9,7 @@ plain diode (``D1``, ``1N4148``) is not an LED.
 from __future__ import annotations
 
 import re
+from functools import lru_cache
 from typing import Iterable
 
 __all__ = ["infer_kind", "LED_WORDS", "COLOR_WORDS"]
@@ -81,9 +82,17 @@ def infer_kind(
     >>> infer_kind("R5", "0")
     'link'
     """
-    texts = (value, part_number, description, package, cell)
     match = _REF_PREFIX.match(ref.rsplit("/", 1)[-1])
     prefix = match.group(1).upper() if match else ""
+    return _kind(prefix, value, part_number, description, package, cell)
+
+
+@lru_cache(maxsize=4096)
+def _kind(prefix: str, value: str | None, part_number: str | None, description: str | None,
+          package: str | None, cell: str | None) -> str:
+    """:func:`infer_kind` from the reference's letters (upper case) on; remembered, as a board
+    repeats a few combinations of letters and texts thousands of times."""
+    texts = (value, part_number, description, package, cell)
     kind = _PREFIX_KINDS.get(prefix)
     if kind is None and prefix:
         kind = _PREFIX_KINDS.get(prefix[:2]) or _PREFIX_KINDS.get(prefix[:1])

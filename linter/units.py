@@ -112,7 +112,33 @@ def parse_number(text: str, unit: str | None = None) -> float:
     >>> parse_number("1/4W", "W")
     0.25
     """
+    known = _READ.get((text, unit))
+    if known is None:
+        known = _READ[(text, unit)] = _read_number(text, unit)
+        if len(_READ) > _READ_SIZE:
+            _READ.clear()
+    if isinstance(known, float):
+        return known
+    raise ValueParseError(text, known)
+
+
+_READ: dict[tuple[str, str | None], float | str] = {}
+"""Readings of (text, unit) already made: the float, or the ``expected`` text of the refusal.
+A board repeats few value texts many times (E-series values, part numbers read as values)."""
+_READ_SIZE = 4096
+"""Entries kept before :data:`_READ` starts over (it only saves time)."""
+
+
+def _read_number(text: str, unit: str | None) -> float | str:
+    """:func:`parse_number` without the memo: the float, or the ``expected`` text of the refusal."""
     expected = f"a value in {unit}" if unit else "a number"
+    try:
+        return _read_uncached(text, unit, expected)
+    except ValueParseError as exc:
+        return exc.expected
+
+
+def _read_uncached(text: str, unit: str | None, expected: str) -> float:
     match = _FAST.match(text)
     if match and _unit_ok(match["unit"], unit):
         return _finite(float(match["num"]) * PREFIXES[match["prefix"]], text, expected)
