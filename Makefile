@@ -4,7 +4,7 @@ VENV   := .venv
 BIN    := $(VENV)/bin
 STAMP  := $(VENV)/.installed
 
-.PHONY: demo test bench clean
+.PHONY: demo test bench fuzz clean
 
 $(STAMP): pyproject.toml
 	test -d $(VENV) || $(PYTHON) -m venv $(VENV)
@@ -24,6 +24,17 @@ test: $(STAMP)
 
 bench: $(STAMP)
 	$(BIN)/python bench/run.py $(BENCH_ARGS)
+
+# Fuzz every reader with atheris for FUZZ_SECONDS each (not part of CI); crashes are saved as
+# fuzz/crash-<reader>-*. atheris comes from PyPI, installed here only.
+FUZZ_SECONDS ?= 60
+fuzz: $(STAMP)
+	$(BIN)/pip install --quiet atheris
+	fuzz/seeds.sh
+	for reader in edif spice bom settings parts; do \
+	  $(BIN)/python fuzz/fuzz_$$reader.py fuzz/corpus/$$reader -max_total_time=$(FUZZ_SECONDS) \
+	    -timeout=20 -rss_limit_mb=4096 -artifact_prefix=fuzz/crash-$$reader- || exit 1; \
+	done
 
 clean:
 	rm -rf $(VENV) build *.egg-info

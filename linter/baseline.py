@@ -167,10 +167,9 @@ def parse_baseline(text: str, source: str) -> Baseline:
 def read_baseline(path: Path) -> Baseline:
     """The baseline in file ``path`` (UTF-8 JSON); BaselineError when it cannot be used."""
     source = str(path)
-    try:
-        data = path.read_bytes()
-    except OSError as exc:
-        raise BaselineError(source, None, None, f"cannot read: {exc.strerror or exc}") from None
+    from linter.limits import read_input
+
+    data = read_input(path, source, BaselineError)
     try:
         text = data.decode("utf-8-sig")
     except UnicodeDecodeError as exc:

@@ -70,7 +70,7 @@ _RKM_LETTER: dict[str, float] = {"R": 1.0, "r": 1.0, "K": 1e3, "k": 1e3, "M": 1e
                                  "T": 1e12, "m": 1e-3, "u": 1e-6, "µ": 1e-6, "μ": 1e-6,
                                  "n": 1e-9, "p": 1e-12, "g": 1e9, "t": 1e12}
 _FRACTION = re.compile(rf"^\s*(?P<num>\d+)\s*/\s*(?P<den>\d+)\s*(?P<unit>[A-Za-zΩΩ]*)\s*$")
-_TOLERANCE = re.compile(r"^(?P<value>.*?)\s*(?:±|\+/-|\+-)\s*(?P<tol>[0-9.]+)\s*%\s*$")
+_TOLERANCE = re.compile(r"^(?P<value>.*?)\s*(?:±|\+/-|\+-)\s*(?P<tol>[0-9]+(?:\.[0-9]*)?|\.[0-9]+)\s*%\s*$")
 _PERCENT = re.compile(rf"^\s*(?P<num>{_NUMBER})\s*%\s*$")
 _TEMPERATURE = re.compile(rf"^\s*(?P<num>{_NUMBER})\s*(?:°C|degC|deg C|C|celsius)\s*$", re.IGNORECASE)
 
@@ -154,7 +154,7 @@ def _read_uncached(text: str, unit: str | None, expected: str) -> float:
 
 _PINT_MAX_LENGTH = 100
 """Longest text handed to pint; values are short, and pint's evaluator recurses."""
-_PINT_REFUSED = frozenset("*^()[]{}")
+_PINT_REFUSED = frozenset("*^()[]{}±%")
 """Operators pint would evaluate (``9**9**9`` is a number too large to compute, deep
 parentheses exhaust its recursion): a value never needs them."""
 
