@@ -47,7 +47,16 @@ _IGNORED = re.compile(r"[\s_\-]")
 
 def _normal(name: str) -> str:
     """Property name for matching: case-folded, without spaces, underscores or hyphens."""
-    return _IGNORED.sub("", name.casefold())
+    found = _NORMAL.get(name)
+    if found is None:
+        found = _NORMAL[name] = _IGNORED.sub("", name.casefold())
+        if len(_NORMAL) > 4096:  # a file of thousands of property names: start over
+            _NORMAL.clear()
+    return found
+
+
+_NORMAL: dict[str, str] = {}
+"""Normalised property names already computed (a netlist repeats a few names per part)."""
 
 
 def read_edif(text: str, source: str) -> Circuit:
@@ -70,15 +79,18 @@ def _read(text: str, source: str) -> Circuit:
     flat = flatten(edif)
     refs = _part_refs(flat.leaves, doc)
     net_names, chosen = _net_names(flat, doc)
-    parts = {ref: _part(leaf, ref, flat, net_names, doc) for ref, leaf in zip(refs, flat.leaves)}
+    places = _locations(doc, [leaf.instance.form for leaf in flat.leaves])
+    parts = {ref: _part(leaf, ref, flat, net_names, doc, place)
+             for ref, leaf, place in zip(refs, flat.leaves, places)}
     nets = _nets(parts, chosen, net_names, flat, doc)
     design = edif.design.name.display if edif.design is not None else ""
     return Circuit(source=source, format="edif", parts=parts, nets=nets, design=design)
 
 
-def _location(doc: Document, form: list) -> SourceLocation:
-    line, column = doc.position_of(form)
-    return SourceLocation(doc.source, line, column)
+def _locations(doc: Document, forms: list[list]) -> list[SourceLocation]:
+    """Where each form starts, found in one pass over the document."""
+    source = doc.source
+    return [SourceLocation(source, line, column) for line, column in doc.positions_of(forms)]
 
 
 def _reference(leaf: Leaf) -> str | None:
@@ -127,12 +139,14 @@ def _net_names(flat: FlatDesign, doc: Document) -> tuple[dict[tuple, str], dict[
     return names, chosen
 
 
-def _part(leaf: Leaf, ref: str, flat: FlatDesign, net_names: dict[tuple, str], doc: Document) -> Part:
+def _part(leaf: Leaf, ref: str, flat: FlatDesign, net_names: dict[tuple, str], doc: Document,
+          location: SourceLocation) -> Part:
     merged = {**leaf.cell.properties, **leaf.view.properties, **leaf.instance.properties}
-    by_key = {_normal(name): value for name, value in merged.items()}
+    normal = [(_normal(name), name, value) for name, value in merged.items()]
+    by_key = {key: value for key, _, value in normal}
     value = by_key.get("value")
     part_number = next((by_key[k] for k in PART_NUMBER_KEYS if k in by_key), None)
-    properties = {name.lower(): text for name, text in merged.items() if _normal(name) not in _NOT_KEPT}
+    properties = {name.lower(): text for key, name, text in normal if key not in _NOT_KEPT}
     package = by_key.get("package") or by_key.get("footprint")
     kind = infer_kind(ref, value, part_number, by_key.get("description"), package,
                       leaf.cell.name.display)
@@ -147,7 +161,7 @@ def _part(leaf: Leaf, ref: str, flat: FlatDesign, net_names: dict[tuple, str], d
     if problem:
         raise doc.error(leaf.instance.form, f"{ref}: {problem}")
     return Part(ref=ref, kind=kind, value=value, pins=tuple(pins),
-                location=_location(doc, leaf.instance.form), value_si=ohms,
+                location=location, value_si=ohms,
                 path="/".join(leaf.names), cell=leaf.cell.name.display,
                 part_number=part_number, properties=properties)
 
@@ -191,13 +205,15 @@ def _nets(parts: dict[str, Part], chosen: dict[tuple, NetWire], names: dict[tupl
         if chosen[root] is not wire and wire.full_name not in aliases.setdefault(root, []):
             aliases[root].append(wire.full_name)
     nets: dict[str, Net] = {}
-    for root, wire in sorted(chosen.items(), key=lambda item: item[1].order):
+    ordered = sorted(chosen.items(), key=lambda item: item[1].order)
+    places = _locations(doc, [wire.net.form for _, wire in ordered])
+    for (root, wire), place in zip(ordered, places):
         name = names[root]
         pins = joined[name]
         if len(pins) + outside[name] < 2:
             what = f"only one pin ({pins[0][0]}.{pins[0][1]})" if pins else "no pin"
             raise doc.error(wire.net.form, f"net '{name}' joins {what}; a net must join "
                                            "at least two pins")
-        nets[name] = Net(name, tuple(pins), _location(doc, wire.net.form),
+        nets[name] = Net(name, tuple(pins), place,
                          tuple(aliases.get(root, ())))
     return nets

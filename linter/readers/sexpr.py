@@ -35,9 +35,12 @@ from __future__ import annotations
 
 import gc
 import re
+from array import array
 from bisect import bisect_right
 from contextlib import contextmanager
-from typing import Iterator
+from itertools import accumulate, chain, compress
+from operator import methodcaller
+from typing import Iterable, Iterator, Sequence
 
 from sexpdata import Symbol
 
@@ -56,9 +59,15 @@ _TOKEN = re.compile(rf'[{_WS}]*+([()]|"[^"]*+"|[^{_WS}()"]++|")')
 quote (a string that never closes). Every character is either whitespace or in a token."""
 _LOCATED_TOKEN = re.compile(rf'[{_WS}]*+(?:([()]|"[^"]*+"|[^{_WS}()"]++)|("))')
 _LINE_END = re.compile(r"\r\n?|\n")
-_OPEN_OR_STRING = re.compile(r'"[^"]*+"|\(')
-"""A whole string or a ``(``: scanning left to right, the ``(`` found are those outside strings
-(linear: a search never starts inside a string, so a long string or tail is crossed once)."""
+_UP_TO_OPEN = re.compile(r'(?:[^("]++|"[^"]*+")*+\(?')
+"""Text up to and including the next ``(`` outside strings (or to the end of the text): in a
+text whose strings are all closed, successive matches cover it end to end."""
+_ENDS_WITH_OPEN = methodcaller("endswith", "(")
+_CHUNK = 1 << 20
+"""Characters tokenized at a time (about): the token strings of a whole 30 MB netlist would
+cost more memory than its tree."""
+_SEARCHES = 8
+"""Single :meth:`Document.offset_of` lookups made by search before an index of every list is built."""
 _INT = re.compile(r"[+-]?[0-9]+")
 _FLOAT = re.compile(r"[+-]?(?:[0-9]+\.[0-9]*|\.[0-9]+|[0-9]+)(?:[eE][+-]?[0-9]+)?")
 _NUMBER_START = frozenset("0123456789+-.")
@@ -102,19 +111,58 @@ class Document:
         self.root = root
         self._lists = lists  # every list, in the order of its "(" in the text
         self._ordinal: dict[int, int] | None = None
-        self._open_offsets: list[int] | None = None
+        self._open_offsets: array | None = None
         self._line_starts: list[int] | None = None
+        self._single_lookups = 0
 
     def offset_of(self, node: list) -> int:
-        """Character offset of the ``(`` that opens ``node`` (a list of this document)."""
-        if self._ordinal is None:
+        """Character offset of the ``(`` that opens ``node`` (a list of this document).
+
+        The first few lookups search the lists in order; after :data:`_SEARCHES` of them an
+        index of every list is built (for many lists at once, :meth:`offsets_of` is cheaper).
+        """
+        if self._ordinal is None and self._single_lookups >= _SEARCHES:
             self._ordinal = {id(item): index for index, item in enumerate(self._lists)}
-            self._open_offsets = [match.start() for match in _OPEN_OR_STRING.finditer(self.text)
-                                  if match.group() == "("]
-        try:
-            return self._open_offsets[self._ordinal[id(node)]]  # type: ignore[index]
-        except KeyError:
-            raise ValueError("node is not a list of this document") from None
+        self._single_lookups += 1
+        if self._ordinal is not None:
+            ordinal = self._ordinal.get(id(node))
+        else:
+            ordinal = next((index for index, item in enumerate(self._lists) if item is node), None)
+        if ordinal is None:
+            raise ValueError("node is not a list of this document")
+        return self._opens()[ordinal] - 1
+
+    def offsets_of(self, nodes: Sequence[list]) -> list[int]:
+        """Character offsets of the ``(`` of many lists of this document, in one pass."""
+        wanted: dict[int, int | None] = dict.fromkeys(map(id, nodes))  # a form may be placed twice
+        every = list(map(id, self._lists))
+        for ordinal in compress(range(len(every)), map(wanted.__contains__, every)):
+            wanted[every[ordinal]] = ordinal
+        if None in wanted.values():
+            raise ValueError("node is not a list of this document")
+        ends = self._opens()
+        return [ends[wanted[id(node)]] - 1 for node in nodes]  # type: ignore[index]
+
+    def positions_of(self, nodes: Sequence[list]) -> list[tuple[int, int]]:
+        """1-based (line, column) of the ``(`` of many lists of this document, in one pass."""
+        return [self.position(offset) for offset in self.offsets_of(nodes)]
+
+    def _opens(self) -> array:
+        """The offset just after every ``(`` outside strings, in text order (computed once).
+
+        The matches of :data:`_UP_TO_OPEN` cover each chunk of the text end to end, each but
+        the last ending just after one such ``(``: the running sum of their lengths gives the
+        offsets without a Python step per parenthesis.
+        """
+        if self._open_offsets is None:
+            ends = array("q")  # the offset just after each "("
+            for start, end in _chunks(self.text):
+                segments = _UP_TO_OPEN.findall(self.text, start, end)
+                after = accumulate(map(len, segments), initial=start)
+                next(after)
+                ends.extend(compress(after, map(_ENDS_WITH_OPEN, segments)))
+            self._open_offsets = ends
+        return self._open_offsets
 
     def position(self, offset: int) -> tuple[int, int]:
         """1-based (line, column) of a character offset; columns count characters."""
@@ -150,7 +198,7 @@ def parse(text: str, source: str) -> Document:
     """
     try:
         with paused_gc():
-            top, lists = _build(_TOKEN.findall(text))
+            top, lists = _build(_tokens(text))
     except _SyntaxProblem:
         _raise_located(text, source)
         raise AssertionError("the located parser accepted what the fast parser refused") from None
@@ -159,6 +207,29 @@ def parse(text: str, source: str) -> Document:
         _raise_located(text, source)
     doc.root = top[0]
     return doc
+
+
+def _chunks(text: str, size: int = _CHUNK) -> Iterator[tuple[int, int]]:
+    """(start, end) pieces of ``text`` that together cover it, each ending just after a line end
+    outside strings (or at the end of the text), so that no token crosses a boundary.
+
+    Strings have no escapes, so an odd number of quotes in a piece means its end is inside a
+    string: the piece is then carried on past the string's closing quote.
+    """
+    start, length = 0, len(text)
+    while start < length:
+        end = text.find("\n", start + size)
+        end = length if end < 0 else end + 1
+        if text.count('"', start, end) % 2:
+            close = text.find('"', end)
+            end = length if close < 0 else close + 1
+        yield start, end
+        start = end
+
+
+def _tokens(text: str) -> Iterable[str]:
+    """Every token of ``text`` in order, tokenized one chunk at a time (see :func:`_chunks`)."""
+    return chain.from_iterable(_TOKEN.findall(text, start, end) for start, end in _chunks(text))
 
 
 def _atom(token: str) -> object:
@@ -172,7 +243,7 @@ def _atom(token: str) -> object:
     return Symbol(token)
 
 
-def _build(tokens: list[str]) -> tuple[list, list[list]]:
+def _build(tokens: Iterable[str]) -> tuple[list, list[list]]:
     """The tree from the token list; raises _SyntaxProblem without saying where."""
     top: list = []
     current = top
