@@ -142,14 +142,19 @@ def keyword(form: object) -> str:
     return ""
 
 
-def _children(form: list, *keywords: str) -> Iterator[list]:
-    for item in form:
-        if isinstance(item, list) and keyword(item) in keywords:
-            yield item
+def _children(form: list, *keywords: str) -> list[list]:
+    """The sub-forms of ``form`` whose keyword (any case) is one of ``keywords``, in order."""
+    return [item for item in form if isinstance(item, list) and item
+            and isinstance(item[0], Symbol) and item[0].lower() in keywords]
 
 
 def _child(form: list, kw: str) -> list | None:
-    return next(_children(form, kw), None)
+    """The first sub-form of ``form`` whose keyword is ``kw``, or None."""
+    for item in form:
+        if isinstance(item, list) and item and isinstance(item[0], Symbol) \
+                and item[0].lower() == kw:
+            return item
+    return None
 
 
 class FormReader:
@@ -157,6 +162,7 @@ class FormReader:
 
     def __init__(self, doc: Document) -> None:
         self.doc = doc
+        self._names: dict[str, Name] = {}  # plain identifier -> its Name (shared, frozen)
 
     def fail(self, form: list, message: str) -> None:
         raise self.doc.error(form, message)
@@ -168,6 +174,8 @@ class FormReader:
 
     def string(self, token: object, form: list) -> str:
         """A stringToken: "text" or (stringDisplay "text" ...), with %n% escapes decoded."""
+        if type(token) is str and "%" not in token:  # the common case: a plain string
+            return token
         if keyword(token) == "stringdisplay":
             token = self.arg(token, 1, "a string")  # type: ignore[arg-type]
         if not isinstance(token, str) or isinstance(token, Symbol):
@@ -175,6 +183,8 @@ class FormReader:
         return _ESCAPE.sub(lambda m: "".join(chr(int(n)) for n in m.group(1).split()), token)
 
     def identifier(self, token: object, form: list) -> Symbol:
+        if type(token) is Symbol:
+            return token
         if keyword(token) == "name":  # (name identifier (display ...))
             token = self.arg(token, 1, "an identifier")  # type: ignore[arg-type]
         if not isinstance(token, Symbol):
@@ -183,6 +193,12 @@ class FormReader:
 
     def name_def(self, token: object, form: list) -> Name:
         """A nameDef: identifier, (name ...), (rename identifier "display"), or (array nameDef n...)."""
+        if type(token) is Symbol:
+            found = self._names.get(token)
+            if found is None:
+                display = token[1:] if token.startswith("&") else str(token)
+                found = self._names[token] = Name(token.casefold(), display)
+            return found
         kw = keyword(token)
         if kw == "array":
             inner = self.name_def(self.arg(token, 1, "a name"), token)  # type: ignore[arg-type]

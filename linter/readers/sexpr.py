@@ -268,10 +268,13 @@ def _build(tokens: Iterable[str]) -> tuple[list, list[list]]:
             if not stack:
                 raise _SyntaxProblem
             current = pop()
-        elif first == '"':
-            if len(token) == 1:
-                raise _SyntaxProblem
-            current.append(token[1:-1])
+        elif first == '"':  # strings are shared too: values and part numbers repeat
+            value = known(token)
+            if value is None:
+                if len(token) == 1:
+                    raise _SyntaxProblem
+                value = atoms[token] = token[1:-1]
+            current.append(value)
         else:
             value = known(token)
             if value is None:
