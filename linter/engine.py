@@ -27,6 +27,7 @@ from linter.bom_join import BomDiscrepancy, apply_bom
 from linter.config import Settings, check_rule_settings, load_settings
 from linter.context import AnalysisContext
 from linter.findings import Finding
+from linter.gc_pause import paused_gc
 from linter.model import Circuit
 from linter.partdata import PartData, Rail
 from linter.parts import resolve_part_data
@@ -92,14 +93,15 @@ def load_inputs(request: CheckRequest, registry: Mapping[str, Any] | None = None
     opaque = frozenset(number for number, spec in settings.parts.items() if spec.kind == "mcu")
     bom: Bom | None = None
     discrepancies: tuple[BomDiscrepancy, ...] = ()
-    with limits.applied(limits.effective(settings.limits)):
-        circuit = read_netlist(request.netlist, source=str(request.netlist), opaque=opaque)
-        if request.bom is not None:
-            bom = read_bom(request.bom)
-    if bom is not None:
-        circuit, discrepancies = apply_bom(circuit, bom)
-    circuit, part_data = resolve_part_data(circuit, settings)
-    rails = resolve_rails(circuit, settings)
+    with paused_gc():  # a large netlist is millions of acyclic records; see linter.gc_pause
+        with limits.applied(limits.effective(settings.limits)):
+            circuit = read_netlist(request.netlist, source=str(request.netlist), opaque=opaque)
+            if request.bom is not None:
+                bom = read_bom(request.bom)
+        if bom is not None:
+            circuit, discrepancies = apply_bom(circuit, bom)
+        circuit, part_data = resolve_part_data(circuit, settings)
+        rails = resolve_rails(circuit, settings)
     return AnalysisContext(circuit=circuit, settings=settings, rails=rails, part_data=part_data,
                            bom=bom, bom_discrepancies=discrepancies)
 

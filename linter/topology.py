@@ -34,6 +34,7 @@ from __future__ import annotations
 
 from typing import Mapping
 
+from linter.gc_pause import paused_gc
 from linter.groups import Group, Scenario
 from linter.model import Circuit
 from linter.partdata import PartData, Rail
@@ -70,6 +71,12 @@ def find_groups(circuit: Circuit, rails: Mapping[str, Rail],
     Walks only from LEDs and stops at rails and pins, so the cost follows the parts near
     LEDs, not the size of the board.
     """
+    with paused_gc():  # many small acyclic records; see linter.gc_pause
+        return _groups(circuit, rails, part_data)
+
+
+def _groups(circuit: Circuit, rails: Mapping[str, Rail],
+            part_data: Mapping[str, PartData]) -> tuple[Group, ...]:
     index = CircuitIndex(circuit, rails, part_data)
     order = {ref: position for position, ref in enumerate(circuit.parts)}
     placed: set[str] = set()
