@@ -33,9 +33,11 @@ Nesting deeper than :data:`MAX_DEPTH` is refused with a located error.
 
 from __future__ import annotations
 
+import gc
 import re
 from array import array
 from bisect import bisect_right
+from contextlib import contextmanager
 from itertools import accumulate, chain, compress
 from operator import methodcaller
 from typing import Iterable, Iterator, Sequence
@@ -43,7 +45,6 @@ from typing import Iterable, Iterator, Sequence
 from sexpdata import Symbol
 
 from linter.errors import NetlistError
-from linter.gc_pause import paused_gc  # the trees hold no reference cycles; see there
 from linter.limits import active
 
 __all__ = ["MAX_DEPTH", "Document", "parse", "paused_gc", "Symbol"]
@@ -57,7 +58,7 @@ _TOKEN = re.compile(rf'[{_WS}]*+([()]|"[^"]*+"|[^{_WS}()"]++|")')
 """One token per match: a parenthesis, a whole string with its quotes, an atom, or a lone
 quote (a string that never closes). Every character is either whitespace or in a token."""
 _LOCATED_TOKEN = re.compile(rf'[{_WS}]*+(?:([()]|"[^"]*+"|[^{_WS}()"]++)|("))')
-_LINE_END = re.compile(r"\r\n?|\n")
+_CR_OR_STRING = re.compile(r'"[^"]*+"|\r')
 _UP_TO_OPEN = re.compile(r'(?:[^("]++|"[^"]*+")*+\(?')
 """Text up to and including the next ``(`` outside strings (or to the end of the text): in a
 text whose strings are all closed, successive matches cover it end to end."""
@@ -71,6 +72,22 @@ _INT = re.compile(r"[+-]?[0-9]+")
 _FLOAT = re.compile(r"[+-]?(?:[0-9]+\.[0-9]*|\.[0-9]+|[0-9]+)(?:[eE][+-]?[0-9]+)?")
 _NUMBER_START = frozenset("0123456789+-.")
 _MAX_INT_DIGITS = 4000  # below Python's int/str conversion limit (4300 digits)
+
+
+@contextmanager
+def paused_gc() -> Iterator[None]:
+    """Pause the cyclic garbage collector while building a large tree, then restore it.
+
+    The trees hold no reference cycles; without the pause, each generation-2 collection
+    re-walks every list built so far, which makes building a big netlist's records quadratic-ish.
+    """
+    collecting = gc.isenabled()
+    gc.disable()
+    try:
+        yield
+    finally:
+        if collecting:
+            gc.enable()
 
 
 class _SyntaxProblem(Exception):
@@ -150,8 +167,14 @@ class Document:
     def position(self, offset: int) -> tuple[int, int]:
         """1-based (line, column) of a character offset; columns count characters."""
         if self._line_starts is None:
-            # LF, CRLF and a lone CR each end a line
-            self._line_starts = [0, *(match.end() for match in _LINE_END.finditer(self.text))]
+            # LF ends a line (CRLF too: the CR is the line's last character); in a text
+            # without any LF (an old-Mac file) a CR outside strings ends a line
+            if "\n" in self.text or "\r" not in self.text:
+                ends = (match.end() for match in re.finditer("\n", self.text))
+            else:
+                ends = (match.end() for match in _CR_OR_STRING.finditer(self.text)
+                        if match.group() == "\r")
+            self._line_starts = [0, *ends]
         line = bisect_right(self._line_starts, offset)
         return line, offset - self._line_starts[line - 1] + 1
 
