@@ -33,11 +33,9 @@ Nesting deeper than :data:`MAX_DEPTH` is refused with a located error.
 
 from __future__ import annotations
 
-import gc
 import re
 from array import array
 from bisect import bisect_right
-from contextlib import contextmanager
 from itertools import accumulate, chain, compress
 from operator import methodcaller
 from typing import Iterable, Iterator, Sequence
@@ -45,6 +43,7 @@ from typing import Iterable, Iterator, Sequence
 from sexpdata import Symbol
 
 from linter.errors import NetlistError
+from linter.gc_pause import paused_gc  # the trees hold no reference cycles; see there
 from linter.limits import active
 
 __all__ = ["MAX_DEPTH", "Document", "parse", "paused_gc", "Symbol"]
@@ -72,22 +71,6 @@ _INT = re.compile(r"[+-]?[0-9]+")
 _FLOAT = re.compile(r"[+-]?(?:[0-9]+\.[0-9]*|\.[0-9]+|[0-9]+)(?:[eE][+-]?[0-9]+)?")
 _NUMBER_START = frozenset("0123456789+-.")
 _MAX_INT_DIGITS = 4000  # below Python's int/str conversion limit (4300 digits)
-
-
-@contextmanager
-def paused_gc() -> Iterator[None]:
-    """Pause the cyclic garbage collector while building a large tree, then restore it.
-
-    The trees hold no reference cycles; without the pause, each generation-2 collection
-    re-walks every list built so far, which makes building a big netlist's records quadratic-ish.
-    """
-    collecting = gc.isenabled()
-    gc.disable()
-    try:
-        yield
-    finally:
-        if collecting:
-            gc.enable()
 
 
 class _SyntaxProblem(Exception):
