@@ -44,19 +44,23 @@ class _Stages:
         self.stop_after = stop_after
         self.parts = 0
 
-    def run(self, name: str, call: Callable):
+    def run(self, name: str, call: Callable, count: bool = False):
+        """``call()``, timed; ``count`` takes its result's part count (a Circuit)."""
         on = self.profiler is not None and (self.profiled is None or name in self.profiled)
         started = time.perf_counter()
         if on:
             self.profiler.enable()
         try:
-            return call()
+            result = call()
         finally:
             if on:
                 self.profiler.disable()
             self.times[name] = time.perf_counter() - started
-            if name == self.stop_after:
-                raise _Stop
+        if count:
+            self.parts = len(result.parts)
+        if name == self.stop_after:
+            raise _Stop
+        return result
 
 
 def _pipeline(netlist: Path, bom_path: Path | None, stages: _Stages) -> None:
@@ -66,6 +70,7 @@ def _pipeline(netlist: Path, bom_path: Path | None, stages: _Stages) -> None:
     from linter.config import check_rule_settings, load_settings
     from linter.context import AnalysisContext
     from linter.engine import CheckRequest, CheckResult, run_rules
+    from linter.gc_pause import paused_gc
     from linter.parts import resolve_part_data
     from linter.rails import resolve_rails
     from linter.readers import read_netlist
@@ -76,15 +81,16 @@ def _pipeline(netlist: Path, bom_path: Path | None, stages: _Stages) -> None:
     settings = stages.run("settings", lambda: check_rule_settings(
         load_settings(netlist, None, ()), registry))
     opaque = frozenset(n for n, spec in settings.parts.items() if spec.kind == "mcu")
-    with limits.applied(limits.effective(settings.limits)):
-        circuit = stages.run("read", lambda: read_netlist(netlist, str(netlist), opaque=opaque))
-        stages.parts = len(circuit.parts)
-        bom = stages.run("bom", lambda: read_bom(bom_path)) if bom_path else None
-    discrepancies = ()
-    if bom is not None:
-        circuit, discrepancies = stages.run("bom join", lambda: apply_bom(circuit, bom))
-    circuit, part_data = stages.run("part data", lambda: resolve_part_data(circuit, settings))
-    rails = stages.run("rails", lambda: resolve_rails(circuit, settings))
+    with paused_gc():  # as linter.engine.load_inputs does
+        with limits.applied(limits.effective(settings.limits)):
+            circuit = stages.run("read", lambda: read_netlist(netlist, str(netlist),
+                                                              opaque=opaque), count=True)
+            bom = stages.run("bom", lambda: read_bom(bom_path)) if bom_path else None
+        discrepancies = ()
+        if bom is not None:
+            circuit, discrepancies = stages.run("bom join", lambda: apply_bom(circuit, bom))
+        circuit, part_data = stages.run("part data", lambda: resolve_part_data(circuit, settings))
+        rails = stages.run("rails", lambda: resolve_rails(circuit, settings))
     context = AnalysisContext(circuit=circuit, settings=settings, rails=rails,
                               part_data=part_data, bom=bom, bom_discrepancies=discrepancies)
     _analyse(context, stages, registry, CheckRequest(netlist, bom_path), CheckResult, run_rules)
