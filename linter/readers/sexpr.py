@@ -221,6 +221,15 @@ def _tokens(text: str) -> Iterable[str]:
     return chain.from_iterable(_TOKEN.findall(text, start, end) for start, end in _chunks(text))
 
 
+def _value(token: str) -> object:
+    """The datum of a token other than a parenthesis: a string's text, or an atom."""
+    if token[0] == '"':
+        if len(token) == 1:  # a quote that never closes
+            raise _SyntaxProblem
+        return token[1:-1]
+    return _atom(token)
+
+
 def _atom(token: str) -> object:
     if token[0] in _NUMBER_START:
         if _INT.fullmatch(token):
@@ -244,8 +253,7 @@ def _build(tokens: Iterable[str]) -> tuple[list, list[list]]:
     known = atoms.get
     max_depth = active().max_nesting
     for token in tokens:
-        first = token[0]
-        if first == "(":
+        if token == "(":
             child: list = []
             current.append(child)
             push(current)
@@ -253,21 +261,14 @@ def _build(tokens: Iterable[str]) -> tuple[list, list[list]]:
             current = child
             if len(stack) > max_depth:
                 raise _SyntaxProblem
-        elif first == ")":
+        elif token == ")":
             if not stack:
                 raise _SyntaxProblem
             current = pop()
-        elif first == '"':  # strings are shared too: values and part numbers repeat
+        else:  # atoms and strings are shared: keywords, values and part numbers repeat
             value = known(token)
             if value is None:
-                if len(token) == 1:
-                    raise _SyntaxProblem
-                value = atoms[token] = token[1:-1]
-            current.append(value)
-        else:
-            value = known(token)
-            if value is None:
-                value = atoms[token] = _atom(token)
+                value = atoms[token] = _value(token)
             current.append(value)
     if stack:
         raise _SyntaxProblem
