@@ -101,12 +101,28 @@ def _add_instance(reader: FormReader, form: list, instances: dict[str, Instance]
     instances[instance.name.key] = instance
 
 
+def _sub_forms(form: list) -> tuple[list | None, list | None, list[list]]:
+    """The first ``viewRef`` and ``designator`` of an instance, and its ``property`` forms: one pass."""
+    view_ref = designator = None
+    properties: list[list] = []
+    for item in form:
+        if isinstance(item, list) and item and isinstance(item[0], Symbol):
+            kw = item[0].lower()
+            if kw == "property":
+                properties.append(item)
+            elif kw == "viewref":
+                view_ref = view_ref or item
+            elif kw == "designator":
+                designator = designator or item
+    return view_ref, designator, properties
+
+
 def read_instance(reader: FormReader, form: list) -> Instance:
     name_token = reader.arg(form, 1, "a name")
     if keyword(name_token) == "array":
         reader.fail(form, "instance arrays are not supported")
     name = reader.name_def(name_token, form)
-    view_ref = _child(form, "viewref")
+    view_ref, designator_form, property_forms = _sub_forms(form)
     if view_ref is None:
         what = "viewList" if _child(form, "viewlist") is not None else "no viewRef"
         reader.fail(form, f"instance '{name.display}': {what} is not supported; expected "
@@ -120,11 +136,11 @@ def read_instance(reader: FormReader, form: list) -> Instance:
     library = None
     if library_ref is not None:
         library = reader.name_ref(reader.arg(library_ref, 1, "a library name"), library_ref)
-    designator_form = _child(form, "designator")
     designator = None
     if designator_form is not None:
         designator = reader.string(reader.arg(designator_form, 1, "a string"), designator_form)
-    return Instance(name, library, cell, view, designator, reader.properties(form), form)
+    return Instance(name, library, cell, view, designator, reader.property_forms(property_forms),
+                    form)
 
 
 def read_net(reader: FormReader, form: list) -> Net:
@@ -153,6 +169,13 @@ def _port_list_entry(reader: FormReader, entry: object, port_list: list) -> Port
 
 
 def read_port_ref(reader: FormReader, form: list) -> PortRef:
+    if len(form) == 2 and type(form[1]) is Symbol:  # (portRef P): a port of the cell itself
+        return PortRef(str(form[1]), None, None, form)
+    if len(form) == 3 and type(form[1]) is Symbol:  # the common (portRef P (instanceRef I))
+        ref = form[2]
+        if type(ref) is list and len(ref) == 2 and type(ref[0]) is Symbol \
+                and type(ref[1]) is Symbol and ref[0].lower() == "instanceref":
+            return PortRef(str(form[1]), None, str(ref[1]), form)
     port, member = _port_name_ref(reader, reader.arg(form, 1, "a port name"), form)
     instance_ref = _child(form, "instanceref")
     instance = None

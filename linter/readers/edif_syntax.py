@@ -43,13 +43,13 @@ class Name:
         return prod(self.dims) if self.dims else 1
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Port:
     name: Name
     form: list = field(repr=False)
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class PortRef:
     """A reference to a port (of the cell itself when ``instance`` is None), or one member.
 
@@ -62,7 +62,7 @@ class PortRef:
     form: list = field(repr=False)
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Net:
     """A net (or net array); ``joined`` entries are port references or port lists."""
 
@@ -71,7 +71,7 @@ class Net:
     form: list = field(repr=False)
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Instance:
     """A placed cell view; ``library``, ``cell``, ``view`` are identifiers as written."""
 
@@ -254,8 +254,12 @@ class FormReader:
 
     def properties(self, form: list) -> dict[str, str]:
         """Properties of a form by display name; values as text (see :meth:`typed_value`)."""
+        return self.property_forms(_children(form, "property"))
+
+    def property_forms(self, forms: list[list]) -> dict[str, str]:
+        """Properties from their ``property`` forms, as :meth:`properties` gives them."""
         found: dict[str, str] = {}
-        for prop in _children(form, "property"):
+        for prop in forms:
             name = self.name_def(self.arg(prop, 1, "a name"), prop)
             value = self.typed_value(self.arg(prop, 2, "a value"), prop)  # type: ignore[arg-type]
             if value is not None:
