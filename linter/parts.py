@@ -27,7 +27,7 @@ from linter.units import ValueParseError, format_si, parse_fraction, parse_numbe
 if TYPE_CHECKING:
     from linter.config import Settings
 
-__all__ = ["resolve_part_data", "find_spec", "led_data", "resistor_data", "SPICE_TNOM_K",
+__all__ = ["resolve_part_data", "find_spec", "folded_specs", "led_data", "resistor_data", "SPICE_TNOM_K",
            "describe_assumptions", "MCU_SUPPLY_PINS", "MCU_GROUND_PINS"]
 
 SPICE_TNOM_K = 300.15
@@ -37,9 +37,14 @@ MCU_SUPPLY_PINS = ("VDD", "VCC", "AVDD", "VDDA", "DVDD")
 MCU_GROUND_PINS = ("VSS", "GND", "AVSS", "VSSA", "DVSS")
 
 
-def find_spec(part: Part, specs: Mapping[str, PartSpec]) -> PartSpec | None:
-    """The part data of ``part``: by part number, then value, then model name (any case)."""
-    folded = {number.casefold(): spec for number, spec in specs.items()}
+def find_spec(part: Part, specs: Mapping[str, PartSpec],
+              folded: Mapping[str, PartSpec] | None = None) -> PartSpec | None:
+    """The part data of ``part``: by part number, then value, then model name (any case).
+
+    ``folded`` is :func:`folded_specs` of ``specs`` when the caller looks up many parts.
+    """
+    if folded is None:
+        folded = folded_specs(specs)
     model = part.model.name if part.model is not None else None
     for key in (part.part_number, part.value, model):
         if key and key.casefold() in folded:
@@ -47,15 +52,23 @@ def find_spec(part: Part, specs: Mapping[str, PartSpec]) -> PartSpec | None:
     return None
 
 
+def folded_specs(specs: Mapping[str, PartSpec]) -> dict[str, PartSpec]:
+    """Part data by case-folded part number (the look-up table :func:`find_spec` uses)."""
+    return {number.casefold(): spec for number, spec in specs.items()}
+
+
 def resolve_part_data(circuit: Circuit, settings: "Settings") -> tuple[Circuit, dict[str, PartData]]:
     """A Circuit with kinds and part numbers from part data applied, and part data by ref."""
     parts = dict(circuit.parts)
     data: dict[str, PartData] = {}
+    folded = folded_specs(settings.parts)
     for ref, part in circuit.parts.items():
-        spec = find_spec(part, settings.parts)
+        spec = find_spec(part, settings.parts, folded)
         if spec is not None:
-            part = replace(part, kind=spec.kind, part_number=part.part_number or spec.part_number)
-            parts[ref] = part
+            number = part.part_number or spec.part_number
+            if part.kind != spec.kind or part.part_number != number:
+                part = replace(part, kind=spec.kind, part_number=number)
+                parts[ref] = part
         record = _record(part, spec, settings)
         if record is not None:
             data[ref] = record
