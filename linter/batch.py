@@ -27,7 +27,9 @@ one-line located error instead of a result, and the run's report says it is inco
 
 from __future__ import annotations
 
+import gc
 import os
+import pickle
 from concurrent.futures import ProcessPoolExecutor
 from dataclasses import dataclass
 from pathlib import Path
@@ -189,24 +191,71 @@ def check_board(task: BoardTask) -> BoardOutcome:
                             error_file=str(task.netlist))
 
 
+WORKER_THREAD_VARIABLES = ("OPENBLAS_NUM_THREADS", "OMP_NUM_THREADS", "MKL_NUM_THREADS")
+"""Set to 1 in each pool worker (unless the user set them): one process per board already
+fills the CPUs, and each worker's BLAS threads would compete for the same CPUs (common
+practice for process pools over numpy)."""
+
+
+def _worker_start() -> None:
+    """Pool initializer: one BLAS thread per worker.
+
+    It takes effect when numpy is first imported in the worker, which is the case under the
+    CLI (the parent process never imports numpy before the pool starts). A caller that has
+    imported numpy already passes its BLAS threads on to the forked workers.
+    """
+    for name in WORKER_THREAD_VARIABLES:
+        os.environ.setdefault(name, "1")
+
+
+def _check_board_packed(task: BoardTask) -> bytes:
+    """:func:`check_board` in a pool worker, the outcome pickled here (sent as bytes)."""
+    return pickle.dumps(check_board(task), protocol=pickle.HIGHEST_PROTOCOL)
+
+
+def _unpack(data: bytes) -> BoardOutcome:
+    """A worker's outcome, unpickled with the garbage collector paused.
+
+    A 2k-part board's result is a few hundred thousand small objects; with the collector on,
+    loading twenty of them took seven times as long as with it paused (measured while
+    writing bench/jobs.py), which undid the pool's gain.
+    """
+    enabled = gc.isenabled()
+    gc.disable()
+    try:
+        return pickle.loads(data)
+    finally:
+        if enabled:
+            gc.enable()
+
+
+def _pooled(tasks: Sequence[BoardTask], jobs: int) -> Iterator[tuple[int, BoardOutcome]]:
+    """(index, outcome) as the pool delivers them; an interruption cancels what has not started."""
+    from concurrent.futures import as_completed
+    from concurrent.futures.process import BrokenProcessPool
+
+    pool = ProcessPoolExecutor(max_workers=min(jobs, len(tasks)), initializer=_worker_start)
+    try:
+        futures = {pool.submit(_check_board_packed, task): index
+                   for index, task in enumerate(tasks)}
+        for future in as_completed(futures):
+            try:
+                outcome = _unpack(future.result())
+            except BrokenProcessPool:
+                raise LedlintError("ledlint check: a worker process ended abruptly (out of "
+                                   "memory?); try fewer --jobs") from None
+            yield futures[future], outcome
+    finally:
+        pool.shutdown(wait=True, cancel_futures=True)
+
+
 def _outcomes(tasks: Sequence[BoardTask], jobs: int) -> Iterator[tuple[int, BoardOutcome]]:
     """(index, outcome) as each board finishes: in order on one job, else as the pool delivers."""
     if jobs <= 1 or len(tasks) <= 1:
         for index, task in enumerate(tasks):
             yield index, check_board(task)
         return
-    from concurrent.futures import as_completed
-    from concurrent.futures.process import BrokenProcessPool
-
-    with ProcessPoolExecutor(max_workers=min(jobs, len(tasks))) as pool:
-        futures = {pool.submit(check_board, task): index for index, task in enumerate(tasks)}
-        for future in as_completed(futures):
-            try:
-                outcome = future.result()
-            except BrokenProcessPool:
-                raise LedlintError("ledlint check: a worker process ended abruptly (out of "
-                                 "memory?); try fewer --jobs") from None
-            yield futures[future], outcome
+    yield from _pooled(tasks, jobs)
 
 
 def run_boards(tasks: Sequence[BoardTask], jobs: int = 1,
