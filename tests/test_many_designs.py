@@ -322,3 +322,9 @@ def test_output_may_not_be_a_bom_found_beside_a_netlist(capsys) -> None:
     code, out, err = _run(["check", str(BOARDS), "-o", str(bom)], capsys)
     assert code == EXIT_BAD_INPUT and "is a BOM found beside a netlist" in err
     assert bom.read_bytes() == before
+
+
+def test_quiet_prints_nothing_for_clean_boards(tmp_path: Path, capsys) -> None:
+    for name in ("north", "south"):  # alpha is clean (no finding at all) with its BOM
+        shutil.copytree(BOARDS / "alpha", tmp_path / name)
+    assert _run(["check", str(tmp_path), "-q", "--fail-on", "info"], capsys)[:2] == (EXIT_CLEAN, "")

@@ -83,7 +83,8 @@ def _render_text(outcomes: Sequence["BoardOutcome"], options: ReportOptions) -> 
             f"== [{number}/{len(outcomes)}] {outcome.task.netlist}; BOM: {_bom_words(outcome)}\n")
         body = (reporter.render(outcome.result) if outcome.readable
                 else f"could not be read: {outcome.error}\n")
-        sections.append(heading + body)
+        if heading or body:  # quiet: a board without findings adds nothing
+            sections.append(heading + body)
     tail = _total_line(outcomes)
     if options.quiet:
         tail = "".join(line + "\n" for line in tail.splitlines() if line.startswith("INCOMPLETE"))
