@@ -8,8 +8,9 @@ Discovery (:func:`find_netlists`)
     SPICE ``.cir .sp .spice .net .ckt .spi``), except a ``.net`` file whose text opens with a
     parenthesis but not ``(edif`` (another tool's S-expression netlist), plus any other file
     whose text opens with ``(edif``. Hidden folders and files (name starting with ``.``) and
-    virtualenvs (a folder holding ``pyvenv.cfg``) are skipped; symbolic links to folders are
-    not followed. A file named on the command line is always checked.
+    virtualenvs (a folder holding ``pyvenv.cfg``) are skipped, and so is anything that is not
+    a regular file (a named pipe would block the read); symbolic links to folders are not
+    followed. A file named on the command line is always checked.
 
 BOM (:func:`bom_beside`)
     With ``--bom`` (one netlist only) that file. Otherwise, for several boards, a BOM is taken
@@ -107,8 +108,8 @@ def find_netlists(folder: Path, recursive: bool = True) -> list[Path]:
     for top, folders, files in os.walk(folder, followlinks=False):
         here = Path(top)
         folders[:] = sorted(name for name in folders if not _skipped_folder(here / name))
-        found += [here / name for name in sorted(files)
-                  if not name.startswith(".") and looks_like_netlist(here / name)]
+        found += [here / name for name in sorted(files) if not name.startswith(".")
+                  and (here / name).is_file() and looks_like_netlist(here / name)]
         if not recursive:
             break
     return sorted(found, key=lambda path: path.parts)

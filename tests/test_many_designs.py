@@ -10,6 +10,7 @@ Expected exit codes are DESIGN.md's (0 clean, 1 findings at or above --fail-on, 
 from __future__ import annotations
 
 import json
+import os
 import pickle
 import shutil
 from pathlib import Path
@@ -328,3 +329,9 @@ def test_quiet_prints_nothing_for_clean_boards(tmp_path: Path, capsys) -> None:
     for name in ("north", "south"):  # alpha is clean (no finding at all) with its BOM
         shutil.copytree(BOARDS / "alpha", tmp_path / name)
     assert _run(["check", str(tmp_path), "-q", "--fail-on", "info"], capsys)[:2] == (EXIT_CLEAN, "")
+
+
+def test_a_named_pipe_below_the_folder_is_not_opened(tmp_path: Path) -> None:
+    shutil.copy(ALPHA, tmp_path / "lamp.cir")
+    os.mkfifo(tmp_path / "stream.cir")  # reading it would block until a writer comes
+    assert find_netlists(tmp_path) == [tmp_path / "lamp.cir"]
