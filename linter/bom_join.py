@@ -153,6 +153,8 @@ def values_agree(first: float, second: float) -> bool:
 
 def _value_matches(part: Part, line: BomLine) -> bool:
     assert line.value is not None and part.value is not None
+    if part.value_si is None and line.value == part.value:
+        return True  # one text read the same way on both sides: no need to read it
     netlist = _netlist_number(part)
     bom = _number(line.value, _UNIT_BY_KIND.get(part.kind))
     if netlist is not None and bom is not None:

@@ -58,13 +58,17 @@ PREFIXES: dict[str, float] = {
 _UNIT_ALIASES: dict[str, str] = {
     "": "", "ohm": "Ω", "ohms": "Ω", "Ω": "Ω", "Ω": "Ω", "r": "Ω",
     "v": "V", "a": "A", "w": "W", "f": "F", "h": "H", "hz": "Hz", "s": "s",
+    "v/k": "V/K",
 }
 """Unit spellings the fast path understands, mapped to the canonical symbol."""
 
 _NUMBER = r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?"
 _FAST = re.compile(
-    rf"^\s*(?P<num>{_NUMBER})\s*(?P<prefix>[pnuµμmkKMGT]?)\s*(?P<unit>[A-Za-zΩΩ]*)\s*$"
+    rf"^\s*(?P<num>{_NUMBER})\s*(?P<prefix>[pnuµμmkKMGT]?)\s*(?P<unit>[A-Za-zΩΩ]*(?:/[A-Za-z]+)?)\s*$"
 )
+_DIGIT = re.compile(r"[0-9]")
+"""Every spelling above has a digit: a text without one (a colour, a part number such as
+``RED``) is no number, and is refused without loading pint."""
 _RKM = re.compile(r"^\s*(?P<int>\d*)(?P<letter>[RKMGTrkmgtpnuµμ])(?P<frac>\d*)\s*(?P<unit>[A-Za-zΩΩ]*)\s*$")
 _RKM_LETTER: dict[str, float] = {"R": 1.0, "r": 1.0, "K": 1e3, "k": 1e3, "M": 1e6, "G": 1e9,
                                  "T": 1e12, "m": 1e-3, "u": 1e-6, "µ": 1e-6, "μ": 1e-6,
@@ -149,6 +153,8 @@ def _read_uncached(text: str, unit: str | None, expected: str) -> float:
     match = _FRACTION.match(text)
     if match and _unit_ok(match["unit"], unit) and int(match["den"]) != 0:
         return int(match["num"]) / int(match["den"])
+    if _DIGIT.search(text) is None:
+        raise ValueParseError(text, expected)
     return _parse_with_pint(text, unit, expected)
 
 
