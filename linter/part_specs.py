@@ -80,7 +80,7 @@ def _read_spec(doc: TomlDoc, path: tuple[str, ...], number: str, table: Any) -> 
     kind = table.get("kind")
     if kind is None:
         doc.fail(path, f"{table_name(path)} needs kind = one of {', '.join(SPEC_KINDS)}")
-    if kind not in PART_KEYS:
+    if not isinstance(kind, str) or kind not in PART_KEYS:
         doc.fail((*path, "kind"), f"unknown kind {kind!r} in {table_name(path)}"
                                   f"{suggestion(str(kind), SPEC_KINDS)}")
     units = PART_KEYS[kind]
