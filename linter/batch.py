@@ -28,7 +28,6 @@ one-line located error instead of a result, and the run's report says it is inco
 
 from __future__ import annotations
 
-import gc
 import os
 import pickle
 from concurrent.futures import ProcessPoolExecutor
@@ -215,19 +214,16 @@ def _check_board_packed(task: BoardTask) -> bytes:
 
 
 def _unpack(data: bytes) -> BoardOutcome:
-    """A worker's outcome, unpickled with the garbage collector paused.
+    """A worker's outcome, unpickled with the cyclic garbage collector paused.
 
     A 2k-part board's result is a few hundred thousand small objects; with the collector on,
     loading twenty of them took seven times as long as with it paused (measured while
     writing bench/jobs.py), which undid the pool's gain.
     """
-    enabled = gc.isenabled()
-    gc.disable()
-    try:
+    from linter.gc_pause import paused_gc
+
+    with paused_gc():
         return pickle.loads(data)
-    finally:
-        if enabled:
-            gc.enable()
 
 
 def _pooled(tasks: Sequence[BoardTask], jobs: int) -> Iterator[tuple[int, BoardOutcome]]:
