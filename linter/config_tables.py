@@ -104,11 +104,21 @@ def _limits(doc: TomlDoc) -> dict[str, int]:
     return found
 
 
+_RAIL_LIMIT_V = 10_000.0
+"""Largest rail magnitude read (beyond any LED board; a rail of 1e308 V breaks the arithmetic)."""
+_AMBIENT_RANGE_C = (-100.0, 300.0)
+"""Ambient temperatures read, in degC (far outside any rating; -273 degC and below is no
+temperature)."""
+
+
 def _rails(doc: TomlDoc) -> dict[str, Rail]:
     rails: dict[str, Rail] = {}
     for name, value in doc.table(("rails",), doc.data.get("rails", {})).items():
         path = ("rails", name)
         nom, low, high = _rail_values(doc, path, value)
+        if max(abs(low), abs(high)) > _RAIL_LIMIT_V:
+            doc.fail(path, f"rail {name!r}: {max(abs(low), abs(high)):g} V is beyond "
+                           f"±{_RAIL_LIMIT_V:g} V")
         try:
             rails[name] = Rail(name, nom, low, high, inferred=False,
                                origin=f"settings {doc.source}:{doc.location(path).line}")
@@ -152,6 +162,9 @@ def _ambient(doc: TomlDoc) -> dict[str, tuple[float, SourceLocation]]:
             doc.fail(path, f"{key!r} in [ambient]: expected a temperature such as '40 degC'")
         try:
             found[key] = (parse_temperature(str(value)), doc.location(path))
+            if not _AMBIENT_RANGE_C[0] <= found[key][0] <= _AMBIENT_RANGE_C[1]:
+                doc.fail(path, f"{key!r} in [ambient]: {found[key][0]:g} degC lies outside "
+                               f"{_AMBIENT_RANGE_C[0]:g} to {_AMBIENT_RANGE_C[1]:g} degC")
         except ValueParseError as exc:
             doc.fail(path, f"{key!r} in [ambient]: {exc}")
     return found

@@ -103,4 +103,24 @@ def _read_figure(doc: TomlDoc, path: tuple[str, ...], value: Any, unit: str) -> 
             doc.fail(path, f"unknown colour {value!r} in {table_name(path[:-1])}"
                            f"{suggestion(str(value).casefold(), LED_COLORS)}")
         return color
-    return doc.quantity(path, value, unit)
+    number = doc.quantity(path, value, unit)
+    low, high, low_included = _RANGES.get(path[-1], _RANGES.get(unit, (0.0, 1e6, False)))
+    if not (low <= number <= high) or (number == low and not low_included):
+        bound = "from" if low_included else "above"
+        shown = "" if unit == "" else f" {unit}"
+        doc.fail(path, f"'{path[-1]}' in {table_name(path[:-1])}: must lie {bound} {low:g}{shown} "
+                       f"up to {high:g}{shown}, got {number:g}{shown}")
+    return number
+
+
+_RANGES: dict[str, tuple[float, float, bool]] = {
+    "V": (0.0, 1e4, False), "A": (0.0, 1e3, False), "W": (0.0, 1e4, False),
+    "Ω": (0.0, 1e12, False), "s": (0.0, 1e6, False), "%": (0.0, 1.0, False),
+    "": (0.0, 1e5, False), "V/K": (-0.05, 0.05, True),
+    "vgs_th": (-1e3, 1e3, True), "tolerance": (0.0, 1.0, True),
+}
+"""(lowest, highest, lowest allowed) of a figure, by key first, then by unit: physical
+figures are positive and below sizes no LED board reaches (a zero maximum power or a
+current of 1e308 A would only break the arithmetic); a gate threshold may be negative
+(P-channel) and a temperature coefficient lies within ±50 mV/K (LEDs: about -2 to -4 mV/K,
+from memory)."""
