@@ -9,7 +9,9 @@ order whatever the pool does); a difference is printed and the exit status is 1.
 
 The speed-up is the 1-job time over the N-job time, beside the ideal ``min(N, CPUs)`` and
 beside a floor measured in the same run: the speed-up of pure-Python work on a pool of N
-(:func:`floor_speedup`), the most this machine gives any pool at that moment.
+(:func:`floor_speedup`), the most this machine gives any pool at that moment. The CPU
+seconds of each run (the ledlint process and its pool workers) are printed too: their growth
+from 1 job to N is the pool's own cost, whatever else the machine is doing.
 Results go to ``bench/out/jobs/jobs.json`` (not tracked).
 
 Usage::
@@ -24,6 +26,7 @@ import argparse
 import json
 import os
 import platform
+import resource
 import sys
 import time
 from pathlib import Path
@@ -52,10 +55,17 @@ def boards(count: int, parts: int, name: str = "board.edif") -> list[Path]:
     return netlists
 
 
-def measure_jobs(netlists: Sequence[Path], jobs: int, runs: int) -> Measure:
-    """Time one check of every board; a report that is not every board's JSON is an error."""
+def measure_jobs(netlists: Sequence[Path], jobs: int, runs: int) -> tuple[Measure, float]:
+    """Time one check of every board; a report that is not every board's JSON is an error.
+
+    Also returns the CPU seconds (user + system) of one run: the ledlint process and its
+    pool workers, averaged over the warm-up and the timed runs.
+    """
     command = [str(LEDLINT), "check", *map(str, netlists), "--format", "json", "--jobs", str(jobs)]
+    before = resource.getrusage(resource.RUSAGE_CHILDREN)
     measure = run_command(f"jobs {jobs}", command, runs)
+    after = resource.getrusage(resource.RUSAGE_CHILDREN)
+    cpu = (after.ru_utime + after.ru_stime - before.ru_utime - before.ru_stime) / (runs + 1)
     if measure.error is None:
         try:
             report = json.loads(measure.output)
@@ -64,7 +74,7 @@ def measure_jobs(netlists: Sequence[Path], jobs: int, runs: int) -> Measure:
             read = -1
         if read != len(netlists) or not report.get("complete", True):
             measure.error = f"the report does not hold all {len(netlists)} boards"
-    return measure
+    return measure, cpu
 
 
 FLOOR_TASKS = 20
@@ -99,14 +109,14 @@ def floor_speedup(jobs: int) -> float:
     return serial / (time.perf_counter() - started)
 
 
-def _row(measure: Measure, base: float | None, jobs: int, floor: float) -> str:
+def _row(measure: Measure, base: float | None, jobs: int, floor: float, cpu: float) -> str:
     median = measure.median
     if median is None:
         return f"{measure.name:8} n/a ({measure.error})"
     ideal = min(jobs, os.cpu_count() or 1)
     speed = (f"{base / median:5.2f}x (ideal {ideal}x; pure-Python floor on a pool now "
              f"{floor:4.2f}x)" if base else "")
-    return f"{measure.name:8} {median:8.2f} s  {speed}"
+    return f"{measure.name:8} {median:8.2f} s  CPU {cpu:7.2f} s  {speed}"
 
 
 def main(argv: Sequence[str] | None = None) -> int:
@@ -122,11 +132,13 @@ def main(argv: Sequence[str] | None = None) -> int:
     netlists = boards(args.boards, args.parts, args.netlist)
     print(f"{len(netlists)} boards of {args.parts} parts; {os.cpu_count()} CPUs; "
           f"Python {platform.python_version()}")
-    measures = [measure_jobs(netlists, jobs, args.runs) for jobs in counts]
+    timed = [measure_jobs(netlists, jobs, args.runs) for jobs in counts]
+    measures = [measure for measure, _ in timed]
+    cpus = {jobs: cpu for jobs, (_, cpu) in zip(counts, timed)}
     base = measures[0].median if counts[0] == 1 else None
     floors = {jobs: floor_speedup(jobs) for jobs in counts}
     for jobs, measure in zip(counts, measures):
-        print(_row(measure, base, jobs, floors[jobs]))
+        print(_row(measure, base, jobs, floors[jobs], cpus[jobs]))
     outputs = {measure.output for measure in measures if measure.error is None}
     same = len(outputs) <= 1
     print("reports identical across job counts" if same else "REPORTS DIFFER across job counts")
@@ -135,6 +147,7 @@ def main(argv: Sequence[str] | None = None) -> int:
         "measures": {str(jobs): measure.as_json() for jobs, measure in zip(counts, measures)},
         "speedup": {str(jobs): (base / m.median if base and m.median else None)
                     for jobs, m in zip(counts, measures)},
+        "cpu_s": {str(jobs): cpus[jobs] for jobs in counts},
         "floor_speedup": {str(jobs): floors[jobs] for jobs in counts},
         "identical_reports": same}, indent=2) + "\n", "utf-8")
     return 0 if same else 1
