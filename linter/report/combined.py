@@ -88,7 +88,7 @@ def _render_text(outcomes: Sequence["BoardOutcome"], options: ReportOptions) -> 
     tail = _total_line(outcomes)
     if options.quiet:
         tail = "".join(line + "\n" for line in tail.splitlines() if line.startswith("INCOMPLETE"))
-    return "\n".join(sections) + ("\n" + tail if tail else "")
+    return "\n".join([*sections, tail] if tail else sections)
 
 
 def _unreadable_entry(outcome: "BoardOutcome") -> dict[str, Any]:
