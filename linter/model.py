@@ -84,7 +84,7 @@ class DeviceModel:
     location: SourceLocation | None = None
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Part:
     """A placed component.
 
@@ -141,7 +141,7 @@ class Part:
         return tuple(pin.net for pin in self.pins)
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Net:
     """A node: its display name, the (part ref, pin name) pairs it joins, where it was declared."""
 
