@@ -5,7 +5,7 @@ do: ``settings``, ``read`` (the netlist), ``bom`` (reading it), ``bom join``, ``
 ``rails``, ``topology``, ``analyse``, ``rules``, ``waivers`` and ``report`` (JSON text).
 ``--profile N`` adds a cProfile listing of the stages named by ``--stages`` (all by default);
 ``--stop-after STAGE`` ends early. The peak resident memory (``ru_maxrss``) is printed
-after the run, whole and per part.
+after each stage and after the run, whole and per part.
 
 Usage::
 
@@ -39,6 +39,7 @@ class _Stages:
 
     def __init__(self, profiled: set[str] | None, profile: bool, stop_after: str | None) -> None:
         self.times: dict[str, float] = {}
+        self.peaks: dict[str, int] = {}  # ru_maxrss (KiB) after each stage
         self.profiled = profiled
         self.profiler = cProfile.Profile() if profile else None
         self.stop_after = stop_after
@@ -56,6 +57,7 @@ class _Stages:
             if on:
                 self.profiler.disable()
             self.times[name] = time.perf_counter() - started
+            self.peaks[name] = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss
         if count:
             self.parts = len(result.parts)
         if name == self.stop_after:
@@ -142,7 +144,7 @@ def main(argv: Sequence[str] | None = None) -> int:
     parts = stages.parts
     total = time.perf_counter() - started
     for name, seconds in stages.times.items():
-        print(f"{name:14} {seconds:8.3f} s")
+        print(f"{name:14} {seconds:8.3f} s   peak so far {stages.peaks[name] / 1024:7.1f} MiB")
     print(f"{'total':14} {total:8.3f} s   ({parts} parts)")
     peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss
     print(f"{'peak memory':14} {peak / 1024:8.1f} MiB   ({peak / max(parts, 1):.2f} KiB a part)")
