@@ -29,7 +29,7 @@ from linter.errors import NetlistError
 from linter.kinds import infer_kind
 from linter.model import Circuit, Net, Part, Pin, SourceLocation
 from linter.readers.edif_flatten import FlatDesign, Leaf, NetWire, flatten
-from linter.readers.edif_syntax import member_display, read_edif_file
+from linter.readers.edif_syntax import View, member_display, read_edif_file
 from linter.readers.sexpr import Document, parse, paused_gc
 from linter.units import ValueParseError, parse_number
 
@@ -67,7 +67,7 @@ def read_edif(text: str, source: str) -> Circuit:
     NetlistError
         One line ``FILE:LINE:COLUMN: message`` for any text that cannot be read.
     """
-    if not text.strip():
+    if not text or text.isspace():
         raise NetlistError(source, 1, 1, "empty file; expected an EDIF netlist")
     with paused_gc():  # the records point into a large tree; see sexpr.paused_gc
         return _read(text, source)
@@ -80,7 +80,8 @@ def _read(text: str, source: str) -> Circuit:
     refs = _part_refs(flat.leaves, doc)
     net_names, chosen = _net_names(flat, doc)
     places = _locations(doc, [leaf.instance.form for leaf in flat.leaves])
-    parts = {ref: _part(leaf, ref, flat, net_names, doc, place)
+    ports: dict[int, list[tuple[str, int, str]]] = {}
+    parts = {ref: _part(leaf, ref, flat, net_names, doc, place, ports)
              for ref, leaf, place in zip(refs, flat.leaves, places)}
     nets = _nets(parts, chosen, net_names, flat, doc)
     design = edif.design.name.display if edif.design is not None else ""
@@ -139,8 +140,19 @@ def _net_names(flat: FlatDesign, doc: Document) -> tuple[dict[tuple, str], dict[
     return names, chosen
 
 
+def _port_pins(view: View, known: dict[int, list[tuple[str, int, str]]]) -> list[tuple[str, int, str]]:
+    """(port key, member index, pin name) of every pin of a view, worked out once per view."""
+    found = known.get(id(view))
+    if found is None:
+        found = known[id(view)] = [
+            (key, index, port.name.display if not port.name.dims
+             else member_display(port.name, index))
+            for key, port in view.ports.items() for index in range(port.name.width)]
+    return found
+
+
 def _part(leaf: Leaf, ref: str, flat: FlatDesign, net_names: dict[tuple, str], doc: Document,
-          location: SourceLocation) -> Part:
+          location: SourceLocation, ports: dict[int, list[tuple[str, int, str]]]) -> Part:
     merged = {**leaf.cell.properties, **leaf.view.properties, **leaf.instance.properties}
     normal = [(_normal(name), name, value) for name, value in merged.items()]
     by_key = {key: value for key, _, value in normal}
@@ -151,11 +163,10 @@ def _part(leaf: Leaf, ref: str, flat: FlatDesign, net_names: dict[tuple, str], d
     kind = infer_kind(ref, value, part_number, by_key.get("description"), package,
                       leaf.cell.name.display)
     pins = []
-    for key, port in leaf.view.ports.items():
-        for index in range(port.name.width):
-            name = port.name.display if not port.name.dims else member_display(port.name, index)
-            root = flat.find(("p", leaf.keys, key, index))
-            pins.append(Pin(name, net_names.get(root) if root is not None else None))
+    keys, find = leaf.keys, flat.find
+    for key, index, name in _port_pins(leaf.view, ports):
+        root = find(("p", keys, key, index))
+        pins.append(Pin(name, net_names.get(root) if root is not None else None))
     ohms = _ohms(kind, value)
     problem = _resistance_problem(kind, value, ohms)
     if problem:
@@ -173,6 +184,8 @@ def _resistance_problem(kind: str, value: str | None, ohms: float | None) -> str
         return ""
     if ohms is not None and ohms < 0:
         return f"negative resistance {value!r}; a resistor's value must be 0 Ω or more"
+    if ohms and not 1e-6 <= ohms <= 1e12:
+        return f"resistance {value!r} lies outside 1 µΩ to 1 TΩ (0 Ω is a link)"
     try:
         number = float(value.strip().removesuffix("Ω").removesuffix("ohm"))
     except ValueError:

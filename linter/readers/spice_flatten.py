@@ -14,6 +14,7 @@ where given, evaluated in the caller's scope), then the body's ``.param`` cards 
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, field
 from typing import Collection, Iterator, Mapping
 
@@ -179,6 +180,10 @@ class _Flattener:
             if element.letter == "R" and value_si is not None and value_si < 0:
                 raise fail_at(element.value, f"{element.name.text}: negative resistance "
                                              f"{value_si:g} Ω; a resistor's value must be 0 Ω or more")
+            if element.letter == "R" and value_si and not \
+                    _RESISTANCE_RANGE[0] <= value_si <= _RESISTANCE_RANGE[1]:
+                raise fail_at(element.value, f"{element.name.text}: resistance {value_si:g} Ω lies "
+                                             "outside 1 µΩ to 1 TΩ (0 Ω is a link)")
         model = self._model(element.model, frame) if element.model is not None else None
         params = {t.text.split("=", 1)[0].casefold(): t.text.split("=", 1)[1] for t in element.params}
         return FlatElement(element.name.text, frame.path, element.letter, pins, element.name.location,
@@ -247,12 +252,29 @@ class _Flattener:
                            None, None, None, None, definition.name, params)
 
 
+_MODEL_RANGES: dict[str, tuple[float, float, bool]] = {
+    "IS": (0.0, 1.0, False), "N": (0.0, 100.0, False), "RS": (0.0, 1e6, True),
+    "BF": (0.0, 1e5, False), "BR": (0.0, 1e5, False), "KP": (0.0, 1e3, False),
+    "VTO": (-1e3, 1e3, True), "LAMBDA": (0.0, 10.0, True),
+}
+"""Model parameters the solver uses: (lowest, highest, lowest allowed) of the values read:
+beyond them a device is no device (a gain of 0, an emission coefficient of 1e300) and only
+breaks the arithmetic."""
+_RESISTANCE_RANGE = (1e-6, 1e12)
+"""Ω: a resistor's value, if not 0 (a link), lies within a micro-ohm and a tera-ohm."""
+
+
 def _device_model(card: ModelCard, scope: Mapping[str, float]) -> DeviceModel:
     params: dict[str, float] = {}
     for token in card.params:
         name, equals, text = token.text.partition("=")
         if equals:
-            params[name.upper()] = evaluate_token(token, scope, text)
+            value = evaluate_token(token, scope, text)
+            low, high, low_included = _MODEL_RANGES.get(name.upper(), (-math.inf, math.inf, True))
+            if not low <= value <= high or (value == low and not low_included):
+                raise fail_at(token, f"model {card.name}: {name.upper()}={value:g} lies outside "
+                                     f"the range read ({low:g} to {high:g})")
+            params[name.upper()] = value
     return DeviceModel(card.name, card.type, params, card.card.location)
 
 
