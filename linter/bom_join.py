@@ -11,13 +11,13 @@ Where the two disagree the analysis keeps the netlist's value: the netlist is wh
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, field, fields, replace
 from typing import Literal, Mapping
 
 from linter.model import Circuit, Part, SourceLocation
 from linter.readers.bom import Bom, BomLine
 from linter.refs import fold_refs
-from linter.units import ValueParseError, format_si, parse_number
+from linter.units import format_si, number_or_none
 
 __all__ = ["BomDiscrepancy", "DiscrepancyKind", "apply_bom", "VALUE_MATCH_REL", "values_agree"]
 
@@ -109,7 +109,17 @@ def _enrich(part: Part, line: BomLine, same_value: bool) -> Part:
     if not same_value:
         properties["bom_value"] = line.value  # type: ignore[assignment]
     part_number = part.part_number or line.part_number
-    return replace(part, properties=properties, part_number=part_number)
+    return _changed(part, properties=properties, part_number=part_number)
+
+
+_PART_FIELDS = tuple(item.name for item in fields(Part))
+
+
+def _changed(part: Part, **changes: object) -> Part:
+    """``dataclasses.replace(part, **changes)`` without its per-call introspection."""
+    values = {name: getattr(part, name) for name in _PART_FIELDS}
+    values.update(changes)
+    return Part(**values)  # type: ignore[arg-type]
 
 
 def _compare(part: Part, line: BomLine, same_value: bool) -> list[BomDiscrepancy]:
@@ -134,12 +144,7 @@ def _netlist_number(part: Part) -> float | None:
 
 
 def _number(text: str | None, unit: str | None) -> float | None:
-    if text is None:
-        return None
-    try:
-        return parse_number(text, unit)
-    except ValueParseError:
-        return None
+    return None if text is None else number_or_none(text, unit)
 
 
 def values_agree(first: float, second: float) -> bool:

@@ -28,6 +28,7 @@ __all__ = [
     "ValueParseError",
     "PREFIXES",
     "parse_number",
+    "number_or_none",
     "parse_quantity",
     "parse_with_tolerance",
     "parse_fraction",
@@ -66,9 +67,10 @@ _NUMBER = r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?"
 _FAST = re.compile(
     rf"^\s*(?P<num>{_NUMBER})\s*(?P<prefix>[pnuµμmkKMGT]?)\s*(?P<unit>[A-Za-zΩΩ]*(?:/[A-Za-z]+)?)\s*$"
 )
-_DIGIT = re.compile(r"[0-9]")
-"""Every spelling above has a digit: a text without one (a colour, a part number such as
-``RED``) is no number, and is refused without loading pint."""
+_NUMBER_FIRST = re.compile(r"\s*[+-]?\s*\.?[0-9]")
+"""Every spelling above starts with a number (RKM codes such as ``R47`` take the fast path):
+a text that does not (a colour ``RED``, a part number ``LB0603BL``) is no number, and is
+refused without loading pint."""
 _RKM = re.compile(r"^\s*(?P<int>\d*)(?P<letter>[RKMGTrkmgtpnuµμ])(?P<frac>\d*)\s*(?P<unit>[A-Za-zΩΩ]*)\s*$")
 _RKM_LETTER: dict[str, float] = {"R": 1.0, "r": 1.0, "K": 1e3, "k": 1e3, "M": 1e6, "G": 1e9,
                                  "T": 1e12, "m": 1e-3, "u": 1e-6, "µ": 1e-6, "μ": 1e-6,
@@ -126,6 +128,20 @@ def parse_number(text: str, unit: str | None = None) -> float:
     raise ValueParseError(text, known)
 
 
+def number_or_none(text: str, unit: str | None = None) -> float | None:
+    """:func:`parse_number`, with None for a text that is not a value (no exception raised).
+
+    >>> number_or_none("4k7"), number_or_none("LX-R0603")
+    (4700.0, None)
+    """
+    known = _READ.get((text, unit))
+    if known is None:
+        known = _READ[(text, unit)] = _read_number(text, unit)
+        if len(_READ) > _READ_SIZE:
+            _READ.clear()
+    return known if isinstance(known, float) else None
+
+
 _READ: dict[tuple[str, str | None], float | str] = {}
 """Readings of (text, unit) already made: the float, or the ``expected`` text of the refusal.
 A board repeats few value texts many times (E-series values, part numbers read as values)."""
@@ -153,7 +169,7 @@ def _read_uncached(text: str, unit: str | None, expected: str) -> float:
     match = _FRACTION.match(text)
     if match and _unit_ok(match["unit"], unit) and int(match["den"]) != 0:
         return int(match["num"]) / int(match["den"])
-    if _DIGIT.search(text) is None:
+    if _NUMBER_FIRST.match(text) is None:
         raise ValueParseError(text, expected)
     return _parse_with_pint(text, unit, expected)
 
