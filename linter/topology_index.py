@@ -24,7 +24,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 from functools import cached_property
-from typing import Literal, Mapping
+from typing import Any, Callable, Literal, Mapping
 
 from linter.model import Circuit, Part, Pin
 from linter.partdata import BjtData, McuData, MosfetData, PartData, Rail
@@ -84,32 +84,69 @@ class NetSplit:
         return frozenset(self.controls)
 
 
+class _Memo(dict):
+    """A dict that fills itself: a missing key's value is ``compute(key)``, then kept.
+
+    Its bound ``__getitem__`` answers a known key without a Python-level call, which matters
+    for look-ups made hundreds of thousands of times on a large board.
+    """
+
+    def __init__(self, compute: Callable[[str], Any]) -> None:
+        super().__init__()
+        self.compute = compute
+
+    def __missing__(self, key: str) -> Any:
+        value = self[key] = self.compute(key)
+        return value
+
+
 class CircuitIndex:
     """Cached look-ups over one Circuit, its rails and its part data (by reference).
 
     Transistor terminals are named by their bipolar role whatever the device: ``c``
     (collector or drain), ``b`` (base or gate), ``e`` (emitter or source).
+
+    Attributes
+    ----------
+    kind : callable, ref -> str
+        The part's kind, with a transistor of unknown kind resolved by its part data and a
+        part whose data is a microcontroller's read as ``mcu`` (cached).
+    role : callable, ref -> Role
+        How a walk treats the part (cached).
+    sort_key : callable, name -> tuple
+        :func:`linter.refs.natural_key` of a reference or net name (cached).
+    pins_on : callable, net -> tuple of (ref, pin name)
+        The pairs on the net, capacitors left out (cached).
+    split : callable, net -> NetSplit
+        The net's pins split into microcontroller pins, transistor controls, the rest
+        (cached).
     """
+
+    kind: Callable[[str], str]
+    role: Callable[[str], Role]
+    sort_key: Callable[[str], tuple]
+    pins_on: Callable[[str], tuple[tuple[str, str], ...]]
+    split: Callable[[str], NetSplit]
 
     def __init__(self, circuit: Circuit, rails: Mapping[str, Rail],
                  part_data: Mapping[str, PartData]) -> None:
         self.circuit = circuit
         self.rails = rails
         self.part_data = part_data
-        self._net_pins: dict[str, tuple[tuple[str, str], ...]] = {}
-        self._roles: dict[str, Role] = {}
-        self._splits: dict[str, NetSplit] = {}
         self._terminals: dict[str, dict[str, Pin] | None] = {}
-        self._keys: dict[str, tuple] = {}
         self._from_parts: dict[str, list[tuple[str, str]]] | None = None
+        self.kind = _Memo(self._kind).__getitem__
+        self.role = _Memo(self._role).__getitem__
+        self.sort_key = _Memo(natural_key).__getitem__
+        self.pins_on = _Memo(self._pins_on).__getitem__
+        self.split = _Memo(self._split).__getitem__
 
     # -- parts -------------------------------------------------------------------------
     def part(self, ref: str) -> Part:
         """The part called ``ref``."""
         return self.circuit.parts[ref]
 
-    def kind(self, ref: str) -> str:
-        """The part's kind, with a transistor of unknown kind resolved by its part data."""
+    def _kind(self, ref: str) -> str:
         part = self.circuit.parts[ref]
         if part.kind == "transistor":
             data = self.part_data.get(ref)
@@ -118,14 +155,6 @@ class CircuitIndex:
         if part.kind != "mcu" and isinstance(self.part_data.get(ref), McuData):
             return "mcu"
         return part.kind
-
-    def role(self, ref: str) -> Role:
-        """How a walk treats the part (cached)."""
-        found = self._roles.get(ref)
-        if found is None:
-            found = self._role(ref)
-            self._roles[ref] = found
-        return found
 
     def _role(self, ref: str) -> Role:
         kind = self.kind(ref)
@@ -139,25 +168,12 @@ class CircuitIndex:
             return "mcu"
         return "foreign"
 
-    def sort_key(self, name: str) -> tuple:
-        """:func:`linter.refs.natural_key` of a reference or net name (cached)."""
-        found = self._keys.get(name)
-        if found is None:
-            found = natural_key(name)
-            self._keys[name] = found
-        return found
-
     # -- nets --------------------------------------------------------------------------
-    def pins_on(self, net: str) -> tuple[tuple[str, str], ...]:
-        """(reference, pin name) pairs on ``net``, capacitors left out (cached)."""
-        found = self._net_pins.get(net)
-        if found is None:
-            declared = self.circuit.nets.get(net)
-            raw = declared.pins if declared is not None else self._pins_from_parts(net)
-            found = tuple(pair for pair in raw
-                          if pair[0] in self.circuit.parts and self.role(pair[0]) != "open")
-            self._net_pins[net] = found
-        return found
+    def _pins_on(self, net: str) -> tuple[tuple[str, str], ...]:
+        declared = self.circuit.nets.get(net)
+        raw = declared.pins if declared is not None else self._pins_from_parts(net)
+        return tuple(pair for pair in raw
+                     if pair[0] in self.circuit.parts and self.role(pair[0]) != "open")
 
     def _pins_from_parts(self, net: str) -> tuple[tuple[str, str], ...]:
         """Fallback for a net a pin names but the Circuit does not list (built once)."""
@@ -170,23 +186,18 @@ class CircuitIndex:
             self._from_parts = table
         return tuple(self._from_parts.get(net, ()))
 
-    def split(self, net: str) -> NetSplit:
-        """The net's pins split into microcontroller pins, transistor controls, the rest."""
-        found = self._splits.get(net)
-        if found is None:
-            mcu, controls, rest = [], [], []
-            for ref, pin_name in self.pins_on(net):
-                role = self.role(ref)
-                if role == "mcu":
-                    mcu.append((ref, pin_name))
-                elif role == "transistor" and self._is_control(ref, pin_name):
-                    controls.append(ref)
-                else:
-                    rest.append((ref, pin_name))
-            foreign = tuple(pair for pair in rest if self.role(pair[0]) == "foreign")
-            found = NetSplit(tuple(mcu), tuple(controls), tuple(rest), foreign)
-            self._splits[net] = found
-        return found
+    def _split(self, net: str) -> NetSplit:
+        mcu, controls, rest = [], [], []
+        for ref, pin_name in self.pins_on(net):
+            role = self.role(ref)
+            if role == "mcu":
+                mcu.append((ref, pin_name))
+            elif role == "transistor" and self._is_control(ref, pin_name):
+                controls.append(ref)
+            else:
+                rest.append((ref, pin_name))
+        foreign = tuple(pair for pair in rest if self.role(pair[0]) == "foreign")
+        return NetSplit(tuple(mcu), tuple(controls), tuple(rest), foreign)
 
     def _is_control(self, ref: str, pin_name: str) -> bool:
         terminals = self.transistor_pins(ref)
