@@ -184,6 +184,10 @@ class _Flattener:
                     _RESISTANCE_RANGE[0] <= value_si <= _RESISTANCE_RANGE[1]:
                 raise fail_at(element.value, f"{element.name.text}: resistance {value_si:g} Ω lies "
                                              "outside 1 µΩ to 1 TΩ (0 Ω is a link)")
+            if element.letter == "V" and value_si and not \
+                    _SOURCE_RANGE[0] <= abs(value_si) <= _SOURCE_RANGE[1]:
+                raise fail_at(element.value, f"{element.name.text}: {value_si:g} V lies outside "
+                                             "1 µV to 10 kV either way (or 0 V)")
         model = self._model(element.model, frame) if element.model is not None else None
         params = {t.text.split("=", 1)[0].casefold(): t.text.split("=", 1)[1] for t in element.params}
         return FlatElement(element.name.text, frame.path, element.letter, pins, element.name.location,
@@ -260,6 +264,8 @@ _MODEL_RANGES: dict[str, tuple[float, float, bool]] = {
 """Model parameters the solver uses: (lowest, highest, lowest allowed) of the values read:
 beyond them a device is no device (a gain of 0, an emission coefficient of 1e300) and only
 breaks the arithmetic."""
+_SOURCE_RANGE = (1e-6, 1e4)
+"""V: a voltage source's magnitude, if not 0, as for settings rails (±10 kV)."""
 _RESISTANCE_RANGE = (1e-6, 1e12)
 """Ω: a resistor's value, if not 0 (a link), lies within a micro-ohm and a tera-ohm."""
 
