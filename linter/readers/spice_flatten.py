@@ -162,6 +162,8 @@ class _Flattener:
             key, shown = (GROUND, GROUND) if local in ("0", "gnd") else (local, token.text)
         elif local in frame.ports:
             return frame.ports[local]
+        elif not frame.path:  # the top level: the node is its own key
+            key, shown = local, token.text
         else:
             key = "/".join([*(p.casefold() for p in frame.path), local])
             shown = "/".join([*frame.path, token.text])

@@ -14,6 +14,7 @@ from __future__ import annotations
 import re
 
 from dataclasses import dataclass
+from functools import cached_property
 from typing import Iterator
 
 from linter.errors import NetlistError
@@ -48,9 +49,9 @@ class Card:
         """Where the card starts (its first token)."""
         return self.tokens[0].location
 
-    @property
+    @cached_property
     def keyword(self) -> str:
-        """The first word in lower case: an element name or a dot card."""
+        """The first word in lower case: an element name or a dot card (worked out once)."""
         return self.tokens[0].folded
 
     def rest_text(self, index: int) -> str:
@@ -207,7 +208,8 @@ def _card(segments: list[_Segment], file: str) -> Card:
         tokens.extend(_split(segment, file, base))
         pieces.append(segment.text)
         base += len(segment.text) + 1
-    return Card(tuple(_join_equals(tokens)), " ".join(pieces))
+    text = " ".join(pieces)
+    return Card(tuple(_join_equals(tokens) if "=" in text else tokens), text)
 
 
 def read_cards(text: str, file: str, *, skip_title: bool) -> Iterator[Card]:

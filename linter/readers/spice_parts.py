@@ -123,9 +123,10 @@ def _references(elements: list[FlatElement]) -> list[str]:
 
 def _part(element: FlatElement, ref: str, net_names: dict[str, str]) -> Part:
     pins = tuple(Pin(name, net_names[key]) for name, key in element.pins)
-    path = "/".join([*element.path, leaf_name(element)])
+    leaf = leaf_name(element)
+    path = "/".join([*element.path, leaf]) if element.path else leaf
     properties = dict(element.params)
-    if leaf_name(element) != element.name:
+    if leaf != element.name:
         properties["spice_name"] = element.name
     if element.letter == "X":
         part_number = element.subcircuit
