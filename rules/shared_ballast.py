@@ -7,6 +7,7 @@ from typing import Any, Iterable
 from linter import eseries, fix_search
 from linter.findings import Finding
 from linter.fixes import per_led_resistors
+from linter.refs import natural_key, natural_sorted
 from linter.results import GroupResult
 from linter.rulekit import amps, at_corner, group_rail, led_data, ohms, solved_groups, watts
 from linter.rules import Rule, register
@@ -66,7 +67,10 @@ class SharedBallast(Rule):
 
     def _finding(self, context: Any, result: GroupResult) -> Finding:
         group = result.group
-        hottest = max(result.leds, key=lambda x: x.current.max)
+        # natural order first, currents compared to the nanoampere: among equal LEDs the
+        # lowest reference is quoted, whatever the order of the netlist
+        hottest = max(sorted(result.leds, key=lambda x: natural_key(x.ref)),
+                      key=lambda x: round(x.current.max * 1e9))
         shared = group.setter or "one part"
         count = len(group.strings)
         share = sum(x.current.nom for x in result.leds if x.ref in
@@ -74,7 +78,8 @@ class SharedBallast(Rule):
         values = {"count": float(count), "share_nom_a": share,
                   "hottest_current_max_a": hottest.current.max}
         where = at_corner(hottest.current.at_max, result, (hottest.ref,))
-        text = (f"{fold(group.leds)} share {shared}: {hottest.ref} takes up to "
+        leds = tuple(natural_sorted(group.leds))
+        text = (f"{fold(leds)} share {shared}: {hottest.ref} takes up to "
                 f"{amps(hottest.current.max)} ({where})")
         data = led_data(context, hottest.ref)
         if data is not None and data.if_max:
@@ -84,7 +89,7 @@ class SharedBallast(Rule):
         text += self._shared_part(result, shared, values)
         fix = self._fix(context, result, share, values)
         return Finding(rule=self.id, severity=context.severity(self), message=text,
-                       parts=(shared, *group.leds) if group.setter else group.leds,
+                       parts=(shared, *leds) if group.setter else leds,
                        group=result.id, values=values, fix=fix)
 
     @staticmethod

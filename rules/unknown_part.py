@@ -6,7 +6,7 @@ from typing import Any, Iterable
 
 from linter.findings import Finding
 from linter.partdata import ResistorData
-from linter.refs import fold_refs
+from linter.refs import fold_refs, natural_sorted
 from linter.rules import Rule, register
 
 
@@ -66,6 +66,7 @@ class UnknownPart(Rule):
                                   f'"npn", "pnp", "nmos" or "pmos"', location=part.location)
 
     def _finding(self, context: Any, number: str | None, refs: list[str]) -> Finding:
+        refs = natural_sorted(refs)
         first = context.circuit.parts[refs[0]]
         what = _what(refs[0], context.part_data[refs[0]])
         label = f"{number} ({fold_refs(refs)})" if number else fold_refs(refs)
