@@ -79,11 +79,13 @@ def _read(text: str, source: str) -> Circuit:
     flat = flatten(edif)
     refs = _part_refs(flat.leaves, doc)
     net_names, chosen = _net_names(flat, doc)
-    places = _locations(doc, [leaf.instance.form for leaf in flat.leaves])
+    ordered = sorted(chosen.items(), key=lambda item: item[1].order)
+    forms = [leaf.instance.form for leaf in flat.leaves]
+    places = _locations(doc, forms + [wire.net.form for _, wire in ordered])  # one pass
     ports: dict[int, list[tuple[str, int, str]]] = {}
     parts = {ref: _part(leaf, ref, flat, net_names, doc, place, ports)
              for ref, leaf, place in zip(refs, flat.leaves, places)}
-    nets = _nets(parts, chosen, net_names, flat, doc)
+    nets = _nets(parts, chosen, net_names, flat, doc, ordered, places[len(forms):])
     design = edif.design.name.display if edif.design is not None else ""
     return Circuit(source=source, format="edif", parts=parts, nets=nets, design=design)
 
@@ -203,8 +205,10 @@ def _ohms(kind: str, value: str | None) -> float | None:
 
 
 def _nets(parts: dict[str, Part], chosen: dict[tuple, NetWire], names: dict[tuple, str],
-          flat: FlatDesign, doc: Document) -> dict[str, Net]:
-    """Nets in declaration order; refuses a net with fewer than two connections."""
+          flat: FlatDesign, doc: Document, ordered: list[tuple[tuple, NetWire]],
+          places: list[SourceLocation]) -> dict[str, Net]:
+    """Nets in declaration order (``ordered``: the chosen wires by order, ``places``: where
+    each was declared); refuses a net with fewer than two connections."""
     joined: dict[str, list[tuple[str, str]]] = {name: [] for name in names.values()}
     for ref, part in parts.items():
         for pin in part.pins:
@@ -218,8 +222,6 @@ def _nets(parts: dict[str, Part], chosen: dict[tuple, NetWire], names: dict[tupl
         if chosen[root] is not wire and wire.full_name not in aliases.setdefault(root, []):
             aliases[root].append(wire.full_name)
     nets: dict[str, Net] = {}
-    ordered = sorted(chosen.items(), key=lambda item: item[1].order)
-    places = _locations(doc, [wire.net.form for _, wire in ordered])
     for (root, wire), place in zip(ordered, places):
         name = names[root]
         pins = joined[name]

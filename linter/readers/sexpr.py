@@ -36,8 +36,8 @@ from __future__ import annotations
 import re
 from array import array
 from bisect import bisect_right
-from itertools import accumulate, chain, compress
-from operator import methodcaller
+from itertools import accumulate, chain, compress, count
+from operator import add, methodcaller
 from typing import Iterable, Iterator, Sequence
 
 from sexpdata import Symbol
@@ -133,14 +133,22 @@ class Document:
     def _opens(self) -> array:
         """The offset just after every ``(`` outside strings, in text order (computed once).
 
-        The matches of :data:`_UP_TO_OPEN` cover each chunk of the text end to end, each but
-        the last ending just after one such ``(``: the running sum of their lengths gives the
+        When the text has as many ``(`` as the tree has lists, none is inside a string, and
+        the pieces between them (``str.split``) give the offsets; otherwise the matches of
+        :data:`_UP_TO_OPEN` cover each chunk of the text end to end, each but the last ending
+        just after one ``(`` outside strings. Either way a running sum of lengths gives the
         offsets without a Python step per parenthesis.
         """
         if self._open_offsets is None:
+            text = self.text
+            every_open = text.count("(") == len(self._lists)
             ends = array("q")  # the offset just after each "("
-            for start, end in _chunks(self.text):
-                segments = _UP_TO_OPEN.findall(self.text, start, end)
+            for start, end in _chunks(text):
+                if every_open:  # k-th "(" ends at start + (pieces before it) + k
+                    pieces = text[start:end].split("(")
+                    ends.extend(map(add, accumulate(map(len, pieces[:-1])), count(start + 1)))
+                    continue
+                segments = _UP_TO_OPEN.findall(text, start, end)
                 after = accumulate(map(len, segments), initial=start)
                 next(after)
                 ends.extend(compress(after, map(_ENDS_WITH_OPEN, segments)))
