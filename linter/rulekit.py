@@ -24,9 +24,15 @@ def part_location(context: Any, ref: str) -> Any:
 
 
 def solved_groups(context: Any) -> Iterator[Any]:
-    """The groups of ``context`` whose operating points were solved (GroupResult)."""
+    """The recognised groups of ``context`` whose operating points were solved (GroupResult).
+
+    An unrecognised group is solved only as far as its known parts go (a plain diode in its
+    path is left out), so its figures are no ground for a verdict: ``unchecked-group`` reports
+    it instead.
+    """
     for result in getattr(context, "groups", ()) or ():
-        if getattr(result, "status", None) == "solved":
+        if (getattr(result, "status", None) == "solved"
+                and result.group.topology != "unrecognised"):
             yield result
 
 

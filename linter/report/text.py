@@ -134,7 +134,9 @@ def _group_line(group: Mapping[str, Any]) -> Text:
     lows = [c["min"] for c in currents if c.get("min") is not None]
     highs = [c["max"] for c in currents if c.get("max") is not None]
     line.append(f": {fold_refs([led.get('ref', '') for led in leds])}")
-    if noms:
+    if group.get("topology") == "unrecognised":
+        line.append(" not checked (drive path not recognised)")
+    elif noms:
         low, high = _si(min(noms), "A"), _si(max(noms), "A")
         spread = low if low == high else f"{low}–{high}"
         line.append(f" {spread} nom")
