@@ -62,6 +62,7 @@ def resolve_part_data(circuit: Circuit, settings: "Settings") -> tuple[Circuit, 
     parts = dict(circuit.parts)
     data: dict[str, PartData] = {}
     folded = folded_specs(settings.parts)
+    leds: dict[tuple, tuple[LedData, str | None]] = {}
     for ref, part in circuit.parts.items():
         spec = find_spec(part, settings.parts, folded)
         if spec is not None:
@@ -69,15 +70,16 @@ def resolve_part_data(circuit: Circuit, settings: "Settings") -> tuple[Circuit, 
             if part.kind != spec.kind or part.part_number != number:
                 part = replace(part, kind=spec.kind, part_number=number)
                 parts[ref] = part
-        record = _record(part, spec, settings)
+        record = _record(part, spec, settings, leds)
         if record is not None:
             data[ref] = record
     return replace(circuit, parts=parts), data
 
 
-def _record(part: Part, spec: PartSpec | None, settings: "Settings") -> PartData | None:
+def _record(part: Part, spec: PartSpec | None, settings: "Settings",
+            leds: dict[tuple, tuple[LedData, str | None]]) -> PartData | None:
     if part.kind == "led":
-        return led_data(part, spec)
+        return _shared_led_data(part, spec, leds)
     if part.kind == "resistor":
         return resistor_data(part, spec, settings.assume.resistor_tolerance)
     if part.kind in ("npn", "pnp"):
@@ -87,6 +89,22 @@ def _record(part: Part, spec: PartSpec | None, settings: "Settings") -> PartData
     if part.kind == "mcu":
         return _mcu_data(part, spec)
     return None
+
+
+def _shared_led_data(part: Part, spec: PartSpec | None,
+                     known: dict[tuple, tuple[LedData, str | None]]) -> LedData:
+    """:func:`led_data`, worked out once for every LED with the same part data, texts and
+    model; only the note, which names the part, is made for each (``known`` keeps the
+    records and their notes without the reference)."""
+    key = (id(spec), part.properties.get("color"), part.value, part.part_number,
+           part.properties.get("description"), part.cell, part.model)
+    found = known.get(key)
+    if found is None:
+        record = led_data(part, spec)
+        known[key] = (record, record.note.removeprefix(f"{part.ref}: ") if record.note else None)
+        return record
+    record, note = found
+    return record if note is None else replace(record, note=f"{part.ref}: {note}")
 
 
 def _model_params(part: Part) -> Mapping[str, float]:
