@@ -216,11 +216,11 @@ def _nets(parts: dict[str, Part], chosen: dict[tuple, NetWire], names: dict[tupl
                 joined[pin.net].append((ref, pin.name))
     outside = Counter(names.get(flat.find(("p", (), key, i)))
                       for key, port in flat.top_view.ports.items() for i in range(port.name.width))
-    aliases: dict[tuple, list[str]] = {}
-    for wire in flat.wires:
+    aliases: dict[tuple, dict[str, None]] = {}  # insertion-ordered sets: a ground net merges
+    for wire in flat.wires:                      # thousands of sheet-local wires
         root = flat.find(wire.node) or wire.node
-        if chosen[root] is not wire and wire.full_name not in aliases.setdefault(root, []):
-            aliases[root].append(wire.full_name)
+        if chosen[root] is not wire:
+            aliases.setdefault(root, {})[wire.full_name] = None
     nets: dict[str, Net] = {}
     for (root, wire), place in zip(ordered, places):
         name = names[root]
