@@ -7,14 +7,16 @@ keep that wording the same across rules. Pure functions; all values SI floats.
 
 from __future__ import annotations
 
-from typing import Any, Iterable, Iterator
+from collections import OrderedDict
+from typing import Any, Callable, Iterable, Iterator
 
 from linter.corners import Corner
 from linter.partdata import BjtData, LedData, Rail, ResistorData
 from linter.units import format_si
 
 __all__ = ["part_location", "solved_groups", "group_rail", "led_data", "resistor_data", "bjt_data",
-           "corner_phrase", "at_corner", "amps", "volts", "ohms", "watts", "say"]
+           "corner_phrase", "at_corner", "amps", "volts", "ohms", "watts", "say", "memoised",
+           "sink_design"]
 
 
 def part_location(context: Any, ref: str) -> Any:
@@ -134,3 +136,42 @@ def at_corner(corner: Corner | None, result: Any, focus: Iterable[str] = ()) -> 
 def say(ref: str, text: str) -> str:
     """A finding message: ``"D2: text"``."""
     return f"{ref}: {text}"
+
+
+_MEMO_SIZE = 4096
+"""Entries each memoised function keeps (least recently used dropped first)."""
+
+
+def memoised(function: Callable[..., Any]) -> Callable[..., Any]:
+    """``function`` (pure, deterministic) remembering its last results by its arguments.
+
+    Identical channels of a board ask the same design question with the same numbers; the
+    answer is computed once. The key is the ``repr`` of the arguments, which tells apart
+    every float exactly (``-0.0`` from ``0.0`` too) and any frozen record field by field;
+    at most :data:`_MEMO_SIZE` results are kept.
+    """
+    memo: OrderedDict[str, Any] = OrderedDict()
+
+    def call(*args: Any, **kwargs: Any) -> Any:
+        key = repr((args, sorted(kwargs.items())))
+        if key in memo:
+            memo.move_to_end(key)
+            return memo[key]
+        value = function(*args, **kwargs)
+        memo[key] = value
+        if len(memo) > _MEMO_SIZE:
+            memo.popitem(last=False)
+        return value
+
+    call.__doc__ = function.__doc__
+    call.__name__ = getattr(function, "__name__", "memoised")
+    return call
+
+
+def _sink_design(*args: Any, **kwargs: Any) -> Any:
+    from linter.fixes import sink_design as design
+    return design(*args, **kwargs)
+
+
+sink_design = memoised(_sink_design)
+""":func:`linter.fixes.sink_design`, memoised (its E24 divider search is the costly part)."""

@@ -5,11 +5,11 @@ from __future__ import annotations
 from typing import Any, Iterable
 
 from linter.findings import Finding
-from linter.fixes import sink_design
 from linter.fixes_sink import EMITTER_V_FLOOR
 from linter.partdata import Rail
 from linter.results import GroupResult, TransistorResult
-from linter.rulekit import amps, at_corner, bjt_data, ohms, say, solved_groups, volts
+from linter.rulekit import (amps, at_corner, bjt_data, ohms, say, sink_design, solved_groups,
+                            volts)
 from linter.rules import Rule, register
 from linter.rules.string_headroom import reference_rail
 

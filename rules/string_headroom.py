@@ -7,10 +7,11 @@ from typing import Any, Iterable
 
 from linter.config import RuleOption
 from linter.findings import Finding
-from linter.fixes import SinkDesign, rail_for_resistor, sink_design
+from linter.fixes import SinkDesign, rail_for_resistor
 from linter.partdata import Rail
 from linter.results import GroupResult, LedResult
-from linter.rulekit import amps, at_corner, group_rail, ohms, say, solved_groups, volts, watts
+from linter.rulekit import (amps, at_corner, group_rail, ohms, say, sink_design, solved_groups,
+                            volts, watts)
 from linter.rules import Rule, register
 from linter import fix_search
 

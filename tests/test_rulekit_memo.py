@@ -1,0 +1,28 @@
+"""The rule helpers' memo: same answer as the plain call, computed once per distinct input."""
+
+from linter.fixes import sink_design as plain_sink_design
+from linter.rulekit import memoised, sink_design
+
+
+def test_memoised_calls_once_per_distinct_arguments():
+    calls = []
+
+    def square(x, *, shift=0.0):
+        calls.append(x)
+        return x * x + shift
+
+    fast = memoised(square)
+    assert fast(3.0) == 9.0            # 3² (arithmetic)
+    assert fast(3.0) == 9.0
+    assert fast(3.0, shift=1.0) == 10.0
+    assert fast(-0.0) == 0.0
+    assert fast(0.0) == 0.0
+    assert calls == [3.0, 3.0, -0.0, 0.0]   # -0.0 and 0.0 are told apart by repr
+
+
+def test_memoised_sink_design_matches_the_plain_design():
+    args = (11.4, 6.6, 0.02, 5.0)    # a 12 V rail less 5 %, two LEDs, 20 mA, 5 V reference (from memory)
+    kwargs = dict(v_rail_max=12.6, vf_string_min=5.8, reference_name="+5V",
+                  reference_tolerance=0.02, resistor_tolerance=0.01)
+    assert sink_design(*args, **kwargs) == plain_sink_design(*args, **kwargs)
+    assert sink_design(*args, **kwargs) is sink_design(*args, **kwargs)
