@@ -57,6 +57,20 @@ def plain_data(value: Any) -> Any:
     NaN, and a report says "unknown" rather than invent a number. numpy scalars become
     Python numbers.
     """
+    kind = type(value)
+    if kind is float:
+        return value if math.isfinite(value) else None
+    if value is None or kind is str or kind is bool or kind is int:
+        return value
+    if kind is dict:
+        return {str(key): plain_data(item) for key, item in value.items()}
+    if kind is list or kind is tuple:
+        return [plain_data(item) for item in value]
+    return _plain_other(value)
+
+
+def _plain_other(value: Any) -> Any:
+    """:func:`plain_data` for anything but the built-in types (subclasses, numpy, records)."""
     if value is None or isinstance(value, (str, bool)):
         return value
     if isinstance(value, Mapping):
