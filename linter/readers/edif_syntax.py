@@ -17,7 +17,6 @@ import re
 from dataclasses import dataclass, field
 from decimal import Decimal
 from math import prod
-from typing import Iterator
 
 from linter.readers.sexpr import Document, Symbol
 
