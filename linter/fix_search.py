@@ -9,8 +9,11 @@ points. All quantities SI floats.
 
 from __future__ import annotations
 
+import hashlib
+import re
+from collections import OrderedDict
 from dataclasses import replace
-from typing import Any, Iterable, Mapping
+from typing import Any, Callable, Iterable, Mapping
 
 from linter import eseries
 from linter.analysis import analyse
@@ -21,7 +24,8 @@ from linter.results import GroupResult
 
 __all__ = ["DEFAULT_TOLERANCE", "resolve", "with_resistor", "led_currents",
            "resistor_for_max", "resistor_for_min", "rail_for_min", "sub_circuit",
-           "resolve_circuit", "resistor_record", "tolerance_of", "split_resistor"]
+           "resolve_circuit", "resistor_record", "tolerance_of", "split_resistor",
+           "signature", "remembered"]
 
 DEFAULT_TOLERANCE = 0.05
 """Resistor tolerance (fraction) when the part data gives none (DESIGN.md: else 5 %)."""
@@ -82,10 +86,12 @@ def resistor_for_max(context: Any, result: GroupResult, ref: str, leds: tuple[st
                      limit: float) -> ResistorChoice | None:
     """The smallest resistor of the series made at ``ref``'s tolerance (IEC 60063) for
     which the solver's worst-case maximum over ``leds`` is at most ``limit`` (A)."""
-    tolerance = tolerance_of(context, ref)
-    start = result.resistor(ref).ohms
-    return resistor_for_current_solved(_solver(context, result, ref, leds), limit, start,
-                                       tolerance=tolerance, max_steps=_MAX_STEPS)
+    def search() -> ResistorChoice | None:
+        tolerance = tolerance_of(context, ref)
+        start = result.resistor(ref).ohms
+        return resistor_for_current_solved(_solver(context, result, ref, leds), limit, start,
+                                           tolerance=tolerance, max_steps=_MAX_STEPS)
+    return remembered(context, result, ("resistor_for_max", ref, leds, limit), search)
 
 
 def resistor_for_min(context: Any, result: GroupResult, ref: str, leds: tuple[str, ...],
@@ -93,6 +99,12 @@ def resistor_for_min(context: Any, result: GroupResult, ref: str, leds: tuple[st
     """The largest series resistor (below the present one) for which the solver's worst-case
     minimum over ``leds`` reaches ``floor`` (A) while the maximum stays at or below
     ``ceiling`` (A, when given); None when no value does both."""
+    return remembered(context, result, ("resistor_for_min", ref, leds, floor, ceiling),
+                      lambda: _resistor_for_min(context, result, ref, leds, floor, ceiling))
+
+
+def _resistor_for_min(context: Any, result: GroupResult, ref: str, leds: tuple[str, ...],
+                      floor: float, ceiling: float | None) -> ResistorChoice | None:
     tolerance = tolerance_of(context, ref)
     series = eseries.series_for_tolerance(tolerance)
     current = _solver(context, result, ref, leds)
@@ -144,6 +156,12 @@ def rail_for_min(context: Any, result: GroupResult, rail_name: str, leds: tuple[
                  floor: float, ceiling_v: float) -> float | None:
     """The lowest minimum of rail ``rail_name`` (V) at which the solver's worst-case minimum
     current over ``leds`` reaches ``floor`` (A); None when even ``ceiling_v`` does not."""
+    return remembered(context, result, ("rail_for_min", rail_name, leds, floor, ceiling_v),
+                      lambda: _rail_for_min(context, result, rail_name, leds, floor, ceiling_v))
+
+
+def _rail_for_min(context: Any, result: GroupResult, rail_name: str, leds: tuple[str, ...],
+                  floor: float, ceiling_v: float) -> float | None:
     from linter.partdata import Rail
 
     rail = context.rails[rail_name]
@@ -197,3 +215,79 @@ def split_resistor(circuit: Circuit, group: Any, shared: str, ohms_each: float
         names[string[0]] = name
     edited = Circuit(circuit.source, circuit.format, {**circuit.parts, **parts}, circuit.nets)
     return sub_circuit(edited, parts), names
+
+
+_QUOTED = re.compile(r"'([^'\\\n]*)'")
+"""A name as ``repr`` quotes it (names holding quotes or backslashes are never memoised)."""
+
+_MEMO_SIZE = 4096
+"""Search answers kept (least recently used dropped first); each is a few numbers."""
+
+_ANSWERS: OrderedDict[bytes, Any] = OrderedDict()
+
+
+def _part_record(part: Any) -> Any:
+    """What the topology and the solver read of a placed part: not where it was placed."""
+    model = part.model
+    if model is not None:
+        model = replace(model, location=None)
+    return (part.ref, part.kind, part.value, part.pins, part.value_si, part.cell,
+            part.part_number, model)
+
+
+def signature(context: Any, result: GroupResult, question: Any) -> bytes | None:
+    """A digest of everything a fix search on ``result``'s group reads, names made neutral.
+
+    Identical channels of a board (same parts data, values, pins and rails, only the
+    references and net names differ) give the same signature for the same ``question``
+    (the search's own arguments, e.g. which resistor and which limit): the group, its
+    placed parts (value, pins, model; not the location), the part data and rails under
+    each name, every rail and the ambient range. Each quoted name of the group's parts
+    and nets becomes its index in order of first appearance, and the names' order under
+    plain and natural sorting is part of the signature, so that a search that sorts by
+    name meets the same order. None when a name cannot be made neutral safely.
+    """
+    from linter.refs import natural_key
+
+    group = result.group
+    names = set(group.parts) | set(group.nets)
+    if any("'" in n or "\\" in n or "\n" in n for n in names):
+        return None
+    parts = [_part_record(context.circuit.parts[r]) for r in group.parts
+             if r in context.circuit.parts]
+    data = [(r, context.part_data.get(r)) for r in sorted(names)]
+    text = repr((replace(group, id=""), parts, question, data,
+                 sorted(context.rails.items()), context.settings.ambient))
+    order: dict[str, int] = {}
+
+    def neutral(match: re.Match) -> str:
+        name = match.group(1)
+        if name not in names:
+            return match.group(0)
+        return "\0%d\0" % order.setdefault(name, len(order))
+
+    text = _QUOTED.sub(neutral, text)
+    seen = list(order)
+    ranks = (sorted(range(len(seen)), key=lambda i: seen[i]),
+             sorted(range(len(seen)), key=lambda i: natural_key(seen[i])))
+    return hashlib.sha256(f"{text}|{ranks}".encode("utf-8", "surrogatepass")).digest()
+
+
+def remembered(context: Any, result: GroupResult, question: Any,
+               search: Callable[[], Any]) -> Any:
+    """``search()``, or its answer to the same :func:`signature` asked before.
+
+    The answer must hold no names (numbers, a ResistorChoice): it is handed to every
+    identical channel. An exception is not remembered (the search runs again next time).
+    """
+    key = signature(context, result, question)
+    if key is None:
+        return search()
+    if key in _ANSWERS:
+        _ANSWERS.move_to_end(key)
+        return _ANSWERS[key]
+    answer = search()
+    _ANSWERS[key] = answer
+    if len(_ANSWERS) > _MEMO_SIZE:
+        _ANSWERS.popitem(last=False)
+    return answer

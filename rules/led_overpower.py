@@ -118,9 +118,13 @@ def _resistor_for_power(context: Any, result: GroupResult, ref: str,
         return (max(s.nom / a for s, a in spans), min(s.min / a for s, a in spans),
                 max(s.max / a for s, a in spans))
 
-    try:
+    def search():
         return resistor_for_current_solved(ratio, 1.0, result.resistor(ref).ohms,
                                            tolerance=fix_search.tolerance_of(context, ref),
                                            max_steps=200)
+
+    try:
+        return fix_search.remembered(context, result,
+                                     ("led-overpower", ref, sorted(limits.items())), search)
     except RuntimeError:
         return None

@@ -147,9 +147,13 @@ def _resistor_for_pin(context: Any, result: GroupResult, ref: str, pin: PinResul
         span = next(p for p in again.pins if p.id == pin.id).current
         return span.nom, span.min, span.max
 
-    try:
+    def search():
         return resistor_for_current_solved(current, pin.current_max, result.resistor(ref).ohms,
                                            tolerance=fix_search.tolerance_of(context, ref),
                                            max_steps=200)
+
+    try:
+        return fix_search.remembered(context, result,
+                                     ("pin-overcurrent", ref, pin.id, pin.current_max), search)
     except (RuntimeError, StopIteration):
         return None

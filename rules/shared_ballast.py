@@ -150,6 +150,13 @@ class SharedBallast(Rule):
     @staticmethod
     def _split_currents(context: Any, result: GroupResult, shared: str, ohms_each: float,
                         tolerance: float) -> tuple[float, float, float] | None:
+        return fix_search.remembered(
+            context, result, ("shared-ballast split", shared, ohms_each, tolerance),
+            lambda: SharedBallast._solve_split(context, result, shared, ohms_each))
+
+    @staticmethod
+    def _solve_split(context: Any, result: GroupResult, shared: str, ohms_each: float
+                     ) -> tuple[float, float, float] | None:
         circuit, names = fix_search.split_resistor(context.circuit, result.group, shared,
                                                    ohms_each)
         data = {name: fix_search.resistor_record(context, shared, ohms_each)

@@ -1,0 +1,72 @@
+"""Fix-search memo: identical channels share an answer; any electrical difference does not."""
+
+from dataclasses import dataclass, replace
+
+from linter.fix_search import remembered, signature
+from linter.groups import Group
+from linter.model import Circuit, Part, Pin, SourceLocation
+from linter.partdata import Ambient, Rail, ResistorData
+from linter.results import GroupResult
+
+
+@dataclass(frozen=True)
+class _Settings:
+    ambient: Ambient = Ambient()
+
+
+@dataclass(frozen=True)
+class _Context:
+    circuit: Circuit
+    part_data: dict
+    rails: dict
+    settings: _Settings = _Settings()
+
+
+def _channel(r: str, d: str, node: str, line: int, ohms: float = 470.0):
+    where = SourceLocation("board.cir", line, 1)
+    parts = {r: Part(r, "resistor", str(ohms), (Pin("1", "+5V"), Pin("2", node)), where,
+                     value_si=ohms),
+             d: Part(d, "led", "RED", (Pin("A", node), Pin("K", "0")), where)}
+    group = Group(id=f"G-{d}", topology="resistor", leds=(d,), strings=((d,),), parts=(r, d),
+                  nets=("+5V", node, "0"), rails=("+5V", "0"), setter=r)
+    return parts, group, {r: ResistorData(ohms, 0.05)}
+
+
+def _context_and_results(second_ohms: float = 470.0):
+    p1, g1, d1 = _channel("R1", "D1", "N1", 1)
+    p2, g2, d2 = _channel("R2", "D2", "N2", 9, second_ohms)
+    circuit = Circuit("board.cir", "spice", {**p1, **p2}, {})
+    rails = {"+5V": Rail("+5V", 5.0, 4.75, 5.25), "0": Rail("0", 0.0, 0.0, 0.0)}
+    context = _Context(circuit, {**d1, **d2}, rails)
+    return context, GroupResult(g1, "solved"), GroupResult(g2, "solved")
+
+
+def test_identical_channels_share_a_signature():
+    context, first, second = _context_and_results()
+    assert signature(context, first, ("q", "R1", 0.02)) == signature(context, second,
+                                                                    ("q", "R2", 0.02))
+
+
+def test_any_difference_changes_the_signature():
+    context, first, second = _context_and_results(second_ohms=560.0)
+    assert signature(context, first, ("q", "R1")) != signature(context, second, ("q", "R2"))
+    context, first, second = _context_and_results()
+    assert signature(context, first, ("q", "R1", 0.02)) != signature(context, second,
+                                                                    ("q", "R2", 0.03))
+    # the question names a part of the other channel: not the same question
+    assert signature(context, first, ("q", "R1")) != signature(context, second, ("q", "R1"))
+    warmer = replace(context, settings=_Settings(Ambient(0.0, 70.0)))
+    assert signature(context, first, ("q",)) != signature(warmer, first, ("q",))
+
+
+def test_remembered_runs_the_search_once_for_identical_channels():
+    context, first, second = _context_and_results()
+    calls = []
+
+    def search():
+        calls.append(1)
+        return 42.0
+
+    assert remembered(context, first, ("test-memo", "R1"), search) == 42.0
+    assert remembered(context, second, ("test-memo", "R2"), search) == 42.0
+    assert len(calls) == 1
