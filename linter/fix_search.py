@@ -235,14 +235,22 @@ def _part_record(part: Any) -> Any:
             part.part_number, model)
 
 
+def _data_record(ref: str, data: Any) -> Any:
+    """A part-data record with the part's own name taken off the front of its note."""
+    note = getattr(data, "note", None)
+    if isinstance(note, str) and note.startswith(f"{ref}: "):
+        return replace(data, note=note[len(ref) + 2:])
+    return data
+
+
 def signature(context: Any, result: GroupResult, question: Any) -> bytes | None:
     """A digest of everything a fix search on ``result``'s group reads, names made neutral.
 
     Identical channels of a board (same parts data, values, pins and rails, only the
     references and net names differ) give the same signature for the same ``question``
     (the search's own arguments, e.g. which resistor and which limit): the group, its
-    placed parts (value, pins, model; not the location), the part data and rails under
-    each name, every rail and the ambient range. Each quoted name of the group's parts
+    placed parts (value, pins, model; not the location), the part data (its note without
+    the leading part name) and rails under each name, every rail and the ambient range. Each quoted name of the group's parts
     and nets becomes its index in order of first appearance, and the names' order under
     plain and natural sorting is part of the signature, so that a search that sorts by
     name meets the same order. None when a name cannot be made neutral safely.
@@ -255,7 +263,7 @@ def signature(context: Any, result: GroupResult, question: Any) -> bytes | None:
         return None
     parts = [_part_record(context.circuit.parts[r]) for r in group.parts
              if r in context.circuit.parts]
-    data = [(r, context.part_data.get(r)) for r in sorted(names)]
+    data = [(r, _data_record(r, context.part_data.get(r))) for r in sorted(names)]
     text = repr((replace(group, id=""), parts, question, data,
                  sorted(context.rails.items()), context.settings.ambient))
     order: dict[str, int] = {}

@@ -29,7 +29,7 @@ def _channel(r: str, d: str, node: str, line: int, ohms: float = 470.0):
              d: Part(d, "led", "RED", (Pin("A", node), Pin("K", "0")), where)}
     group = Group(id=f"G-{d}", topology="resistor", leds=(d,), strings=((d,),), parts=(r, d),
                   nets=("+5V", node, "0"), rails=("+5V", "0"), setter=r)
-    return parts, group, {r: ResistorData(ohms, 0.05)}
+    return parts, group, {r: ResistorData(ohms, 0.05, note=f"{r}: tolerance 5 % assumed")}
 
 
 def _context_and_results(second_ohms: float = 470.0):
