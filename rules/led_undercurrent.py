@@ -7,6 +7,7 @@ from typing import Any, Iterable
 from linter import fix_search
 from linter.config import RuleOption
 from linter.findings import Finding
+from linter.refs import fold_refs, natural_sorted
 from linter.results import GroupResult, LedResult
 from linter.rulekit import amps, at_corner, ohms, say, solved_groups, volts
 from linter.rules import Rule, register
@@ -58,6 +59,7 @@ class LedUndercurrent(Rule):
                           "lowest current (A) at which an indicator still counts as lit"),)
 
     def check(self, context: Any) -> Iterable[Finding]:
+        yield from self._shorted(context)
         floor = float(context.option(self, "visible_floor"))
         for result in solved_groups(context):
             finding = self._group_finding(context, result, floor)
@@ -75,6 +77,24 @@ class LedUndercurrent(Rule):
         if dim:
             return self._finding(context, result, dim, floor, nominal=False)
         return None
+
+    def _shorted(self, context: Any) -> Iterable[Finding]:
+        """LEDs whose two pins are joined through 0 Ω links: they can never light."""
+        circuit = context.circuit
+        joined = _link_clusters(circuit)
+        for led in circuit.leds():
+            nets = [pin.net for pin in led.pins if pin.net is not None]
+            if len(nets) != 2 or joined.find(nets[0]) != joined.find(nets[1]):
+                continue
+            links = natural_sorted(joined.links_between(nets[0], nets[1]))
+            via = f"through {fold_refs(links)} (0 Ω)" if links else "by a single net"
+            yield Finding(rule=self.id, severity=context.severity(self),
+                          message=say(led.ref, f"anode and cathode are joined {via}: it "
+                                               "cannot light at any corner"),
+                          parts=(led.ref, *links), location=led.location,
+                          values={"current_nom_a": 0.0},
+                          fix=f"remove or move {fold_refs(links)}" if links
+                          else "connect the anode and cathode to their own nets")
 
     def _finding(self, context: Any, result: GroupResult, leds: list[LedResult], floor: float,
                  nominal: bool) -> Finding:
@@ -126,3 +146,37 @@ class LedUndercurrent(Rule):
         values.update(fix_rail_min_v=needed)
         return (f"keep {name} at or above {volts(needed)} (its minimum is {volts(rail.min)}), "
                 f"or put fewer LEDs in the string")
+
+
+class _Joins:
+    """Union–find over net names joined by 0 Ω links, remembering which link joined what."""
+
+    def __init__(self) -> None:
+        self.parent: dict[str, str] = {}
+        self.links: list[tuple[str, str, str]] = []
+
+    def find(self, net: str) -> str:
+        root = net
+        while self.parent.get(root, root) != root:
+            root = self.parent[root]
+        self.parent[net] = root
+        return root
+
+    def join(self, link: str, a: str, b: str) -> None:
+        self.links.append((link, a, b))
+        self.parent[self.find(a)] = self.find(b)
+
+    def links_between(self, a: str, b: str) -> list[str]:
+        """Links inside the cluster that holds ``a`` and ``b`` (all of them: the short)."""
+        root = self.find(a)
+        return [link for link, x, _ in self.links if self.find(x) == root]
+
+
+def _link_clusters(circuit: Any) -> _Joins:
+    joins = _Joins()
+    for part in circuit.parts.values():
+        if part.kind == "link":
+            nets = [pin.net for pin in part.pins if pin.net is not None]
+            if len(nets) == 2:
+                joins.join(part.ref, nets[0], nets[1])
+    return joins
