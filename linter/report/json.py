@@ -102,6 +102,8 @@ class JsonReporter(Reporter):
 
 _ENCODE_TEXT = json.encoder.encode_basestring  # the C version when available
 _INDENT = "  "
+_CHUNK_DEPTH = 2
+"""Containers this deep (a report's groups and findings) are joined to one string each."""
 
 
 def indented_json(data: Any) -> str:
@@ -161,7 +163,11 @@ def _write(value: Any, newline: str, out: list[str]) -> None:
             out.append(_ENCODE_TEXT(key))
             out.append(": ")
         text = _scalar(item)
-        if text is None:
+        if text is None and len(inner) <= _CHUNK_DEPTH * len(_INDENT) + 1:
+            pieces: list[str] = []
+            _write(item, inner, pieces)
+            out.append("".join(pieces))   # one string per group: few pieces alive at once
+        elif text is None:
             _write(item, inner, out)
         else:
             out.append(text)
