@@ -152,24 +152,32 @@ def _write(value: Any, newline: str, out: list[str]) -> None:
         out.append("{}" if type(value) is dict else "[]")
         return
     inner = newline + _INDENT
+    chunked = len(inner) <= _CHUNK_DEPTH * len(_INDENT) + 1
     is_dict = type(value) is dict
     out.append("{" if is_dict else "[")
     separator = inner
     for key, item in (value.items() if is_dict else zip(value, value)):
-        out.append(separator)
         if is_dict:
             if type(key) is not str:
                 raise TypeError(f"keys must be str, not {type(key).__name__}")
-            out.append(_ENCODE_TEXT(key))
-            out.append(": ")
-        text = _scalar(item)
-        if text is None and len(inner) <= _CHUNK_DEPTH * len(_INDENT) + 1:
-            pieces: list[str] = []
-            _write(item, inner, pieces)
-            out.append("".join(pieces))   # one string per group: few pieces alive at once
-        elif text is None:
-            _write(item, inner, out)
+            lead = separator + _ENCODE_TEXT(key) + ": "
         else:
-            out.append(text)
+            lead = separator
+        kind = type(item)
+        if kind is float and math.isfinite(item):
+            out.append(lead + float.__repr__(item))
+        elif kind is str:
+            out.append(lead + _ENCODE_TEXT(item))
+        else:
+            text = _scalar(item)
+            if text is not None:
+                out.append(lead + text)
+            elif chunked:
+                pieces: list[str] = [lead]
+                _write(item, inner, pieces)
+                out.append("".join(pieces))   # one string per group: few pieces alive at once
+            else:
+                out.append(lead)
+                _write(item, inner, out)
         separator = "," + inner
     out.append(newline + ("}" if is_dict else "]"))
