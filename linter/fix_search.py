@@ -249,7 +249,7 @@ def signature(context: Any, result: GroupResult, question: Any) -> bytes | None:
     Identical channels of a board (same parts data, values, pins and rails, only the
     references and net names differ) give the same signature for the same ``question``
     (the search's own arguments, e.g. which resistor and which limit): the group, its
-    placed parts (value, pins, model; not the location), the part data (its note without
+    placed parts and its pins' parts (value, pins, model; not the location), the part data (its note without
     the leading part name) and rails under each name, every rail and the ambient range. Each quoted name of the group's parts
     and nets becomes its index in order of first appearance, and the names' order under
     plain and natural sorting is part of the signature, so that a search that sorts by
@@ -258,11 +258,11 @@ def signature(context: Any, result: GroupResult, question: Any) -> bytes | None:
     from linter.refs import natural_key
 
     group = result.group
-    names = set(group.parts) | set(group.nets)
+    refs = list(group.parts) + [d.part for d in group.pins if d.part not in group.parts]
+    names = set(refs) | set(group.nets)
     if any("'" in n or "\\" in n or "\n" in n for n in names):
         return None
-    parts = [_part_record(context.circuit.parts[r]) for r in group.parts
-             if r in context.circuit.parts]
+    parts = [_part_record(context.circuit.parts[r]) for r in refs if r in context.circuit.parts]
     data = [(r, _data_record(r, context.part_data.get(r))) for r in sorted(names)]
     text = repr((replace(group, id=""), parts, question, data,
                  sorted(context.rails.items()), context.settings.ambient))
