@@ -30,7 +30,6 @@ from __future__ import annotations
 
 import os
 import pickle
-from concurrent.futures import ProcessPoolExecutor
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Callable, Iterable, Iterator, Sequence
@@ -230,6 +229,8 @@ def _pooled(tasks: Sequence[BoardTask], jobs: int) -> Iterator[tuple[int, BoardO
     """(index, outcome) as the pool delivers them; an interruption cancels what has not started."""
     from concurrent.futures import as_completed
     from concurrent.futures.process import BrokenProcessPool
+
+    from concurrent.futures import ProcessPoolExecutor  # only a --jobs run pays for it
 
     pool = ProcessPoolExecutor(max_workers=min(jobs, len(tasks)), initializer=_worker_start)
     try:

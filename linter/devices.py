@@ -23,7 +23,6 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
-from scipy import constants
 
 from linter.partdata import LedData
 
@@ -56,13 +55,22 @@ DEFAULT_TEST_CURRENT: float = 0.020
 """A, the test current assumed when a datasheet gives Vf without one (common practice)."""
 
 
+BOLTZMANN: float = 1.380649e-23
+"""J/K, the Boltzmann constant: exact by the 2019 SI definition (equals scipy.constants.k;
+written out so that a check does not import scipy)."""
+ELEMENTARY_CHARGE: float = 1.602176634e-19
+"""C, exact by the 2019 SI definition (equals scipy.constants.e)."""
+ZERO_CELSIUS: float = 273.15
+"""K at 0 °C."""
+
+
 def thermal_voltage(temp_c: float = T_REF_C) -> float:
-    """Thermal voltage Vt = k·T/q in V at ``temp_c`` (°C); k and q from scipy.constants.
+    """Thermal voltage Vt = k·T/q in V at ``temp_c`` (°C); k and q as the SI defines them.
 
     >>> round(thermal_voltage(25.0) * 1e3, 3)
     25.693
     """
-    return constants.k * (temp_c + constants.zero_Celsius) / constants.e
+    return BOLTZMANN * (temp_c + ZERO_CELSIUS) / ELEMENTARY_CHARGE
 
 
 VT_REF: float = thermal_voltage(T_REF_C)

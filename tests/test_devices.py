@@ -116,3 +116,15 @@ def test_mosfet_reverse_is_mirror() -> None:
     fwd, _, _ = mosfet_current(np.array(3.0), np.array(0.2), 1.6, 0.4)
     rev, _, _ = mosfet_current(np.array(3.0 - 0.2), np.array(-0.2), 1.6, 0.4)
     assert float(rev) == pytest.approx(-float(fwd))
+
+
+def test_physical_constants_equal_scipy():
+    # The solver writes k, q and 0 °C out (exact SI 2019 values) to keep scipy off the
+    # start-up path; they must equal scipy.constants.
+    from scipy import constants
+
+    from linter import devices
+
+    assert devices.BOLTZMANN == constants.k
+    assert devices.ELEMENTARY_CHARGE == constants.e
+    assert devices.ZERO_CELSIUS == constants.zero_Celsius
