@@ -28,6 +28,7 @@ from linter.groups import Group
 from linter.model import Circuit, Part
 from linter.partdata import BjtData, LedData, McuData, MosfetData, PartDataMap, Rail, ResistorData
 from linter.solve import Network
+from linter.unionfind import UnionFind
 
 __all__ = ["ModelGap", "ResistorSpec", "DiodeSpec", "BjtSpec", "MosfetSpec", "PinSpec",
            "FixedSpec", "GroupModel", "build_model", "GENERIC"]
@@ -176,24 +177,11 @@ def _pin_net(part: Part, names: tuple[str, ...], position: int) -> str:
     raise ModelGap(f"{part.ref}: no pin {names[0].upper()}")
 
 
-class _Nets:
-    """Union-find over net names (links merge nets), then node numbering."""
+class _Nets(UnionFind):
+    """Union-find over net names (links merge nets); a rail stays the root of its set."""
 
-    def __init__(self) -> None:
-        self.parent: dict[str, str] = {}
-
-    def find(self, net: str) -> str:
-        root = net
-        while self.parent.get(root, root) != root:
-            root = self.parent[root]
-        self.parent[net] = root
-        return root
-
-    def join(self, a: str, b: str, rails: dict) -> None:
-        ra, rb = self.find(a), self.find(b)
-        if ra != rb:
-            keep, drop = (ra, rb) if ra in rails or rb not in rails else (rb, ra)
-            self.parent[drop] = keep
+    def join(self, a: str, b: str, rails: dict) -> None:  # type: ignore[override]
+        super().join(a, b, keep=lambda net: net in rails)
 
 
 class _Builder:

@@ -12,6 +12,7 @@ from linter.results import GroupResult, LedResult
 from linter.rulekit import amps, at_corner, ohms, say, solved_groups, volts
 from linter.rules import Rule, register
 from linter.rules.led_overcurrent import current_resistor, is_shared, target_current
+from linter.unionfind import UnionFind
 
 DARK_A = 1e-6
 """A, below this an LED is said not to conduct (no visible light at all; from memory)."""
@@ -148,23 +149,16 @@ class LedUndercurrent(Rule):
                 f"or put fewer LEDs in the string")
 
 
-class _Joins:
-    """Union–find over net names joined by 0 Ω links, remembering which link joined what."""
+class _Joins(UnionFind):
+    """Nets joined by 0 Ω links, remembering which link joined what."""
 
     def __init__(self) -> None:
-        self.parent: dict[str, str] = {}
+        super().__init__()
         self.links: list[tuple[str, str, str]] = []
 
-    def find(self, net: str) -> str:
-        root = net
-        while self.parent.get(root, root) != root:
-            root = self.parent[root]
-        self.parent[net] = root
-        return root
-
-    def join(self, link: str, a: str, b: str) -> None:
+    def join_link(self, link: str, a: str, b: str) -> None:
         self.links.append((link, a, b))
-        self.parent[self.find(a)] = self.find(b)
+        self.join(a, b)
 
     def links_between(self, a: str, b: str) -> list[str]:
         """Links inside the cluster that holds ``a`` and ``b`` (all of them: the short)."""
@@ -178,5 +172,5 @@ def _link_clusters(circuit: Any) -> _Joins:
         if part.kind == "link":
             nets = [pin.net for pin in part.pins if pin.net is not None]
             if len(nets) == 2:
-                joins.join(part.ref, nets[0], nets[1])
+                joins.join_link(part.ref, nets[0], nets[1])
     return joins
