@@ -110,7 +110,7 @@ class StringHeadroom(Rule):
         label = worst.ref if len(string) == 1 else f"{string[0]}–{string[-1]}"
         text = (f"{amps(worst.current.min)} ({at_corner(worst.current.at_min, result)}) to "
                 f"{amps(worst.current.max)} ({at_corner(worst.current.at_max, result)}), "
-                f"{_ratio(worst):.2f}× (limit {limit:g}×) on {result.group.setter}"
+                f"{_ratio_text(_ratio(worst), limit)}× (limit {limit:g}×) on {result.group.setter}"
                 f"{head}{slope}")
         fix = None if rail is None else self._fix(context, result, leds, rail, limit, values)
         return Finding(rule=self.id, severity=context.severity(self), message=say(label, text),
@@ -144,6 +144,12 @@ class StringHeadroom(Rule):
                 values["fix_leds_per_string"] = float(fewer)
                 parts.append(f"or {fewer} LED{'s' if fewer > 1 else ''} per string")
         return "; ".join(parts) if parts else "no computed fix"
+
+
+def _ratio_text(ratio: float, limit: float) -> str:
+    """The ratio to two decimals, or three where two would print the limit itself (1.505)."""
+    text = f"{ratio:.2f}"
+    return f"{ratio:.3f}" if float(text) <= limit else text
 
 
 def _ratio(led: LedResult) -> float:
