@@ -183,3 +183,25 @@ def test_fixture_text_report_through_the_cli(netlist: Path, capsys) -> None:
     out = capsys.readouterr().out
     assert code in (EXIT_CLEAN, EXIT_FINDINGS)
     assert out.startswith(str(netlist)) and not _ANSI.search(out)
+
+
+def test_output_file_gets_ordinary_permissions(tmp_path):
+    # A report is an ordinary file: 0o666 less the umask (POSIX open() semantics), or the
+    # mode of the file it replaces — not the 0o600 of a temporary file.
+    import os
+    import stat
+
+    from linter.output import write_atomically
+
+    fresh = tmp_path / "fresh.json"
+    umask = os.umask(0o022)
+    try:
+        write_atomically(fresh, "{}\n")
+    finally:
+        os.umask(umask)
+    assert stat.S_IMODE(fresh.stat().st_mode) == 0o644
+    kept = tmp_path / "kept.json"
+    kept.write_text("old")
+    kept.chmod(0o640)
+    write_atomically(kept, "new")
+    assert stat.S_IMODE(kept.stat().st_mode) == 0o640 and kept.read_text() == "new"
