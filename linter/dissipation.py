@@ -44,6 +44,14 @@ class Allowance:
                 f"{self.ambient_c:g} °C ({self.factor * 100:.3g} % left), "
                 f"{self.share * 100:g} % share")
 
+    def values(self, power_max_w: float, power_nom_w: float,
+               rating_key: str = "pd_max_w") -> dict[str, float]:
+        """The finding values every dissipation rule reports (SI floats), the rating under
+        ``rating_key`` (``rating_w`` for a resistor, ``pd_max_w`` for a semiconductor)."""
+        return {"power_max_w": power_max_w, "power_nom_w": power_nom_w,
+                rating_key: self.rating_w, "allowed_w": self.allowed_w,
+                "ambient_max_c": self.ambient_c, "derating_share": self.share}
+
     def rating_needed(self, power_w: float) -> float | None:
         """The rating (W, same reference temperature) whose allowance covers ``power_w``;
         None when the ambient leaves no rating at all."""

@@ -9,7 +9,8 @@ from linter.dissipation import Allowance, over, semiconductor_allowance
 from linter.findings import Finding
 from linter.fixes import resistor_for_current_solved
 from linter.results import GroupResult, LedResult
-from linter.rulekit import amps, at_corner, led_data, ohms, say, solved_groups, volts, watts
+from linter.rulekit import (amps, at_corner, led_data, ohms, part_location, say, solved_groups,
+                            volts, watts)
 from linter.rules import Rule, register
 
 
@@ -73,15 +74,12 @@ class LedOverpower(Rule):
                                f"{watts(allowance.allowed_w)} allowed "
                                f"({allowance.describe('pd_max')}); {watts(power.nom)} nominal"
                                f"{also}")
-        values = {"power_max_w": power.max, "power_nom_w": power.nom,
-                  "pd_max_w": allowance.rating_w, "allowed_w": allowance.allowed_w,
-                  "ambient_max_c": allowance.ambient_c, "derating_share": allowance.share,
+        values = {**allowance.values(power.max, power.nom),
                   "current_max_a": led.current.max, "vf_max_v": led.vf.max}
-        part = context.circuit.parts.get(led.ref)
         return Finding(rule=self.id, severity=context.severity(self), message=message,
                        parts=tuple(x.ref for x, _ in hot), group=result.id, values=values,
                        fix=_fix(context, result, hot, led, allowance, values),
-                       location=None if part is None else part.location)
+                       location=part_location(context, led.ref))
 
 
 def _fix(context: Any, result: GroupResult, hot: list[tuple[LedResult, Allowance]],

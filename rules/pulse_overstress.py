@@ -8,7 +8,7 @@ from typing import Any, Iterable
 from linter.findings import Finding
 from linter.partdata import LedData
 from linter.results import GroupResult, LedResult
-from linter.rulekit import amps, at_corner, led_data, say, solved_groups
+from linter.rulekit import amps, at_corner, led_data, part_location, say, solved_groups
 from linter.rules import Rule, register
 from linter.units import format_si
 
@@ -88,11 +88,9 @@ class PulseOverstress(Rule):
                                f" on pulsed net {net}: {'; '.join(verdict.reasons)}")
         severity = context.severity(self) if verdict.breach else context.severity(self, "warning")
         values = {"peak_a": peak, **verdict.values}
-        part = context.circuit.parts.get(led.ref)
         return Finding(rule=self.id, severity=severity, message=message, parts=(led.ref,),
                        nets=(net,), group=result.id, values=values,
-                       fix=_fix(led.ref, peak, verdict), location=None if part is None
-                       else part.location)
+                       fix=_fix(led.ref, peak, verdict), location=part_location(context, led.ref))
 
 
 def _judge(peak: float, duty: float, period: float | None, data: LedData) -> _Verdict:

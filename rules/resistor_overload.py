@@ -66,9 +66,7 @@ class ResistorOverload(Rule):
         message = say(resistor.ref, f"{watts(power.max)} at {at_corner(power.at_max, result)}, "
                                     f"above the {watts(allowance.allowed_w)} allowed ({rating}); "
                                     f"{watts(power.nom)} nominal")
-        values = {"power_max_w": power.max, "power_nom_w": power.nom,
-                  "rating_w": allowance.rating_w, "allowed_w": allowance.allowed_w,
-                  "ambient_max_c": allowance.ambient_c, "derating_share": allowance.share,
+        values = {**allowance.values(power.max, power.nom, "rating_w"),
                   "current_max_a": resistor.current.max}
         return Finding(rule=self.id, severity=context.severity(self), message=message,
                        parts=(resistor.ref,), group=result.id, values=values,

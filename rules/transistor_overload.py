@@ -9,7 +9,8 @@ from linter.dissipation import Allowance, over, semiconductor_allowance
 from linter.findings import Finding
 from linter.partdata import BjtData, MosfetData
 from linter.results import GroupResult, TransistorResult
-from linter.rulekit import amps, at_corner, ohms, say, solved_groups, volts, watts
+from linter.rulekit import (amps, at_corner, ohms, part_location, say, solved_groups, volts,
+                            watts)
 from linter.rules import Rule, register
 
 REGULATING = ("npn-sink", "pnp-source")
@@ -78,15 +79,12 @@ class TransistorOverload(Rule):
                       f"{watts(power.max)} at {at_corner(power.at_max, result)}, above the "
                       f"{watts(allowance.allowed_w)} allowed ({rating}); {drop} up to "
                       f"{volts(transistor.vce.max)} at up to {amps(transistor.current.max)}")
-        values = {"power_max_w": power.max, "power_nom_w": power.nom,
-                  "pd_max_w": allowance.rating_w, "allowed_w": allowance.allowed_w,
-                  "ambient_max_c": allowance.ambient_c, "derating_share": allowance.share,
+        values = {**allowance.values(power.max, power.nom),
                   "vce_max_v": transistor.vce.max, "current_max_a": transistor.current.max}
         fix = _fix(context, result, transistor, allowance, values)
-        part = context.circuit.parts.get(transistor.ref)
         return Finding(rule=self.id, severity=context.severity(self), message=message,
                        parts=(transistor.ref,), group=result.id, values=values, fix=fix,
-                       location=None if part is None else part.location)
+                       location=part_location(context, transistor.ref))
 
 
 def _fix(context: Any, result: GroupResult, transistor: TransistorResult,
