@@ -33,6 +33,7 @@ __all__ = [
     "parse_with_tolerance",
     "parse_fraction",
     "parse_temperature",
+    "pick_scale",
     "format_si",
     "registry",
 ]
@@ -258,6 +259,20 @@ def parse_with_tolerance(text: str, unit: str) -> tuple[float, float | None]:
     return parse_number(text, unit), None
 
 
+def pick_scale(value: float, scales: tuple[tuple[float, str], ...]) -> tuple[float, str]:
+    """The largest (scale, prefix) of ``scales`` (largest first) that ``value`` reaches,
+    counting 999.5 as 1 k (it rounds up at three figures); the smallest when none does.
+
+    >>> pick_scale(4700.0, ((1e3, "k"), (1.0, "")))
+    (1000.0, 'k')
+    """
+    magnitude = abs(value)
+    for scale, prefix in scales:
+        if magnitude >= scale * 0.9995:
+            return scale, prefix
+    return scales[-1]
+
+
 _FORMAT_PREFIXES = ((1e9, "G"), (1e6, "M"), (1e3, "k"), (1.0, ""), (1e-3, "m"), (1e-6, "µ"),
                     (1e-9, "n"), (1e-12, "p"))
 
@@ -274,10 +289,7 @@ def format_si(value: float, unit: str, digits: int = 3) -> str:
     """
     if value == 0 or not math.isfinite(value):
         return f"{value:g} {unit}"
-    magnitude = abs(value)
-    for scale, prefix in _FORMAT_PREFIXES:
-        if magnitude >= scale * 0.9995:
-            break
+    scale, prefix = pick_scale(value, _FORMAT_PREFIXES)
     number = f"{value / scale:.{digits}g}"
     if "e" in number:
         number = f"{value / scale:.{digits}f}".rstrip("0").rstrip(".")

@@ -16,6 +16,8 @@ from __future__ import annotations
 import math
 import re
 
+from linter.units import pick_scale
+
 __all__ = ["SPICE_SCALES", "SpiceNumberError", "read_spice_number", "is_spice_number", "spice_spelling"]
 
 SPICE_SCALES: dict[str, float] = {
@@ -99,8 +101,5 @@ def spice_spelling(value: float) -> str:
     """
     if value == 0 or not math.isfinite(value):
         return f"{value:g}"
-    magnitude = abs(value)
-    for scale, suffix in _SPELLING_SCALES:
-        if magnitude >= scale * 0.9995:
-            break
+    scale, suffix = pick_scale(value, _SPELLING_SCALES)
     return f"{value / scale:.6g}{suffix}"
