@@ -36,8 +36,8 @@ if __package__ in (None, ""):  # run as a script: make ``bench`` importable
 
 from bench.templates import MCU, LeafPart, Template, make_templates  # noqa: E402
 
-__all__ = ["Channel", "Mcu", "Board", "generate", "write_all", "MCU_PINS", "MIN_PARTS",
-           "KIND_WEIGHTS", "main"]
+__all__ = ["Channel", "Mcu", "Board", "generate", "variants_for", "write_all", "MCU_PINS",
+           "MIN_PARTS", "KIND_WEIGHTS", "main"]
 
 HIGH_PINS = tuple(f"PA{i}" for i in range(16))
 """Microcontroller outputs driven high (sources, MOSFET gates)."""
@@ -47,7 +47,16 @@ MCU_PINS = ("VDD", "VSS", *HIGH_PINS, *LOW_PINS)
 """The microcontroller's pins in EDIF port and SPICE subcircuit node order."""
 
 VARIANTS = 3
-"""Templates per kind."""
+"""Templates per kind on the smallest boards."""
+PARTS_PER_VARIANT = 1000
+"""One more template per kind for every this many parts: a 100k-part board has 100 variants
+of each kind (800 channel templates), so its groups are not a handful of repeated circuits
+and a solver that remembers identical circuits still has hundreds of distinct ones to solve."""
+
+
+def variants_for(parts: int) -> int:
+    """Templates per kind for a board of ``parts`` parts: ``max(3, parts // 1000)``."""
+    return max(VARIANTS, parts // PARTS_PER_VARIANT)
 KIND_WEIGHTS = {
     "resistor": 20, "parallel": 10, "string": 12, "npn-sink": 10, "low-side-switch": 10,
     "pin-source": 12, "pin-sink": 8, "decoupling": 18,
@@ -211,8 +220,10 @@ MIN_PARTS = 300
 """Smallest part count accepted: room to place every template twice (about 200 parts)."""
 
 
-def generate(parts: int, seed: int, variants: int = VARIANTS) -> Board:
+def generate(parts: int, seed: int, variants: int | None = None) -> Board:
     """A board of exactly ``parts`` parts, the same for the same ``(parts, seed, variants)``.
+
+    ``variants`` templates of each kind; by default :func:`variants_for` ``(parts)``.
 
     Raises
     ------
@@ -222,7 +233,7 @@ def generate(parts: int, seed: int, variants: int = VARIANTS) -> Board:
     if parts < MIN_PARTS:
         raise ValueError(f"a board needs at least {MIN_PARTS} parts (got {parts})")
     rng = random.Random(seed)
-    templates = make_templates(rng, variants)
+    templates = make_templates(rng, variants_for(parts) if variants is None else variants)
     by_kind = {kind: [t for t in templates if t.kind == kind] for kind in KIND_WEIGHTS}
     fillers = by_kind["decoupling"]
     builder = _Builder()
@@ -269,10 +280,12 @@ def main(argv: Sequence[str] | None = None) -> int:
     parser.add_argument("--parts", type=int, default=10_000, help="number of parts (>= 300)")
     parser.add_argument("--seed", type=int, default=1)
     parser.add_argument("--out", type=Path, required=True, help="folder for the files")
+    parser.add_argument("--variants", type=int, default=None,
+                        help="templates per kind (default: max(3, parts // 1000))")
     args = parser.parse_args(argv)
     started = time.perf_counter()
     try:
-        board = generate(args.parts, args.seed)
+        board = generate(args.parts, args.seed, args.variants)
     except ValueError as exc:
         parser.error(str(exc))
     files = write_all(board, args.out)

@@ -217,3 +217,20 @@ def test_ledlint_recognises_every_generated_group(small, capsys: pytest.CaptureF
         for group in report["groups"]:
             found[group["topology"]] = found.get(group["topology"], 0) + 1
         assert found == expected, netlist  # the generator placed one group per channel
+
+
+@pytest.mark.parametrize(("parts", "per_kind"), [(1000, 3), (5000, 5), (12_345, 12)])
+def test_variety_grows_with_the_board(parts: int, per_kind: int) -> None:
+    """``max(3, parts // 1000)`` templates of each kind (the rule bench/README.md states), and
+    every one of them placed: a large board is not a handful of repeated circuits."""
+    board = generate(parts, seed=2)
+    kinds = {template.kind for template in board.templates}
+    assert len(board.templates) == per_kind * len(kinds)
+    placed = {channel.template.name for channel in board.channels}
+    assert placed == {template.name for template in board.templates}
+
+
+def test_variants_can_be_chosen() -> None:
+    """``variants`` overrides the default variety (4 per kind, by construction)."""
+    board = generate(1000, seed=2, variants=4)
+    assert len(board.templates) == 4 * len(KIND_WEIGHTS)
