@@ -28,6 +28,7 @@ from linter.partdata import Ambient, PartDataMap, Rail
 from linter.reduce import group_result
 from linter.reduce_bucket import bucket_results
 from linter.results import GroupResult
+from linter.solve_memo import representatives
 
 __all__ = ["VF_PROBE", "WARM_PROBE_AXES", "STAGE_TIMES", "analyse", "operating_point"]
 
@@ -161,14 +162,25 @@ def _start(bucket: _Bucket, plan: RowPlan, probed: dict | None) -> np.ndarray:
     return start.reshape(g * s * rows, n)
 
 
-def _solve_bucket(models: list[GroupModel], ambient: Ambient, per_group: bool = False
-                  ) -> list[GroupResult]:
+def _solve_bucket(models: list[GroupModel], ambient: Ambient, per_group: bool = False,
+                  memoise: bool = True) -> list[GroupResult]:
     """Every group of a bucket solved and reduced; ``per_group`` reduces each group on its
-    own with :func:`linter.reduce.group_result` (the plain reference path, for tests)."""
+    own with :func:`linter.reduce.group_result` (the plain reference path, for tests).
+
+    With ``memoise``, groups whose every solver input is the same (see
+    :mod:`linter.solve_memo`) are solved once, and each group's records are made from its
+    representative's rows with its own names; without, every group is solved.
+    """
     with _stage("params"):
         data = BucketData.of(models)
+        if memoise:
+            first, rep = representatives(models, data)
+            solved = [models[i] for i in first.tolist()]
+            data = data.take(first)
+        else:
+            rep, solved = np.arange(len(models)), models
     with _stage("nominal"):
-        bucket = _nominal(models, data, ambient)
+        bucket = _nominal(solved, data, ambient)
     axes = len(models[0].axes)
     probed = None
     if axes > FULL_PRODUCT_AXES or axes >= WARM_PROBE_AXES:
@@ -176,18 +188,18 @@ def _solve_bucket(models: list[GroupModel], ambient: Ambient, per_group: bool = 
             probed = _probe(bucket)
     with _stage("plan"):
         codes, counts, scheme = _codes(bucket, probed)
-        plan = _plan(models, codes)
+        plan = _plan(solved, codes)
         start = _start(bucket, plan, probed)
     with _stage("corners"):
-        out = run(models, plan, ambient, start, data)
+        out = run(solved, plan, ambient, start, data)
     corners = codes.shape[1]
     with _stage("reduce"):
         if per_group:
-            return [group_result(model, {k: a[i] for k, a in out.items()}, plan.codes[i],
-                                 corners, scheme, ambient, VF_PROBE, int(counts[i]))
-                    for i, model in enumerate(models)]
+            return [group_result(model, {k: a[r] for k, a in out.items()}, plan.codes[r],
+                                 corners, scheme, ambient, VF_PROBE, int(counts[r]))
+                    for model, r in zip(models, rep.tolist())]
         return bucket_results(models, out, plan.codes, corners, counts, scheme, ambient,
-                              VF_PROBE)
+                              VF_PROBE, rep)
 
 
 def analyse(groups: Iterable[Group], circuit: Circuit, part_data: PartDataMap,

@@ -58,6 +58,11 @@ class BucketData:
     q: np.ndarray
     m: np.ndarray
 
+    def take(self, index: np.ndarray) -> "BucketData":
+        """The rows of the models ``index`` (in that order)."""
+        return BucketData(**{name: getattr(self, name)[index]
+                             for name in self.__dataclass_fields__})
+
     @classmethod
     def of(cls, models: list[GroupModel]) -> "BucketData":
         first = models[0]

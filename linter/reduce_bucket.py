@@ -273,19 +273,29 @@ def _simple_tables(b: _Bucket) -> tuple[dict, dict]:
 
 
 def bucket_results(models: list[GroupModel], out: dict, codes: np.ndarray, corners: int,
-                   distinct: np.ndarray, scheme: str, ambient: Ambient, probe: float
-                   ) -> list[GroupResult]:
-    """Every group's result from the bucket's rows (arrays (G, S, R, k)); ``codes`` (G, R, A)
-    the row codes, ``corners`` the corner rows per scenario of which ``distinct`` (G,)
-    differ (the rest repeat the nominal corner)."""
-    b = _Bucket(models, out, corners)
+                   distinct: np.ndarray, scheme: str, ambient: Ambient, probe: float,
+                   rep: np.ndarray | None = None) -> list[GroupResult]:
+    """Every group's result from the bucket's rows (arrays (G', S, R, k)); ``codes`` (G', R, A)
+    the row codes, ``corners`` the corner rows per scenario of which ``distinct`` (G',)
+    differ (the rest repeat the nominal corner).
+
+    ``rep`` (G,) gives, for each of ``models``, the row block (0 … G'−1) solved for it (see
+    :mod:`linter.solve_memo`; by default model g has block g); block b was solved for the
+    first model that names it. The tables are reduced once per block, and each group's
+    records are made with its own names.
+    """
+    rep = np.arange(len(models)) if rep is None else rep
+    first = np.full(out["converged"].shape[0], -1, np.intp)
+    for index, block in reversed(list(enumerate(rep.tolist()))):
+        first[block] = index
+    b = _Bucket([models[i] for i in first.tolist()], out, corners)
     leds = _led_table(b, probe)
     resistors, pins = _simple_tables(b)
     transistors = _transistor_tables(b)
     rails = _rail_min_table(b)
     any_ok = b.ok.any(axis=(1, 2)).tolist()
     results = []
-    for g, model in enumerate(models):
+    for model, g in zip(models, rep.tolist()):
         count = int(distinct[g])
         if not any_ok[g]:
             results.append(GroupResult(model.group, "unsolved", corners=count, scheme=scheme,
