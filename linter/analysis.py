@@ -27,6 +27,8 @@ from linter.netbuild import GroupModel, ModelGap, build_model
 from linter.partdata import Ambient, PartDataMap, Rail
 from linter.reduce import group_result
 from linter.reduce_bucket import bucket_results
+from linter.group_key import GroupNames, group_key
+from linter.result_rename import renamed
 from linter.results import GroupResult
 from linter.solve_memo import representatives
 
@@ -203,8 +205,15 @@ def _solve_bucket(models: list[GroupModel], ambient: Ambient, per_group: bool = 
 
 
 def analyse(groups: Iterable[Group], circuit: Circuit, part_data: PartDataMap,
-            rails: Mapping[str, Rail], ambient: Ambient = Ambient()) -> tuple[GroupResult, ...]:
+            rails: Mapping[str, Rail], ambient: Ambient = Ambient(), *,
+            memoise: bool = True) -> tuple[GroupResult, ...]:
     """Solve every group at its nominal and worst-case corners.
+
+    With ``memoise`` (the default), a group whose :func:`~linter.group_key.group_key` equals
+    an earlier group's is neither built nor solved: its result is the earlier one's with its
+    own names (:mod:`linter.result_rename`); and groups of one bucket with the same solver
+    inputs are solved once (:mod:`linter.solve_memo`). ``memoise=False`` builds and solves
+    every group (the plain reference path).
 
     Parameters
     ----------
@@ -224,20 +233,47 @@ def analyse(groups: Iterable[Group], circuit: Circuit, part_data: PartDataMap,
     STAGE_TIMES.clear()
     results: list[GroupResult | None] = [None] * len(groups)
     buckets: dict[tuple, list[tuple[int, GroupModel]]] = {}
+    followers: list[tuple[int, int, GroupNames]] = []
+    rails = dict(rails)
     with _gc_paused():
         with _stage("build"):
+            templates: dict[tuple, tuple[int, GroupNames, GroupModel | None]] = {}
             for index, group in enumerate(groups):
+                if memoise:
+                    key, names = group_key(group, circuit, part_data, rails)
+                    template = templates.get(key)
+                    if template is not None and template[2] is not None:
+                        followers.append((index, template[0], names))
+                        continue
                 try:
-                    model = build_model(group, circuit, part_data, dict(rails))
+                    model = build_model(group, circuit, part_data, rails)
                 except ModelGap as exc:
                     results[index] = GroupResult(group, "unsolved", reason=str(exc))
-                    continue
-                buckets.setdefault(model.signature, []).append((index, model))
+                    model = None
+                if memoise and template is None:
+                    templates[key] = (index, names, model)
+                if model is not None:
+                    buckets.setdefault(model.signature, []).append((index, model))
         for members in buckets.values():
-            solved = _solve_bucket([m for _, m in members], ambient)
+            solved = _solve_bucket([m for _, m in members], ambient, memoise=memoise)
             for (index, _), result in zip(members, solved):
                 results[index] = result
+        with _stage("rename"):
+            _fill_followers(results, groups, followers, templates, buckets)
     return tuple(r for r in results if r is not None)
+
+
+def _fill_followers(results: list, groups: tuple[Group, ...],
+                    followers: list[tuple[int, int, GroupNames]], templates: dict,
+                    buckets: dict) -> None:
+    """Each follower's result: its template's, with the follower's own names."""
+    if not followers:
+        return
+    known = {index: (names, model) for index, names, model in templates.values()}
+    for index, template, (refs, nets) in followers:
+        names, model = known[template]
+        results[index] = renamed(results[template], groups[index], dict(zip(names[0], refs)),
+                                 model.note_parts)
 
 
 def operating_point(group: Group, circuit: Circuit, part_data: PartDataMap,

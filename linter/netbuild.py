@@ -31,7 +31,7 @@ from linter.solve import Network
 from linter.unionfind import UnionFind
 
 __all__ = ["ModelGap", "ResistorSpec", "DiodeSpec", "BjtSpec", "MosfetSpec", "PinSpec",
-           "FixedSpec", "GroupModel", "build_model", "GENERIC"]
+           "FixedSpec", "GroupModel", "build_model", "supply_pin_names", "GENERIC"]
 
 GENERIC: dict[str, float] = {
     "resistor_tolerance": 0.05,   # DESIGN.md: BOM, else 5 %
@@ -129,9 +129,11 @@ class PinSpec:
 
 @dataclass(frozen=True)
 class FixedSpec:
-    """A fixed node: ``rail`` (at its corner voltage), ``pin`` (pin source) or ``headroom``."""
+    """A fixed node: ``rail`` (at its corner voltage), ``pin`` (pin source) or ``headroom``;
+    ``name`` is its node key: ``("f", net)``, ``("pin", pin id)`` or ``("h", net)`` (tuples,
+    so that no net name can be taken for one)."""
 
-    name: str
+    name: tuple[str, str]
     kind: str
     rail: Rail | None = None
     axis: int = -1
@@ -145,7 +147,7 @@ class GroupModel:
     group: Group
     network: Network
     axes: tuple[Axis, ...]
-    nodes: dict[str, int]
+    nodes: dict[str | tuple[str, str], int]
     fixed: tuple[FixedSpec, ...]
     resistors: tuple[ResistorSpec, ...]
     diodes: tuple[DiodeSpec, ...]
@@ -157,6 +159,8 @@ class GroupModel:
     headroom: tuple[int, int, str] | None
     notes: tuple[str, ...] = ()
     signature: tuple = field(default=())
+    note_parts: tuple[tuple[str, str], ...] = ()
+    """``notes`` as (part reference, text): each note is ``f"{ref}: {text}"``."""
 
 
 _PIN_NAMES = {
@@ -201,8 +205,8 @@ class _Builder:
         self.bjts: list[BjtSpec] = []
         self.mosfets: list[MosfetSpec] = []
         self.pins: list[PinSpec] = []
-        self.notes: list[str] = []
-        self.headroom: tuple[str, int, str] | None = None
+        self.notes: list[tuple[str, str]] = []
+        self.headroom: tuple[tuple[str, str], int, str] | None = None
         self.headroom_ends: set[str] = set()
 
     def axis(self, kind: str, name: str) -> int:
@@ -212,12 +216,12 @@ class _Builder:
             self.axes.append(Axis(kind, name))  # type: ignore[arg-type]
         return found
 
-    def key(self, net: str) -> str:
-        """The node key of a net: fixed (``f:``) when it is a rail, else unknown."""
+    def key(self, net: str) -> str | tuple[str, str]:
+        """The node key of a net: fixed (``("f", net)``) when it is a rail, else the net."""
         net = self.nets.find(net)
         rail = self.rails.get(net)
         if rail is not None:
-            name = f"f:{net}"
+            name = ("f", net)
             if all(f.name != name for f in self.fixed):
                 axis = self.axis("rail", net) if rail.min < rail.max else -1
                 self.fixed.append(FixedSpec(name, "rail", rail, axis))
@@ -226,7 +230,7 @@ class _Builder:
             self.unknown.append(net)
         return net
 
-    def inner(self, label: str) -> str:
+    def inner(self, label: tuple[str, str]) -> tuple[str, str]:
         self.unknown.append(label)
         return label
 
@@ -236,7 +240,7 @@ class _Builder:
 
     def note(self, ref: str, what: tuple[str, ...]) -> None:
         if what:
-            self.notes.append(f"{ref}: generic {', '.join(what)}")
+            self.notes.append((ref, f"generic {', '.join(what)}"))
 
 
 def _add_resistor(b: _Builder, part: Part) -> None:
@@ -273,9 +277,9 @@ def _add_diode(b: _Builder, part: Part) -> None:
     anode = b.key(_pin_net(part, _PIN_NAMES["led"][0], 0))
     cathode = b.key(_pin_net(part, _PIN_NAMES["led"][1], 1))
     if b.headroom is not None and part.ref in b.headroom_ends:
-        if b.headroom[1] > 0 and anode == f"f:{b.headroom[2]}":
+        if b.headroom[1] > 0 and anode == ("f", b.headroom[2]):
             anode = b.headroom[0]
-        elif b.headroom[1] < 0 and cathode == f"f:{b.headroom[2]}":
+        elif b.headroom[1] < 0 and cathode == ("f", b.headroom[2]):
             cathode = b.headroom[0]
     if part.kind == "led":
         try:
@@ -297,7 +301,7 @@ def _add_diode(b: _Builder, part: Part) -> None:
         rs = params.get("RS", 0.0)
     inner = anode
     if rs > 0:
-        inner = b.inner(f"{part.ref}:inner")
+        inner = b.inner(("inner", part.ref))
         b.elements["r"].append((anode, inner))
         b.resistors.append(ResistorSpec(None, "rs", rs, 0.0, -1))
     b.elements["d"].append((inner, cathode))
@@ -356,12 +360,17 @@ def _add_mosfet(b: _Builder, part: Part) -> None:
                                 vto, kp, float(params.get("LAMBDA", 0.0)), data))
 
 
+def supply_pin_names(mcu: McuData) -> tuple[str, ...]:
+    """The case-folded names of a microcontroller's supply pins (its data, else the usual)."""
+    return tuple(n.casefold() for n in mcu.supply_pins) or _SUPPLY_NAMES
+
+
 def _mcu_supply(b: _Builder, ref: str, mcu: McuData) -> Rail | None:
     """The rail on the microcontroller's supply pin, or None."""
     part = b.circuit.parts.get(ref)
     if part is None:
         return None
-    names = tuple(n.casefold() for n in mcu.supply_pins) or _SUPPLY_NAMES
+    names = supply_pin_names(mcu)
     for pin in part.pins:
         if pin.name.casefold() in names and pin.net is not None:
             rail = b.rails.get(b.nets.find(pin.net))
@@ -385,8 +394,8 @@ def _add_pins(b: _Builder) -> None:
             b.note(drive.part, ("output_resistance",))
         axis = b.axis("rail", supply.name) if supply is not None and supply.min < supply.max else -1
         index = len(b.pins)
-        b.fixed.append(FixedSpec(f"pin:{drive.id}", "pin", supply, axis, index))
-        b.elements["r"].append((f"pin:{drive.id}", b.key(drive.net)))
+        b.fixed.append(FixedSpec(("pin", drive.id), "pin", supply, axis, index))
+        b.elements["r"].append((("pin", drive.id), b.key(drive.net)))
         b.resistors.append(ResistorSpec(None, "pin", float(rout), 0.0, -1, pin=index))
         b.pins.append(PinSpec(drive.id, drive.net, 0, len(b.resistors) - 1, axis, supply,
                               mcu.supply_voltage, mcu.pin_current_max))
@@ -412,8 +421,8 @@ def _plan_headroom(b: _Builder) -> None:
     if rail is None:
         return
     axis = b.axis("rail", net) if rail.min < rail.max else -1
-    b.fixed.append(FixedSpec(f"h:{net}", "headroom", rail, axis))
-    b.headroom = (f"h:{net}", sign, net)
+    b.fixed.append(FixedSpec(("h", net), "headroom", rail, axis))
+    b.headroom = (("h", net), sign, net)
     b.headroom_ends = set(ends)
 
 
@@ -473,7 +482,7 @@ def _finish(b: _Builder) -> GroupModel:
                    for d in b.diodes)
     bjts = tuple(replace(q, nodes=tuple(index[k] for k in q.nodes)) for q in b.bjts)  # type: ignore[index]
     mosfets = tuple(replace(m, nodes=tuple(index[k] for k in m.nodes)) for m in b.mosfets)  # type: ignore[index]
-    pins = [replace(p, source=index[f"pin:{p.id}"]) for p in b.pins]
+    pins = [replace(p, source=index[("pin", p.id)]) for p in b.pins]
     levels, lit = _scenario_arrays(b.group, pins, [d.ref for d in diodes if d.curve is not None])
     headroom = None if b.headroom is None else (index[b.headroom[0]], b.headroom[1], b.headroom[2])
     signature = (
@@ -488,7 +497,8 @@ def _finish(b: _Builder) -> GroupModel:
     )
     return GroupModel(b.group, network, tuple(b.axes), dict(index), tuple(b.fixed),
                       tuple(b.resistors), diodes, bjts, mosfets, tuple(pins), levels, lit,
-                      headroom, tuple(b.notes), signature)
+                      headroom, tuple(f"{ref}: {text}" for ref, text in b.notes), signature,
+                      tuple(b.notes))
 
 
 def build_model(group: Group, circuit: Circuit, part_data: PartDataMap,

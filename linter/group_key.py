@@ -1,0 +1,131 @@
+"""The electrical key of an LED group, so that groups built and solved alike are done once.
+
+:func:`group_key` lists everything :func:`linter.netbuild.build_model` and the reduction read
+about a group, with its part references and its plain net names replaced by their order of
+first appearance (rail nets stay as they are, with their :class:`~linter.partdata.Rail`).
+Two groups with equal keys build isomorphic models: the same network, figures, axes and
+scenarios, differing only in those names; their results differ only in the names, which
+:mod:`linter.result_rename` puts back.
+
+What the key holds (each a read of :mod:`linter.netbuild`, in its order):
+
+* the group: topology, setter, its rails, the LED strings, its pins (part, pin name, net)
+  and, per scenario, its name, the level of each of the group's pins and the LEDs lit;
+* per part of the group (and any string end outside it): whether the circuit has it, its
+  kind; for kinds that are modelled, its value, part number, SPICE model parameters, pins
+  (name and net, in order) and part data (every field but ``note``, a text naming the part
+  that the model never reads); for links and inductors, their pins' nets;
+* per driving microcontroller: its part data and its supply pins' names and nets.
+
+The ambient range is the same for the whole analysis and is not in the key.
+"""
+
+from __future__ import annotations
+
+from dataclasses import fields
+from typing import Any, Mapping
+
+from linter.groups import Group
+from linter.model import Circuit, Part
+from linter.netbuild import _ADDERS, supply_pin_names
+from linter.partdata import McuData, PartDataMap, Rail
+
+__all__ = ["GroupNames", "group_key"]
+
+GroupNames = tuple[tuple[str, ...], tuple[str, ...]]
+"""A group's part references and plain net names, in their order in its key."""
+
+_JOINING = ("link", "inductor")
+"""Kinds whose pins' nets are merged into one node."""
+
+_DATA_FIELDS: dict[type, tuple[str, ...]] = {}
+
+
+class _Encoder:
+    """Numbers references and plain nets by first appearance."""
+
+    def __init__(self, rails: Mapping[str, Rail]) -> None:
+        self.rails = rails
+        self.refs: dict[str, int] = {}
+        self.nets: dict[str, int] = {}
+
+    def ref(self, name: str) -> int:
+        found = self.refs.get(name)
+        if found is None:
+            found = self.refs[name] = len(self.refs)
+        return found
+
+    def name(self, name: str | None) -> Any:
+        """A reference of the group by its number; any other text as it is."""
+        found = self.refs.get(name) if name is not None else None
+        return ("l", name) if found is None else found
+
+    def net(self, net: str | None) -> Any:
+        if net is None:
+            return None
+        rail = self.rails.get(net)
+        if rail is not None:
+            return ("r", net, rail)
+        found = self.nets.get(net)
+        if found is None:
+            found = self.nets[net] = len(self.nets)
+        return found
+
+
+def _data_key(data: Any) -> Any:
+    """A part data record as a tuple of its fields but ``note``."""
+    if data is None:
+        return None
+    kind = type(data)
+    names = _DATA_FIELDS.get(kind)
+    if names is None:
+        names = _DATA_FIELDS[kind] = tuple(f.name for f in fields(data) if f.name != "note")
+    return (kind.__name__,) + tuple(getattr(data, n) for n in names)
+
+
+def _part_key(enc: _Encoder, part: Part | None, data: Any) -> tuple:
+    if part is None:
+        return ("missing",)
+    if part.kind in _JOINING:
+        return (part.kind, tuple(enc.net(p.net) for p in part.pins))
+    if part.kind not in _ADDERS:
+        return (part.kind,)
+    model = part.model
+    return (part.kind, part.value_si, part.part_number,
+            tuple(model.params.items()) if model is not None else None,
+            tuple((p.name, enc.net(p.net)) for p in part.pins), _data_key(data))
+
+
+def _drive_key(enc: _Encoder, circuit: Circuit, part_data: PartDataMap, drive) -> tuple:
+    data = part_data.get(drive.part)
+    mcu = data if isinstance(data, McuData) else McuData()
+    part = circuit.parts.get(drive.part)
+    names = supply_pin_names(mcu)
+    supply = None if part is None else tuple(
+        (p.name, enc.net(p.net)) for p in part.pins if p.name.casefold() in names)
+    return (enc.ref(drive.part), drive.pin, enc.net(drive.net), _data_key(data), supply)
+
+
+def group_key(group: Group, circuit: Circuit, part_data: PartDataMap,
+              rails: Mapping[str, Rail]) -> tuple[tuple, GroupNames]:
+    """(key, names): equal keys build models equal but for the names (see the module)."""
+    enc = _Encoder(rails)
+    parts = circuit.parts
+    for ref in group.parts:
+        enc.ref(ref)
+    inside = [_part_key(enc, parts.get(ref), part_data.get(ref)) for ref in group.parts]
+    outside = tuple(_part_key(enc, parts.get(ref), part_data.get(ref))
+                    for ref in dict.fromkeys(s[i] for s in group.strings if s for i in (0, -1))
+                    if ref not in enc.refs and enc.ref(ref) >= 0)
+    drives = tuple(_drive_key(enc, circuit, part_data, d) for d in group.pins)
+    pin_ids = {d.id: i for i, d in enumerate(group.pins)}
+    scenarios = tuple(
+        (s.name, tuple(s.levels.get(d.id) for d in group.pins),
+         None if s.lit is None else tuple(enc.name(x) for x in s.lit))
+        for s in group.scenarios)
+    setter = group.setter
+    setter_key = ("p", pin_ids[setter]) if setter in pin_ids else enc.name(setter)
+    key = (group.topology, setter_key, group.rails,
+           tuple(tuple(enc.name(x) for x in s) for s in group.strings),
+           tuple(inside), outside, drives, scenarios)
+    return key, (tuple(enc.refs), tuple(enc.nets))
