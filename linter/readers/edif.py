@@ -28,6 +28,7 @@ from collections import Counter
 from linter.errors import NetlistError
 from linter.kinds import infer_kind
 from linter.model import Circuit, Net, Part, Pin, SourceLocation
+from linter.readers.edif_compound import EdifCompounds
 from linter.readers.edif_flatten import FlatDesign, Leaf, NetWire, flatten
 from linter.readers.edif_syntax import View, member_display, read_edif_file
 from linter.readers.sexpr import Document, parse, paused_gc
@@ -74,7 +75,22 @@ def read_edif(text: str, source: str) -> Circuit:
 
 
 def _read(text: str, source: str) -> Circuit:
-    doc = parse(text, source)
+    """The circuit, the frequent forms read whole (:mod:`linter.readers.edif_compound`).
+
+    A netlist that cannot be read is read again token by token, and that reading raises the
+    error: its message is then the same whichever forms were read whole.
+    """
+    doc = parse(text, source, EdifCompounds())
+    try:
+        return _circuit(doc)
+    except NetlistError:
+        pass
+    del doc
+    return _circuit(parse(text, source))
+
+
+def _circuit(doc: Document) -> Circuit:
+    source = doc.source
     edif = read_edif_file(doc)
     flat = flatten(edif)
     refs = _part_refs(flat.leaves, doc)

@@ -83,6 +83,9 @@ def read_view(reader: FormReader, form: list, cell: Name) -> View:
     nets: list[Net] = []
     contents = _child(form, "contents")
     for item in contents or ():
+        if type(item) is Instance:  # read whole by the parser
+            _add_instance(reader, item, instances, cell)
+            continue
         kw = keyword(item)
         if kw == "instance":
             _add_instance(reader, item, instances, cell)
@@ -91,8 +94,10 @@ def read_view(reader: FormReader, form: list, cell: Name) -> View:
     return View(name, ports, instances, nets, reader.properties(form), contents is not None, form)
 
 
-def _add_instance(reader: FormReader, form: list, instances: dict[str, Instance], cell: Name) -> None:
-    instance = read_instance(reader, form)
+def _add_instance(reader: FormReader, form: list | Instance, instances: dict[str, Instance],
+                  cell: Name) -> None:
+    instance = form if type(form) is Instance else read_instance(reader, form)  # type: ignore[arg-type]
+    form = instance.form
     first = instances.get(instance.name.key)
     if first is not None:
         line, column = reader.doc.position_of(first.form)
@@ -148,6 +153,9 @@ def read_net(reader: FormReader, form: list) -> Net:
     joined: list[PortRef | tuple[PortRef, ...]] = []
     for joined_form in _children(form, "joined"):
         for item in joined_form[1:]:
+            if type(item) is PortRef:  # read whole by the parser
+                joined.append(item)
+                continue
             kw = keyword(item)
             if kw == "portref":
                 joined.append(read_port_ref(reader, item))
@@ -162,6 +170,8 @@ def read_net(reader: FormReader, form: list) -> Net:
 
 
 def _port_list_entry(reader: FormReader, entry: object, port_list: list) -> PortRef:
+    if type(entry) is PortRef:  # read whole by the parser
+        return entry
     if keyword(entry) == "portref":
         return read_port_ref(reader, entry)  # type: ignore[arg-type]
     port, member = _port_name_ref(reader, entry, port_list)

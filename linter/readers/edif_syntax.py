@@ -8,7 +8,9 @@ does. Keywords are matched in any letter case; identifiers are compared case-ins
 display text, such as ``"+5V"`` for the identifier ``&_5V``).
 
 Each record keeps the form it came from (``form``) so that later errors and locations can
-point at it through :meth:`linter.readers.sexpr.Document.position_of`.
+point at it through :meth:`linter.readers.sexpr.Document.position_of`: the list, or for an
+instance or port reference read whole (:mod:`linter.readers.edif_compound`) the offset of
+its ``(``.
 """
 
 from __future__ import annotations
@@ -22,7 +24,7 @@ from linter.readers.sexpr import Document, Symbol
 
 __all__ = [
     "Name", "Port", "PortRef", "Net", "Instance", "View", "Cell", "Library", "Design",
-    "EdifFile", "FormReader", "keyword", "read_edif_file", "member_display",
+    "EdifFile", "FormReader", "keyword", "read_edif_file", "member_display", "decode_string",
 ]
 
 
@@ -58,7 +60,7 @@ class PortRef:
     port: str
     member: tuple[int, ...] | None
     instance: str | None
-    form: list = field(repr=False)
+    form: list | int = field(repr=False)  # the list, or the offset of a compound form
 
 
 @dataclass(frozen=True, slots=True)
@@ -80,7 +82,7 @@ class Instance:
     view: str
     designator: str | None
     properties: dict[str, str]
-    form: list = field(repr=False)
+    form: list | int = field(repr=False)  # the list, or the offset of a compound form
 
 
 @dataclass
@@ -134,6 +136,13 @@ class EdifFile:
 _ESCAPE = re.compile(r"%([0-9]+(?:\s+[0-9]+)*)\s*%")
 
 
+def decode_string(text: str) -> str:
+    """A string's text with EDIF's ``%n%`` escapes (decimal character codes) decoded."""
+    if "%" not in text:
+        return text
+    return _ESCAPE.sub(lambda m: "".join(chr(int(n)) for n in m.group(1).split()), text)
+
+
 def keyword(form: object) -> str:
     """The form's keyword in lower case, or '' when ``form`` is not a list headed by a symbol."""
     if isinstance(form, list) and form and isinstance(form[0], Symbol):
@@ -179,7 +188,7 @@ class FormReader:
             token = self.arg(token, 1, "a string")  # type: ignore[arg-type]
         if not isinstance(token, str) or isinstance(token, Symbol):
             self.fail(form, f"malformed '{form[0]}': expected a string, found {_show(token)}")
-        return _ESCAPE.sub(lambda m: "".join(chr(int(n)) for n in m.group(1).split()), token)
+        return decode_string(token)  # type: ignore[arg-type]
 
     def identifier(self, token: object, form: list) -> Symbol:
         if type(token) is Symbol:

@@ -38,7 +38,7 @@ from array import array
 from bisect import bisect_right
 from itertools import accumulate, chain, compress, count
 from operator import add, methodcaller
-from typing import Iterable, Iterator, Sequence
+from typing import Callable, Iterable, Iterator, Protocol, Sequence
 
 from sexpdata import Symbol
 
@@ -46,7 +46,7 @@ from linter.errors import NetlistError
 from linter.gc_pause import paused_gc  # the trees hold no reference cycles; see there
 from linter.limits import active
 
-__all__ = ["MAX_DEPTH", "Document", "parse", "paused_gc", "Symbol"]
+__all__ = ["MAX_DEPTH", "Document", "CompoundForms", "parse", "paused_gc", "Symbol"]
 
 MAX_DEPTH = 1000
 """Deepest list nesting accepted by default (``max_nesting`` in :mod:`linter.limits` sets it). EDIF netlists nest about 10 deep; 1,000 is far beyond any
@@ -88,22 +88,26 @@ class Document:
         The top-level datum (for EDIF, the ``(edif ...)`` list).
     """
 
-    def __init__(self, text: str, source: str, root: object, lists: list[list]) -> None:
+    def __init__(self, text: str, source: str, root: object, lists: list[list],
+                 opens: array | None = None) -> None:
         self.text = text
         self.source = source
         self.root = root
         self._lists = lists  # every list, in the order of its "(" in the text
         self._ordinal: dict[int, int] | None = None
-        self._open_offsets: array | None = None
-        self._line_starts: list[int] | None = None
+        self._open_offsets: array | None = opens  # the offset just after each list's "("
+        self._line_starts: array | None = None
         self._single_lookups = 0
 
-    def offset_of(self, node: list) -> int:
-        """Character offset of the ``(`` that opens ``node`` (a list of this document).
+    def offset_of(self, node: list | int) -> int:
+        """Character offset of the ``(`` that opens ``node`` (a list of this document, or a
+        compound form's record, which is located by its offset: an int is returned as it is).
 
         The first few lookups search the lists in order; after :data:`_SEARCHES` of them an
         index of every list is built (for many lists at once, :meth:`offsets_of` is cheaper).
         """
+        if type(node) is int:
+            return node
         if self._ordinal is None and self._single_lookups >= _SEARCHES:
             self._ordinal = {id(item): index for index, item in enumerate(self._lists)}
         self._single_lookups += 1
@@ -115,8 +119,15 @@ class Document:
             raise ValueError("node is not a list of this document")
         return self._opens()[ordinal] - 1
 
-    def offsets_of(self, nodes: Sequence[list]) -> list[int]:
-        """Character offsets of the ``(`` of many lists of this document, in one pass."""
+    def offsets_of(self, nodes: Sequence[list | int]) -> list[int]:
+        """Character offsets of the ``(`` of many lists of this document (or offsets as they
+        are, see :meth:`offset_of`), in one pass."""
+        if all(type(node) is int for node in nodes):
+            return list(nodes)  # type: ignore[arg-type]
+        if any(type(node) is int for node in nodes):
+            lists = [node for node in nodes if type(node) is not int]
+            found = iter(self.offsets_of(lists))  # type: ignore[arg-type]
+            return [node if type(node) is int else next(found) for node in nodes]  # type: ignore[misc]
         wanted: dict[int, int | None] = dict.fromkeys(map(id, nodes))  # a form may be placed twice
         every = list(map(id, self._lists))
         for ordinal in compress(range(len(every)), map(wanted.__contains__, every)):
@@ -126,7 +137,7 @@ class Document:
         ends = self._opens()
         return [ends[wanted[id(node)]] - 1 for node in nodes]  # type: ignore[index]
 
-    def positions_of(self, nodes: Sequence[list]) -> list[tuple[int, int]]:
+    def positions_of(self, nodes: Sequence[list | int]) -> list[tuple[int, int]]:
         """1-based (line, column) of the ``(`` of many lists of this document, in one pass."""
         return [self.position(offset) for offset in self.offsets_of(nodes)]
 
@@ -165,11 +176,12 @@ class Document:
             else:
                 ends = (match.end() for match in _CR_OR_STRING.finditer(self.text)
                         if match.group() == "\r")
-            self._line_starts = [0, *ends]
+            self._line_starts = array("q", [0])
+            self._line_starts.extend(ends)
         line = bisect_right(self._line_starts, offset)
         return line, offset - self._line_starts[line - 1] + 1
 
-    def position_of(self, node: list) -> tuple[int, int]:
+    def position_of(self, node: list | int) -> tuple[int, int]:
         """1-based (line, column) of the ``(`` that opens ``node``."""
         return self.position(self.offset_of(node))
 
@@ -180,8 +192,37 @@ class Document:
         return NetlistError(self.source, line, column, message)
 
 
-def parse(text: str, source: str) -> Document:
+class CompoundForms(Protocol):
+    """Whole forms read in one regex match instead of token by token (see :func:`parse`).
+
+    ``pattern`` matches one token per match, like :data:`_TOKEN`, with optional leading
+    whitespace: group ``token_group`` holds a plain token (a parenthesis, a string, an atom or
+    a lone quote); any other outermost group is a compound form, a complete well-formed list
+    whose atoms are all symbols or strings, nested at most :data:`COMPOUND_DEPTH` deep.
+    ``build(match)`` turns a compound match into the record that stands in the tree where the
+    form's list would be; the record is located by the offset ``match.start(token_group)``
+    would have, which the builder reads from the match itself.
+    """
+
+    pattern: re.Pattern[str]
+    token_group: int
+
+    def build(self, match: re.Match[str]) -> object: ...
+
+
+COMPOUND_DEPTH = 8
+"""Deepest nesting a compound form may have; near :data:`MAX_DEPTH` the plain parser runs."""
+
+
+class _Fallback(Exception):
+    """The compound parse cannot decide alone (nesting near the limit): parse plainly."""
+
+
+def parse(text: str, source: str, compounds: CompoundForms | None = None) -> Document:
     """Parse exactly one top-level datum (normally one list) from ``text``.
+
+    With ``compounds``, forms the pattern matches whole become records instead of lists
+    (see :class:`CompoundForms`); everything else is as without.
 
     Raises
     ------
@@ -193,13 +234,20 @@ def parse(text: str, source: str) -> Document:
     >>> parse('(cell (rename a "A") 3)', "x").root
     [Symbol('cell'), [Symbol('rename'), Symbol('a'), 'A'], 3]
     """
+    opens = None
     try:
         with paused_gc():
-            top, lists = _build(_tokens(text))
+            if compounds is None:
+                top, lists = _build(_tokens(text))
+            else:
+                try:
+                    top, lists, opens = _build_compound(text, compounds)
+                except _Fallback:
+                    top, lists = _build(_tokens(text))
     except _SyntaxProblem:
         _raise_located(text, source)
         raise AssertionError("the located parser accepted what the fast parser refused") from None
-    doc = Document(text, source, None, lists)
+    doc = Document(text, source, None, lists, opens)
     if len(top) != 1:
         _raise_located(text, source)
     doc.root = top[0]
@@ -281,6 +329,51 @@ def _build(tokens: Iterable[str]) -> tuple[list, list[list]]:
     if stack:
         raise _SyntaxProblem
     return top, lists
+
+
+def _build_compound(text: str, compounds: CompoundForms) -> tuple[list, list[list], array]:
+    """:func:`_build` with compound forms; also the offset just after each list's ``(``."""
+    top: list = []
+    current = top
+    stack: list[list] = []
+    push, pop = stack.append, stack.pop
+    lists: list[list] = []
+    register = lists.append
+    opens = array("q")
+    opened = opens.append
+    atoms: dict[str, object] = {}
+    known = atoms.get
+    max_depth = active().max_nesting
+    near_limit = max_depth - COMPOUND_DEPTH
+    plain, build = compounds.token_group, compounds.build
+    for match in compounds.pattern.finditer(text):
+        if match.lastindex != plain:
+            if len(stack) >= near_limit:
+                raise _Fallback
+            current.append(build(match))
+            continue
+        token = match.group(plain)
+        if token == "(":
+            child: list = []
+            current.append(child)
+            push(current)
+            register(child)
+            opened(match.end(plain))
+            current = child
+            if len(stack) > max_depth:
+                raise _SyntaxProblem
+        elif token == ")":
+            if not stack:
+                raise _SyntaxProblem
+            current = pop()
+        else:
+            value = known(token)
+            if value is None:
+                value = atoms[token] = _value(token)
+            current.append(value)
+    if stack:
+        raise _SyntaxProblem
+    return top, lists, opens
 
 
 def _located_tokens(text: str) -> Iterator[tuple[int, str | None]]:

@@ -1,0 +1,136 @@
+"""The two most frequent EDIF forms read whole, in one regex match each.
+
+A 100,000-part netlist is mostly ``instance`` forms (about 40 tokens each) and ``portRef``
+forms (six tokens each). :class:`EdifCompounds` gives :func:`linter.readers.sexpr.parse` a
+token pattern that matches the plain spelling of each of them as a single token and turns
+it straight into the record :mod:`linter.readers.edif_forms` would have made from its list:
+
+* ``(instance NAME (viewRef V (cellRef C [(libraryRef L)])) ITEM...)`` where NAME is an
+  identifier or ``(rename identifier "text")`` and each ITEM is
+  ``(property NAME (string "text"))`` or ``(designator "text")``;
+* ``(portRef P [(instanceRef I)])``.
+
+Any other spelling (a member, an array, a typed value other than one string, a comment, an
+unusual layout such as no space after a keyword) is not matched and is read token by token
+as before, so the records are the same either way; only what is matched is faster. Keywords
+match in any ASCII letter case, as the form reader's ``keyword`` does; identifiers are atoms
+that can only read as symbols (not starting with a digit, sign or point). A record stands in
+the tree where its list would have been and is located by the offset of its ``(``.
+"""
+
+from __future__ import annotations
+
+import re
+
+from linter.readers.edif_syntax import Instance, Name, PortRef, decode_string
+
+__all__ = ["EdifCompounds"]
+
+_WS = " \t\n\r\x0b\x0c"  # the s-expression whitespace (linter.readers.sexpr)
+_W = f"[{_WS}]"
+_IDENT = rf'[^{_WS}()"0-9+\-.][^{_WS}()"]*+'
+_STRING = r'"([^"]*+)"'
+
+
+def _kw(word: str) -> str:
+    """A keyword in any ASCII letter case, followed by the end of its atom."""
+    letters = "".join(f"[{c.upper()}{c.lower()}]" for c in word)
+    return rf'{letters}(?![^{_WS}()"])'
+
+
+def _ws_form(*pieces: str) -> str:
+    """``( piece piece ... )`` with optional whitespace around and between the pieces."""
+    return rf"\({_W}*+" + rf"{_W}*+".join(pieces) + rf"{_W}*+\)"
+
+
+def _name_def() -> str:
+    """An identifier, or (rename identifier "text"): groups identifier; renamed, text."""
+    return rf"(?:({_IDENT})|" + _ws_form(_kw("rename"), f"({_IDENT})", _STRING) + ")"
+
+
+_BARE_STRING = r'"[^"]*+"'
+_PROPERTY = _ws_form(_kw("property"), rf"(?:{_IDENT}|" + _ws_form(_kw("rename"), _IDENT,
+                                                                   _BARE_STRING) + ")",
+                     _ws_form(_kw("string"), _BARE_STRING))
+_DESIGNATOR = _ws_form(_kw("designator"), _BARE_STRING)
+_INSTANCE = _ws_form(
+    _kw("instance"), _name_def(),
+    _ws_form(_kw("viewRef"), f"({_IDENT})",
+             _ws_form(_kw("cellRef"), f"({_IDENT})",
+                      "(?:" + _ws_form(_kw("libraryRef"), f"({_IDENT})") + ")?")),
+    rf"((?:(?:{_PROPERTY}|{_DESIGNATOR}){_W}*+)*+)")
+"""Groups: 1 the form, 2 a plain name, 3 and 4 a renamed name and its text, 5 view, 6 cell,
+7 library (or None), 8 the properties and designators, as written."""
+_PORT_REF = _ws_form(_kw("portRef"), f"({_IDENT})",
+                     "(?:" + _ws_form(_kw("instanceRef"), f"({_IDENT})") + ")?")
+"""Groups: 9 the form, 10 the port, 11 the instance (or None)."""
+_PLAIN = r'[()]|"[^"]*+"|[^' + _WS + r'()"]++|"'
+"""Group 12: a plain token, exactly as :data:`linter.readers.sexpr._TOKEN` reads one."""
+
+_ITEM = re.compile(
+    _ws_form(_kw("property"), _name_def(),
+             _ws_form(_kw("string"), _STRING))
+    + "|" + _ws_form(_kw("designator"), _STRING))
+"""One item of group 8: groups plain name, renamed name, its text, value; or designator."""
+
+TOKEN_GROUP = 12
+PATTERN = re.compile(rf"{_W}*+(?:({_INSTANCE})|({_PORT_REF})|({_PLAIN}))")
+_MAX_SHARED = 10_000
+"""Distinct property sets remembered for sharing (a netlist repeats a few hundred)."""
+
+
+class EdifCompounds:
+    """The compound forms of one parse (see the module docstring); equal property sets and
+    texts are shared, one object each."""
+
+    pattern = PATTERN
+    token_group = TOKEN_GROUP
+
+    def __init__(self) -> None:
+        self._items: dict[str, tuple[str | None, dict[str, str]]] = {}
+        self._texts: dict[str, str] = {}
+
+    def build(self, match: re.Match[str]) -> object:
+        if match.lastindex == 1:
+            return self._instance(match)
+        return PortRef(match.group(10), None, match.group(11), match.start(9))
+
+    def _instance(self, match: re.Match[str]) -> Instance:
+        ident = match.group(2)
+        if ident is not None:
+            name = Name(ident.casefold(), ident[1:] if ident.startswith("&") else ident)
+        else:
+            name = Name(match.group(3).casefold(), decode_string(match.group(4)))
+        designator, properties = self._properties(match.group(8))
+        return Instance(name, match.group(7), match.group(6), match.group(5), designator,
+                        properties, match.start(1))
+
+    def _properties(self, items: str) -> tuple[str | None, dict[str, str]]:
+        """Designator (the first) and properties by display name, later ones winning; equal
+        texts give the same (shared, never changed) dictionary."""
+        found = self._items.get(items)
+        if found is not None:
+            return found
+        designator: str | None = None
+        properties: dict[str, str] = {}
+        for ident, renamed, display, value, given in _ITEM.findall(items):
+            if not ident and not renamed:  # a designator (findall gives "" for a group left out)
+                if designator is None:
+                    designator = self._text(given)
+                continue
+            key = (ident[1:] if ident.startswith("&") else ident) if ident else \
+                decode_string(display)
+            properties[key] = self._text(value)
+        found = (designator, properties)
+        if len(self._items) < _MAX_SHARED:
+            self._items[items] = found
+        return found
+
+    def _text(self, text: str) -> str:
+        """A string's text, %n% escapes decoded, one object for equal texts."""
+        found = self._texts.get(text)
+        if found is None:
+            found = decode_string(text)
+            if len(self._texts) < 4 * _MAX_SHARED:
+                self._texts[text] = found
+        return found
