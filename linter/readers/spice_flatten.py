@@ -36,9 +36,13 @@ GROUND = "0"
 """The key and display name of the ground net (``0`` and ``gnd``)."""
 
 
-@dataclass(frozen=True)
+@dataclass(slots=True)
 class FlatElement:
-    """One element of the flattened design (or one ``X`` instance kept whole)."""
+    """One element of the flattened design (or one ``X`` instance kept whole).
+
+    Not frozen, only because a frozen dataclass costs several times as much to make (a
+    deck of 100,000 elements makes 100,000 of them); nothing changes one once made.
+    """
 
     name: str
     path: tuple[str, ...]
@@ -53,7 +57,7 @@ class FlatElement:
     params: Mapping[str, str] = field(default_factory=dict)
 
 
-@dataclass
+@dataclass(slots=True)
 class NetInfo:
     """A net's display name and the place it was first used."""
 
@@ -114,7 +118,8 @@ def _body_params(cards: list[Card], scope: dict[str, float]) -> None:
 
 
 class _Flattener:
-    def __init__(self, structure: Structure, opaque: Collection[str]) -> None:
+    def __init__(self, structure: Structure, opaque: Collection[str],
+                 plain_cards: bool = True) -> None:
         self.structure = structure
         self.opaque = {name.casefold() for name in opaque}
         self.result = Flattened()
@@ -123,6 +128,8 @@ class _Flattener:
         self.global_models: dict[str, DeviceModel] = {}
         self.limit = min(MAX_ELEMENTS, active().max_parts)
         self.expanded = 0
+        self.plain_cards = plain_cards
+        self.numbers: dict[str, float] = {}  # SPICE number text -> value, within this run
 
     def run(self) -> Flattened:
         body = [card for card in self.structure.body if card.keyword != ".param"]
@@ -142,6 +149,11 @@ class _Flattener:
         return name.casefold() in frame.models or name.casefold() in self.structure.models
 
     def _element(self, card: Card, frame: _Frame, stack: list[_Frame]) -> _Frame | None:
+        if self.plain_cards:
+            flat = self._plain_primitive(card, frame)
+            if flat is not None:
+                self.result.elements.append(flat)
+                return None
         element = parse_element(card, lambda name: self._is_model(frame, name))
         key = element.name.folded
         if key in frame.seen:
@@ -170,6 +182,89 @@ class _Flattener:
         if key not in self.result.nets:
             aliases = ("GND",) if key == GROUND else ()
             self.result.nets[key] = NetInfo(shown, token.location, aliases)
+        return key
+
+    def _plain_primitive(self, card: Card, frame: _Frame) -> FlatElement | None:
+        """The element of a plain card in its common shape, as :meth:`_primitive` makes it.
+
+        ``R|C|L name n1 n2 number``, ``D name a k model``, ``Q name c b e model`` and ``M name
+        d g s b model`` with a visible model: the same element, read from the card's words.
+        None for any other card, and for one that would raise: the general path reads (or
+        refuses) those. Nothing is recorded before the card is known to be taken.
+        """
+        key = card.keyword
+        names = _PLAIN_SHAPES.get(key[:1])
+        if names is None:
+            return None
+        words = card.words
+        if words is None or len(words) != len(names) + 2 or key in frame.seen \
+                or len(self.result.elements) >= self.limit:
+            return None
+        letter = key[0]
+        last = words[-1]
+        folded = last.casefold()
+        visible = folded in frame.models or folded in self.structure.models
+        value_si: float | None = None
+        if letter in "rcl":
+            if visible:
+                return None
+            value_si = self._plain_number(last, letter)
+            if value_si is None:
+                return None
+        elif not visible:
+            return None
+        location = card.location
+        frame.seen[key] = location
+        offsets = _word_offsets(card.text, words)
+        nets = self.result.nets
+        keys = []
+        for index in range(1, len(names) + 1):
+            text = words[index]
+            local = text.casefold()
+            if frame.path or local in self.structure.global_nodes:  # (no ports at the top)
+                keys.append(self._plain_net(card, offsets[index], text, local, frame))
+                continue
+            if local not in nets:
+                nets[local] = NetInfo(text, card.location_at(offsets[index]), ())
+            keys.append(local)
+        pins = tuple(zip(names, keys))
+        if value_si is not None:
+            value = Token(last, card.location_at(offsets[3]), offsets[3])
+            return FlatElement(words[0], frame.path, letter.upper(), pins, location, last,
+                               value_si, value, None, None, {})
+        model = self._model(Token(last, _NO_LOCATION), frame)
+        return FlatElement(words[0], frame.path, letter.upper(), pins, location, last,
+                           None, None, model, None, {})
+
+    def _plain_number(self, text: str, letter: str) -> float | None:
+        """A resistor's, capacitor's or inductor's value as :meth:`_primitive` reads it, or
+        None where that would raise."""
+        value = self.numbers.get(text)
+        if value is None:
+            try:
+                value = read_spice_number(text)
+            except SpiceNumberError:
+                return None
+            self.numbers[text] = value
+        if letter == "r" and value and not \
+                (0 < value and _RESISTANCE_RANGE[0] <= value <= _RESISTANCE_RANGE[1]):
+            return None
+        return value
+
+    def _plain_net(self, card: Card, offset: int, text: str, local: str, frame: _Frame) -> str:
+        """:meth:`_net` for a word ``text`` (folded: ``local``) at ``offset`` of a plain card."""
+        if local in self.structure.global_nodes:
+            key, shown = (GROUND, GROUND) if local in ("0", "gnd") else (local, text)
+        elif local in frame.ports:
+            return frame.ports[local]
+        elif not frame.path:
+            key, shown = local, text
+        else:
+            key = "/".join([*(p.casefold() for p in frame.path), local])
+            shown = "/".join([*frame.path, text])
+        if key not in self.result.nets:
+            aliases = ("GND",) if key == GROUND else ()
+            self.result.nets[key] = NetInfo(shown, card.location_at(offset), aliases)
         return key
 
     def _primitive(self, element: ElementCard, frame: _Frame) -> FlatElement:
@@ -286,6 +381,33 @@ def _device_model(card: ModelCard, scope: Mapping[str, float]) -> DeviceModel:
     return DeviceModel(card.name, card.type, params, card.card.location)
 
 
-def flatten(structure: Structure, opaque: Collection[str] = ()) -> Flattened:
-    """Expand the deck's hierarchy into elements and nets (see the module docstring)."""
-    return _Flattener(structure, opaque).run()
+_PLAIN_SHAPES: dict[str, tuple[str, ...]] = {
+    "r": ("1", "2"), "c": ("1", "2"), "l": ("1", "2"), "d": ("A", "K"),
+    "q": ("C", "B", "E"), "m": ("D", "G", "S", "B"),
+}
+"""Element letters read from a plain card's words, and their pin names (as
+:mod:`~linter.readers.spice_elements` names them): name, nodes, then a value or a model."""
+
+_NO_LOCATION = SourceLocation("", 0, 0)
+"""For a model name looked up by text only (its location is never read)."""
+
+
+def _word_offsets(text: str, words: list[str]) -> list[int]:
+    """Where each of ``words`` (``text.split()``) starts in ``text``."""
+    offsets = []
+    offset = 0
+    for word in words:
+        offset = text.index(word, offset)
+        offsets.append(offset)
+        offset += len(word)
+    return offsets
+
+
+def flatten(structure: Structure, opaque: Collection[str] = (), *,
+            plain_cards: bool = True) -> Flattened:
+    """Expand the deck's hierarchy into elements and nets (see the module docstring).
+
+    ``plain_cards=False`` reads every card through the general element parser; the result is
+    the same (the shortcut for plain cards is checked against it in the tests).
+    """
+    return _Flattener(structure, opaque, plain_cards).run()

@@ -14,8 +14,7 @@ from __future__ import annotations
 import re
 
 from dataclasses import dataclass
-from functools import cached_property
-from typing import Iterator
+from typing import Iterator, NamedTuple
 
 from linter.errors import NetlistError
 from linter.model import SourceLocation
@@ -37,22 +36,75 @@ class Token:
         return self.text.casefold()
 
 
-@dataclass(frozen=True)
 class Card:
-    """One logical line: its tokens and its text (continuations joined by a blank)."""
+    """One logical line: its tokens and its text (continuations joined by a blank).
 
-    tokens: tuple[Token, ...]
-    text: str
+    A *plain* card (one physical line of printable ASCII and tabs with no ``, ( ) { } ' " =``)
+    keeps only its text and position: its tokens are its blank-separated words, made into
+    :class:`Token` objects only when asked for (:attr:`tokens`). :attr:`words` gives the
+    words of a plain card without building tokens (None for any other card).
+    """
+
+    __slots__ = ("text", "keyword", "_file", "_line", "_column", "_tokens")
+
+    def __init__(self, tokens: tuple[Token, ...] | None, text: str, *, file: str = "",
+                 line: int = 0, column: int = 0, keyword: str | None = None) -> None:
+        self.text = text
+        self._tokens = tokens
+        self._file, self._line, self._column = file, line, column
+        if keyword is None:
+            keyword = tokens[0].folded if tokens else ""
+        self.keyword = keyword
+        """The first word in lower case: an element name or a dot card."""
+
+    @property
+    def tokens(self) -> tuple[Token, ...]:
+        """Every token with its position (built on first use for a plain card)."""
+        tokens = self._tokens
+        if tokens is None:
+            tokens = self._tokens = tuple(self._plain_tokens())
+        return tokens
+
+    @property
+    def words(self) -> list[str] | None:
+        """The words of a plain card (its tokens' texts); None for any other card."""
+        return self.text.split() if self._tokens is None else None
+
+    def _plain_tokens(self) -> list[Token]:
+        file, line, column, text = self._file, self._line, self._column, self.text
+        found: list[Token] = []
+        offset = 0
+        for word in text.split():
+            offset = text.index(word, offset)
+            found.append(Token(word, SourceLocation(file, line, column + offset), offset))
+            offset += len(word)
+        return found
+
+    def word_offset(self, index: int, words: list[str] | None = None) -> int:
+        """Where token ``index`` starts in :attr:`text`; ``words`` may pass :attr:`words`."""
+        if self._tokens is not None:
+            return self._tokens[index].offset
+        text = self.text
+        offset = 0
+        for word in (words if words is not None else text.split())[:index + 1]:
+            offset = text.index(word, offset) + len(word)
+        return offset - len(word)
+
+    def location_at(self, offset: int) -> SourceLocation:
+        """Where the character at ``offset`` of a plain card's :attr:`text` is."""
+        return SourceLocation(self._file, self._line, self._column + offset)
+
+    def word_location(self, index: int, words: list[str] | None = None) -> SourceLocation:
+        """Where token ``index`` starts (without building the tokens of a plain card)."""
+        if self._tokens is not None:
+            return self._tokens[index].location
+        return SourceLocation(self._file, self._line,
+                              self._column + (self.word_offset(index, words) if index else 0))
 
     @property
     def location(self) -> SourceLocation:
         """Where the card starts (its first token)."""
-        return self.tokens[0].location
-
-    @cached_property
-    def keyword(self) -> str:
-        """The first word in lower case: an element name or a dot card (worked out once)."""
-        return self.tokens[0].folded
+        return self.word_location(0)
 
     def rest_text(self, index: int) -> str:
         """The card's text from token ``index`` to the end ('' when there is no such token)."""
@@ -61,18 +113,24 @@ class Card:
         return self.text[self.tokens[index].offset:].strip()
 
 
-@dataclass
-class _Segment:
+class _Segment(NamedTuple):
     line: int
     start: int  # 0-based column of the segment's first character
     text: str
 
+
+_NOT_PLAIN = re.compile(r"[^\t -~]|[,(){}'\"=]")
+"""A character that keeps a line from being a plain card: one outside printable ASCII and
+tabs, or one that makes or joins tokens (``, ( ) { } ' " =``). In a plain line the tokens are
+exactly the words that :meth:`str.split` finds."""
 
 _DOLLAR_COMMENT = re.compile(r"(?:^|(?<=[ \t]))\$")
 """A ``$`` at the start of a line or after a blank opens a comment."""
 
 
 def _strip_comment(line: str) -> str:
+    if ";" not in line and "$" not in line:
+        return line
     cut = len(line)
     semicolon = line.find(";")
     if semicolon >= 0:
@@ -89,10 +147,10 @@ def _logical_lines(text: str, file: str, first_line: int) -> Iterator[list[_Segm
     for number, raw in enumerate(text.splitlines()[first_line - 1:], start=first_line):
         line = _strip_comment(raw)
         stripped = line.lstrip()
-        if not stripped or stripped.startswith("*"):
+        if not stripped or stripped[0] == "*":
             continue
         indent = len(line) - len(stripped)
-        if stripped.startswith("+"):
+        if stripped[0] == "+":
             if not pending:
                 raise NetlistError(file, number, indent + 1, "continuation line '+' with no line to continue")
             pending.append(_Segment(number, indent + 1, stripped[1:]))
@@ -219,13 +277,19 @@ def read_cards(text: str, file: str, *, skip_title: bool) -> Iterator[Card]:
     (the caller decides).
     """
     in_control = False
+    plain = _NOT_PLAIN.search
     for segments in _logical_lines(text, file, 2 if skip_title else 1):
-        first_word = segments[0].text.split(None, 1)[0].casefold() if segments[0].text.split() else ""
+        first = segments[0]
+        first_word = first.text.split(None, 1)[0].casefold()
         if in_control:
             in_control = first_word != ".endc"
             continue
         if first_word == ".control":
             in_control = True
+            continue
+        if len(segments) == 1 and plain(first.text) is None:
+            yield Card(None, first.text, file=file, line=first.line, column=first.start + 1,
+                       keyword=first_word)
             continue
         card = _card(segments, file)
         if card.tokens:

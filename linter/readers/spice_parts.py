@@ -86,7 +86,9 @@ def forward_voltage(model: DeviceModel, current: float) -> float:
     return emission * thermal * math.log(current / saturation + 1.0) + current * series
 
 
-def _kind(element: FlatElement, ref: str) -> str:
+def _kind(element: FlatElement, ref: str, lit: dict[int, bool] | None = None) -> str:
+    """The part's kind (see the module docstring); ``lit`` remembers, by model identity,
+    whether a diode model's forward voltage makes it an LED."""
     letter = element.letter
     if letter == "R" and element.value_si == 0:
         return "link"
@@ -101,58 +103,77 @@ def _kind(element: FlatElement, ref: str) -> str:
     if infer_kind(element.name, model_name, model_name) == "led":
         return "led"
     model = element.model
-    if model is not None and model.type == "D" and model.params.get("IS", 1e-14) > 0:
-        if forward_voltage(model, LED_TEST_CURRENT) > LED_MIN_FORWARD_VOLTAGE:
-            return "led"
-    return "diode"
+    if model is None:
+        return "diode"
+    if lit is None:
+        return "led" if _lights(model) else "diode"
+    bright = lit.get(id(model))
+    if bright is None:
+        bright = lit[id(model)] = _lights(model)
+    return "led" if bright else "diode"
 
 
-def _references(elements: list[FlatElement]) -> list[str]:
-    leaves = [leaf_name(element) for element in elements]
-    counts = Counter(leaf.casefold() for leaf in leaves)
+def _lights(model: DeviceModel) -> bool:
+    """True for a diode model whose forward voltage at the test current is an LED's."""
+    return model.type == "D" and model.params.get("IS", 1e-14) > 0 and \
+        forward_voltage(model, LED_TEST_CURRENT) > LED_MIN_FORWARD_VOLTAGE
+
+
+def _references(elements: list[FlatElement], leaves: list[str]) -> list[str]:
+    folded = [leaf.casefold() for leaf in leaves]
+    if len(set(folded)) == len(folded):  # every leaf unique: each is its own reference
+        return leaves
+    counts = Counter(folded)
     refs: list[str] = []
     taken: set[str] = set()
     for element, leaf in zip(elements, leaves):
         ref = leaf if counts[leaf.casefold()] == 1 else "/".join([*element.path, leaf])
-        if ref.casefold() in taken:  # a kept-whole XJ1 beside an element J1 at the same level
+        folded = ref.casefold()
+        if folded in taken:  # a kept-whole XJ1 beside an element J1 at the same level
             ref = "/".join([*element.path, element.name])
-        taken.add(ref.casefold())
+            folded = ref.casefold()
+        taken.add(folded)
         refs.append(ref)
     return refs
 
 
-def _part(element: FlatElement, ref: str, net_names: dict[str, str]) -> Part:
-    pins = tuple(Pin(name, net_names[key]) for name, key in element.pins)
-    leaf = leaf_name(element)
+def _part(element: FlatElement, ref: str, leaf: str, net_names: dict[str, str],
+          lit: dict[int, bool] | None = None) -> Part:
+    pins = tuple([Pin(name, net_names[key]) for name, key in element.pins])
     path = "/".join([*element.path, leaf]) if element.path else leaf
-    properties = dict(element.params)
+    properties = dict(element.params) if element.params else {}
     if leaf != element.name:
         properties["spice_name"] = element.name
-    if element.letter == "X":
+    letter = element.letter
+    if letter == "X":
         part_number = element.subcircuit
         cell = element.subcircuit or "X"
     else:
-        part_number = element.model.name if element.model is not None and element.letter in "DQMJ" else None
-        cell = element.letter
-    return Part(ref=ref, kind=_kind(element, ref), value=element.value_text, pins=pins,
-                location=element.location, value_si=element.value_si, path=path, cell=cell,
-                part_number=part_number, properties=properties, model=element.model)
+        part_number = element.model.name if element.model is not None and letter in "DQMJ" else None
+        cell = letter
+    return Part(ref, _kind(element, ref, lit), element.value_text, pins, element.location,
+                element.value_si, path, cell, part_number, properties, element.model)
 
 
 def assemble(flat: Flattened, source: str, title: str) -> Circuit:
     """Build the :class:`~linter.model.Circuit` from a flattened deck."""
     net_names = {key: info.name for key, info in flat.nets.items()}
-    refs = _references(flat.elements)
+    elements = flat.elements
+    leaves = [leaf_name(element) for element in elements]
+    refs = _references(elements, leaves)
     parts: dict[str, Part] = {}
     joined: dict[str, list[tuple[str, str]]] = {key: [] for key in flat.nets}
     notes: list[ReaderNote] = []
-    for element, ref in zip(flat.elements, refs):
-        parts[ref] = _part(element, ref, net_names)
+    lit: dict[int, bool] = {}
+    readings: dict[tuple[str, str], float | None] = {}
+    for element, ref, leaf in zip(elements, refs, leaves):
+        parts[ref] = _part(element, ref, leaf, net_names, lit)
         for pin, key in element.pins:
             joined[key].append((ref, pin))
-        note = scale_trap_note(element, ref)
-        if note is not None:
-            notes.append(note)
+        if element.value_token is not None:
+            note = scale_trap_note(element, ref, readings)
+            if note is not None:
+                notes.append(note)
     nets = {info.name: Net(info.name, tuple(joined[key]), info.location, info.aliases)
             for key, info in flat.nets.items()}
     return Circuit(source=source, format="spice", parts=parts, nets=nets, notes=tuple(notes),

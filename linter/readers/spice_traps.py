@@ -67,15 +67,26 @@ def engineering_reading(text: str, letter: str) -> float | None:
     return None if scale is None else float(number.group()) * scale
 
 
-def scale_trap_note(element: FlatElement, ref: str) -> ReaderNote | None:
-    """A ``spice-scale-trap`` note when the element's literal value reads two ways, else None."""
+def scale_trap_note(element: FlatElement, ref: str,
+                    readings: dict[tuple[str, str], float | None] | None = None) -> ReaderNote | None:
+    """A ``spice-scale-trap`` note when the element's literal value reads two ways, else None.
+
+    ``readings`` remembers :func:`engineering_reading` by (text, letter) within one deck.
+    """
     token, spice = element.value_token, element.value_si
     if token is None or spice is None or element.letter not in UNITS:
         return None
     text = token.text.split("=", 1)[1] if "=" in token.text else token.text
     if strip_braces(text) is not None:
         return None
-    meant = engineering_reading(text, element.letter)
+    if readings is None:
+        meant = engineering_reading(text, element.letter)
+    else:
+        key = (text, element.letter)
+        if key in readings:
+            meant = readings[key]
+        else:
+            meant = readings[key] = engineering_reading(text, element.letter)
     if meant is None or math.isclose(meant, spice, rel_tol=1e-9, abs_tol=0.0):
         return None
     unit = UNITS[element.letter]
