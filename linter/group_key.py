@@ -9,8 +9,8 @@ scenarios, differing only in those names; their results differ only in the names
 
 What the key holds (each a read of :mod:`linter.netbuild`, in its order):
 
-* the group: topology, setter, its rails, the LED strings, its pins (part, pin name, net)
-  and, per scenario, its name, the level of each of the group's pins and the LEDs lit;
+* the group: topology, setter, its rails, the LED strings, its pins (part, which pin id,
+  net) and, per scenario, its name, the level of each of the group's pins and the LEDs lit;
 * per part of the group (and any string end outside it): whether the circuit has it, its
   kind; for kinds that are modelled, its value, part number, SPICE model parameters, pins
   (name and net, in order) and part data (every field but ``note``, a text naming the part
@@ -96,14 +96,18 @@ def _part_key(enc: _Encoder, part: Part | None, data: Any) -> tuple:
             tuple((p.name, enc.net(p.net)) for p in part.pins), _data_key(data))
 
 
-def _drive_key(enc: _Encoder, circuit: Circuit, part_data: PartDataMap, drive) -> tuple:
+def _drive_key(enc: _Encoder, circuit: Circuit, part_data: PartDataMap, drive,
+               pin: int) -> tuple:
+    """A driving pin: its part, which of the group's pin ids it is (names are the group's
+    own: only whether two drives name the same pin counts), its net, the part's data and
+    supply pins."""
     data = part_data.get(drive.part)
     mcu = data if isinstance(data, McuData) else McuData()
     part = circuit.parts.get(drive.part)
     names = supply_pin_names(mcu)
     supply = None if part is None else tuple(
         (p.name, enc.net(p.net)) for p in part.pins if p.name.casefold() in names)
-    return (enc.ref(drive.part), drive.pin, enc.net(drive.net), _data_key(data), supply)
+    return (enc.ref(drive.part), pin, enc.net(drive.net), _data_key(data), supply)
 
 
 def group_key(group: Group, circuit: Circuit, part_data: PartDataMap,
@@ -117,8 +121,10 @@ def group_key(group: Group, circuit: Circuit, part_data: PartDataMap,
     outside = tuple(_part_key(enc, parts.get(ref), part_data.get(ref))
                     for ref in dict.fromkeys(s[i] for s in group.strings if s for i in (0, -1))
                     if ref not in enc.refs and enc.ref(ref) >= 0)
-    drives = tuple(_drive_key(enc, circuit, part_data, d) for d in group.pins)
-    pin_ids = {d.id: i for i, d in enumerate(group.pins)}
+    pin_ids: dict[str, int] = {}
+    for drive in group.pins:
+        pin_ids.setdefault(drive.id, len(pin_ids))
+    drives = tuple(_drive_key(enc, circuit, part_data, d, pin_ids[d.id]) for d in group.pins)
     scenarios = tuple(
         (s.name, tuple(s.levels.get(d.id) for d in group.pins),
          None if s.lit is None else tuple(enc.name(x) for x in s.lit))
