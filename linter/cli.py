@@ -124,13 +124,16 @@ def _run_check(args: argparse.Namespace) -> int:
         to_terminal = args.output is None and sys.stdout.isatty() and "NO_COLOR" not in os.environ
         reporter = ReportFormat(args.format).reporter(verbose=args.verbose, quiet=args.quiet,
                                                       color=to_terminal)
-        text = "\n".join(reporter.render(result) for result in results)
-    if args.output is not None:
-        from linter.output import write_atomically
+        from linter.report.stream import report_chunks
 
-        write_atomically(args.output, text)
-    else:
-        sys.stdout.write(text)
+        pieces = report_chunks(reporter, results)  # made as written: no whole report in memory
+        if args.output is not None:
+            from linter.output import write_atomically
+
+            write_atomically(args.output, pieces)
+    if args.output is None:
+        for piece in pieces:  # after the progress bar is gone: the report alone on stdout
+            sys.stdout.write(piece)
     _say_baselined(results)
     threshold = severity_rank(args.fail_on)
     failing = any(severity_rank(f.severity) >= threshold

@@ -13,7 +13,6 @@ board stops the run as it does for one named netlist.
 from __future__ import annotations
 
 import argparse
-import json
 import os
 import sys
 from pathlib import Path
@@ -51,12 +50,9 @@ def _render(fmt: ReportFormat, outcomes: Sequence[BoardOutcome], options: Report
 
         return render_many(fmt, outcomes, options)
     if fmt is ReportFormat.JSON:
-        from linter.report.common import plain_data
-        from linter.report.json import report_dict
+        from linter.report.json import json_report_chunks
 
-        data = report_dict(only.result)
-        data["inputs"]["bom_note"] = only.task.bom_note
-        return json.dumps(plain_data(data), indent=2, ensure_ascii=False, allow_nan=False) + "\n"
+        return "".join(json_report_chunks(only.result, {"bom_note": only.task.bom_note}))
     return fmt.reporter(options).render(only.result)
 
 

@@ -5,14 +5,17 @@ from __future__ import annotations
 import os
 import tempfile
 from pathlib import Path
+from typing import Iterable
 
 __all__ = ["write_atomically"]
 
 
-def write_atomically(path: Path, text: str) -> None:
+def write_atomically(path: Path, text: str | Iterable[str]) -> None:
     """Write ``text`` to ``path`` through a temporary file in the same folder, then rename.
 
-    An interrupted run leaves the old file (or no file) in place, never half a report. The
+    ``text`` is one string or an iterable of pieces written as they come (a streamed report:
+    an exception while making the pieces removes the temporary file and leaves ``path`` as it
+    was). An interrupted run leaves the old file (or no file) in place, never half a report. The
     file gets the permissions a plain ``open(path, "w")`` would give it: the old file's mode
     when it replaces one, else 0o666 less the umask (a temporary file starts at 0o600).
     """
@@ -22,7 +25,8 @@ def write_atomically(path: Path, text: str) -> None:
     try:
         os.fchmod(handle, mode)
         with os.fdopen(handle, "w", encoding="utf-8", newline="\n") as stream:
-            stream.write(text)
+            for piece in ((text,) if isinstance(text, str) else text):
+                stream.write(piece)
             stream.flush()
             os.fsync(stream.fileno())
         os.replace(temporary, path)

@@ -10,7 +10,8 @@ JSON
     ``{"schema": "ledlint-report/1", "tool", "complete", "boards": [one-board reports],
     "unreadable": [{"netlist", "error", "location", "bom", "bom_note"}], "summary": {totals}}``;
     each entry of ``boards`` is exactly a one-board report whose ``inputs`` add ``bom_note``
-    (why the BOM is what it is). A single netlist keeps the one-board form.
+    (why the BOM is what it is). A single netlist keeps the one-board form. Layout as the
+    one-board report's, two levels deeper: each group and finding of a board one line.
 SARIF
     one run with every board's results (each located in its own file) and one invocation
     whose ``executionSuccessful`` is false when a board could not be read, with a
@@ -32,7 +33,8 @@ from linter.report import ReportFormat, ReportOptions
 if TYPE_CHECKING:
     from linter.batch import BoardOutcome
 
-__all__ = ["render_many", "combined_dict", "combined_sarif", "totals"]
+__all__ = ["render_many", "combined_dict", "combined_layout", "combined_sarif", "totals",
+           "COMBINED_COMPACT_DEPTH"]
 
 
 def totals(outcomes: Sequence["BoardOutcome"]) -> dict[str, Any]:
@@ -103,7 +105,7 @@ def _unreadable_entry(outcome: "BoardOutcome") -> dict[str, Any]:
 
 def combined_dict(outcomes: Sequence["BoardOutcome"]) -> dict[str, Any]:
     """The combined JSON report as plain data (see the module docstring)."""
-    from linter.report.json import SCHEMA_ID, report_dict
+    from linter.report.json import report_dict
 
     boards = []
     for outcome in outcomes:
@@ -111,6 +113,31 @@ def combined_dict(outcomes: Sequence["BoardOutcome"]) -> dict[str, Any]:
             report = report_dict(outcome.result)
             report["inputs"]["bom_note"] = outcome.task.bom_note
             boards.append(report)
+    return _combined(outcomes, boards)
+
+
+def combined_layout(outcomes: Sequence["BoardOutcome"]) -> dict[str, Any]:
+    """:func:`combined_dict` ready for :func:`~linter.report.json_layout.layered_chunks`:
+    each board as :func:`~linter.report.json.report_layout` gives it (groups and findings
+    written one line each as they are reached)."""
+    from linter.report.common import plain_data
+    from linter.report.json import report_layout
+
+    boards = [report_layout(outcome.result, {"bom_note": outcome.task.bom_note})
+              for outcome in outcomes if outcome.readable]
+    layout = plain_data(_combined(outcomes, []))
+    layout["boards"] = boards
+    return layout
+
+
+COMBINED_COMPACT_DEPTH = 4
+"""A board's groups and findings sit two levels deeper than in a one-board report
+(``boards[i].groups[j]``): they, and what is as deep, are one line each."""
+
+
+def _combined(outcomes: Sequence["BoardOutcome"], boards: list) -> dict[str, Any]:
+    from linter.report.json import SCHEMA_ID
+
     return {
         "schema": SCHEMA_ID,
         "tool": {"name": "ledlint", "version": __version__},
@@ -166,10 +193,9 @@ def render_many(fmt: ReportFormat, outcomes: Sequence["BoardOutcome"],
     if fmt is ReportFormat.TEXT:
         return _render_text(outcomes, options)
     if fmt is ReportFormat.JSON:
-        from linter.report.common import plain_data
+        from linter.report.json_layout import layered_chunks
 
-        data = plain_data(combined_dict(outcomes))
-        return json.dumps(data, indent=2, ensure_ascii=False, allow_nan=False) + "\n"
+        return "".join(layered_chunks(combined_layout(outcomes), COMBINED_COMPACT_DEPTH)) + "\n"
     if fmt is ReportFormat.SARIF:
         base = (options.base_dir or Path.cwd()).resolve()
         log = combined_sarif(outcomes, base)

@@ -3,26 +3,37 @@
 The shape is described by ``linter/data/report.schema.json`` (JSON Schema draft 2020-12),
 which the tests hold every fixture's report to. The same input gives the same bytes: no
 timestamps, findings and groups in a fixed order, keys in a fixed order.
+
+Layout: ``schema``, ``tool``, ``inputs`` and ``summary`` indented by two spaces; each group
+and each finding one line (``json.dumps`` without indent: the C encoder), so that a changed
+group is one changed line in a diff. The groups are written straight from the solved
+records (:mod:`linter.report.json_groups`, the data of ``as_dict()``) and the text is made
+in pieces as it is written (:meth:`JsonReporter.chunks`); :func:`report_dict` is the same
+report as one plain tree.
 """
 
 from __future__ import annotations
 
-import json
 import math
 from pathlib import Path
-from typing import TYPE_CHECKING, Any, Mapping
+from typing import TYPE_CHECKING, Any, Iterable, Iterator, Mapping
 
 from linter import __version__
 from linter.findings import Finding
-from linter.report import Reporter
+from linter.refs import natural_key
 from linter.report.common import (finding_location, ordered_findings, plain_data,
                                   severity_counts, sorted_groups)
+from linter.report.json_groups import CornerTexts, group_line
+from linter.report.json_layout import Lines, compact_json, layered_chunks
+from linter.report.stream import StreamingReporter
+from linter.results import GroupResult
 
 if TYPE_CHECKING:
     from linter.engine import CheckResult
     from linter.model import Circuit
 
-__all__ = ["JsonReporter", "SCHEMA_ID", "SCHEMA_FILE", "report_dict", "indented_json"]
+__all__ = ["JsonReporter", "SCHEMA_ID", "SCHEMA_FILE", "COMPACT_DEPTH", "report_dict",
+           "report_layout", "json_report_chunks", "indented_json"]
 
 SCHEMA_ID = "ledlint-report/1"
 """The ``schema`` field: changes only when a consumer would have to change."""
@@ -67,9 +78,8 @@ def _inputs(result: "CheckResult") -> dict[str, Any]:
     }
 
 
-def report_dict(result: "CheckResult") -> dict[str, Any]:
-    """The report as plain Python data, ready for :func:`json.dumps`."""
-    groups = sorted_groups(result.groups)
+def _head(result: "CheckResult") -> dict[str, Any]:
+    """``schema``, ``tool``, ``inputs`` and ``summary``: what comes before the groups."""
     return {
         "schema": SCHEMA_ID,
         "tool": {"name": "ledlint", "version": __version__},
@@ -77,107 +87,84 @@ def report_dict(result: "CheckResult") -> dict[str, Any]:
         "summary": {
             "parts": len(result.circuit.parts),
             "nets": len(result.circuit.nets),
-            "led_groups": len(groups),
+            "led_groups": len(result.groups),
             "findings": severity_counts(result.findings),
             "waived": len(result.waived),
             "baselined": len(result.baselined),
         },
-        "groups": groups,
+    }
+
+
+def report_dict(result: "CheckResult") -> dict[str, Any]:
+    """The report as plain Python data, ready for :func:`json.dumps`."""
+    return {
+        **_head(result),
+        "groups": sorted_groups(result.groups),
         "findings": [_finding_dict(finding, result.circuit)
                      for finding in ordered_findings(result.findings)],
     }
 
 
-class JsonReporter(Reporter):
-    """Byte-identical output for the same input: sorted findings, no timestamps."""
-
-    def render(self, result: "CheckResult") -> str:
-        data = report_dict(result)
-        groups = data["groups"]  # plain already (sorted_groups): not walked twice
-        data["groups"] = []
-        plain = plain_data(data)
-        plain["groups"] = groups
-        return indented_json(plain) + "\n"
+def _group_id(group: Any) -> str:
+    """The id a group is sorted by (a stand-in record has ``as_dict()`` only)."""
+    if type(group) is GroupResult:
+        return str(group.group.id)
+    return str(plain_data(group.as_dict()).get("id", ""))
 
 
-_ENCODE_TEXT = json.encoder.encode_basestring  # the C version when available
-_INDENT = "  "
-_CHUNK_DEPTH = 2
-"""Containers this deep (a report's groups and findings) are joined to one string each."""
+def _group_lines(groups: Iterable[Any]) -> Iterator[str]:
+    """Each group's JSON entry, one line each, in natural order of the group id."""
+    corners = CornerTexts()
+    for group in sorted(groups, key=lambda group: natural_key(_group_id(group))):
+        yield group_line(group, corners)
+
+
+def _finding_lines(result: "CheckResult") -> Iterator[str]:
+    for finding in ordered_findings(result.findings):
+        yield compact_json(plain_data(_finding_dict(finding, result.circuit)))
+
+
+def report_layout(result: "CheckResult",
+                  extra_inputs: Mapping[str, Any] | None = None) -> dict[str, Any]:
+    """The report of :func:`report_dict` ready for :func:`layered_chunks`: the head as plain
+    data, ``groups`` and ``findings`` as :class:`Lines` made when they are written.
+    ``extra_inputs`` are added to ``inputs`` (a combined report's ``bom_note``)."""
+    head = _head(result)
+    head["inputs"].update(extra_inputs or {})
+    layout = plain_data(head)
+    layout["groups"] = Lines(_group_lines(result.groups))
+    layout["findings"] = Lines(_finding_lines(result))
+    return layout
+
+
+COMPACT_DEPTH = 2
+"""Containers this deep are one line each: a report's groups and findings (and the counts
+of ``summary.findings``); the levels above are indented by two spaces."""
+
+
+def json_report_chunks(result: "CheckResult", extra_inputs: Mapping[str, Any] | None = None
+                       ) -> Iterator[str]:
+    """The whole JSON report in pieces, ending in a newline (see :class:`JsonReporter`)."""
+    yield from layered_chunks(report_layout(result, extra_inputs), COMPACT_DEPTH)
+    yield "\n"
+
+
+class JsonReporter(StreamingReporter):
+    """Byte-identical output for the same input: sorted findings, no timestamps.
+
+    Layout: the top two levels indented by two spaces; each group and each finding one line
+    (a changed group is one changed line in a diff). The text is made group by group as it
+    is written (:meth:`chunks`).
+    """
+
+    def chunks(self, result: "CheckResult") -> Iterator[str]:
+        return json_report_chunks(result)
 
 
 def indented_json(data: Any) -> str:
     """``json.dumps(data, indent=2, ensure_ascii=False, allow_nan=False)``, byte for byte,
     for plain data (dict, list, str, int, float, bool, None; :func:`plain_data` output).
 
-    The standard library falls back to its pure-Python encoder whenever ``indent`` is set;
-    this writer does the same work with fewer calls per value. Raises ValueError for a
-    number that is not finite and TypeError for any other type. Recursion depth is the
-    nesting depth of the report (a handful of levels).
+    Raises ValueError for a number that is not finite and TypeError for any other type.
     """
-    out: list[str] = []
-    _write(data, "\n", out)
-    return "".join(out)
-
-
-def _scalar(value: Any) -> str | None:
-    """The JSON text of a scalar, or None for a container."""
-    kind = type(value)
-    if kind is str:
-        return _ENCODE_TEXT(value)
-    if kind is float:
-        if not math.isfinite(value):
-            raise ValueError(f"Out of range float values are not JSON compliant: {value!r}")
-        return float.__repr__(value)
-    if value is None:
-        return "null"
-    if value is True:
-        return "true"
-    if value is False:
-        return "false"
-    if kind is int:
-        return int.__repr__(value)
-    if kind is dict or kind is list:
-        return None
-    raise TypeError(f"Object of type {kind.__name__} is not JSON serializable")
-
-
-def _write(value: Any, newline: str, out: list[str]) -> None:
-    """Append ``value``'s JSON text; ``newline`` is the line break and indent it starts at."""
-    text = _scalar(value)
-    if text is not None:
-        out.append(text)
-        return
-    if not value:
-        out.append("{}" if type(value) is dict else "[]")
-        return
-    inner = newline + _INDENT
-    chunked = len(inner) <= _CHUNK_DEPTH * len(_INDENT) + 1
-    is_dict = type(value) is dict
-    out.append("{" if is_dict else "[")
-    separator = inner
-    for key, item in (value.items() if is_dict else zip(value, value)):
-        if is_dict:
-            if type(key) is not str:
-                raise TypeError(f"keys must be str, not {type(key).__name__}")
-            lead = separator + _ENCODE_TEXT(key) + ": "
-        else:
-            lead = separator
-        kind = type(item)
-        if kind is float and math.isfinite(item):
-            out.append(lead + float.__repr__(item))
-        elif kind is str:
-            out.append(lead + _ENCODE_TEXT(item))
-        else:
-            text = _scalar(item)
-            if text is not None:
-                out.append(lead + text)
-            elif chunked:
-                pieces: list[str] = [lead]
-                _write(item, inner, pieces)
-                out.append("".join(pieces))   # one string per group: few pieces alive at once
-            else:
-                out.append(lead)
-                _write(item, inner, out)
-        separator = "," + inner
-    out.append(newline + ("}" if is_dict else "]"))
+    return "".join(layered_chunks(data))

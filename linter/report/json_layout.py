@@ -1,0 +1,89 @@
+"""JSON written in pieces, indented down to a chosen depth and one line per entry below it.
+
+The reports' layout: the top levels indented by two spaces, so that a reader finds the
+summary at a glance; each container at ``compact_depth`` (a report's groups and findings) on
+one line, written by the standard library's C encoder, so that a changed group is one
+changed line in a diff. With ``compact_depth=math.inf`` the text is exactly
+``json.dumps(data, indent=2, ensure_ascii=False, allow_nan=False)``.
+
+The text comes as an iterator of pieces (:func:`layered_chunks`), so that a large report can
+be written as it is made. A :class:`Lines` value stands for an array whose entries are
+already JSON text (one line each); it is consumed once, when the writer reaches it, and
+must sit above ``compact_depth`` (inside an indented level).
+"""
+
+from __future__ import annotations
+
+import json
+import math
+from dataclasses import dataclass
+from typing import Any, Iterable, Iterator
+
+__all__ = ["Lines", "INDENT", "layered_chunks", "compact_json"]
+
+INDENT = "  "
+"""One level of indentation."""
+
+_TEXT = json.encoder.encode_basestring  # the C version when available
+
+
+def compact_json(data: Any) -> str:
+    """Plain data as one line: the C encoder (``json.dumps`` without indent), default
+    separators ``", "`` and ``": "``, non-ASCII kept, NaN and infinity refused."""
+    return json.dumps(data, ensure_ascii=False, allow_nan=False)
+
+
+@dataclass(frozen=True)
+class Lines:
+    """A JSON array given as the texts of its entries, written one entry a line."""
+
+    entries: Iterable[str]
+
+
+def layered_chunks(data: Any, compact_depth: float = math.inf, level: int = 0) -> Iterator[str]:
+    """The JSON text of plain ``data`` (dict, list, str, int, float, bool, None, :class:`Lines`)
+    in pieces: non-empty containers shallower than ``compact_depth`` indented, the rest one
+    line each. ``level`` is the depth at which ``data`` itself sits (its indentation).
+
+    Raises ValueError for a number that is not finite and TypeError for another type or a
+    key that is not text, as ``json.dumps`` does.
+    """
+    yield from _chunks(data, level, compact_depth, "\n" + INDENT * level)
+
+
+def _chunks(value: Any, depth: int, compact_depth: float, newline: str) -> Iterator[str]:
+    if type(value) is Lines:
+        yield from _lines(value, newline)
+        return
+    kind = type(value)
+    if not (kind is dict or kind is list) or not value or depth >= compact_depth:
+        yield compact_json(value)
+        return
+    inner = newline + INDENT
+    separator = inner
+    if kind is dict:
+        yield "{"
+        for key, item in value.items():
+            if type(key) is not str:
+                raise TypeError(f"keys must be str, not {type(key).__name__}")
+            yield separator + _TEXT(key) + ": "
+            yield from _chunks(item, depth + 1, compact_depth, inner)
+            separator = "," + inner
+        yield newline + "}"
+    else:
+        yield "["
+        for item in value:
+            yield separator
+            yield from _chunks(item, depth + 1, compact_depth, inner)
+            separator = "," + inner
+        yield newline + "]"
+
+
+def _lines(lines: Lines, newline: str) -> Iterator[str]:
+    """``[`` then each entry on its own line, one level deeper, then ``]``; ``[]`` if empty."""
+    inner = newline + INDENT
+    separator = "[" + inner
+    for entry in lines.entries:
+        yield separator + entry
+        separator = "," + inner
+    yield "[]" if separator[0] == "[" else newline + "]"
