@@ -24,13 +24,14 @@ from __future__ import annotations
 import math
 import re
 from collections import Counter
+from dataclasses import dataclass
 
 from linter.errors import NetlistError
 from linter.kinds import infer_kind
 from linter.model import Circuit, Net, Part, Pin, SourceLocation
 from linter.readers.edif_compound import EdifCompounds
-from linter.readers.edif_flatten import FlatDesign, Leaf, NetWire, flatten
-from linter.readers.edif_syntax import View, member_display, read_edif_file
+from linter.readers.edif_flatten import FlatDesign, Leaf, NetWire, flatten, pin_names
+from linter.readers.edif_syntax import View, read_edif_file
 from linter.readers.sexpr import Document, parse, paused_gc
 from linter.units import ValueParseError, parse_number
 
@@ -98,9 +99,8 @@ def _circuit(doc: Document) -> Circuit:
     ordered = sorted(chosen.items(), key=lambda item: item[1].order)
     forms = [leaf.instance.form for leaf in flat.leaves]
     places = _locations(doc, forms + [wire.net.form for _, wire in ordered])  # one pass
-    ports: dict[int, list[tuple[str, int, str]]] = {}
-    parts = {ref: _part(leaf, ref, flat, net_names, doc, place, ports)
-             for ref, leaf, place in zip(refs, flat.leaves, places)}
+    make = _PartMaker(flat, net_names, doc).part
+    parts = {ref: make(leaf, ref, place) for ref, leaf, place in zip(refs, flat.leaves, places)}
     nets = _nets(parts, chosen, net_names, flat, doc, ordered, places[len(forms):])
     design = edif.design.name.display if edif.design is not None else ""
     return Circuit(source=source, format="edif", parts=parts, nets=nets, design=design)
@@ -136,16 +136,16 @@ def _part_refs(leaves: list[Leaf], doc: Document) -> list[str]:
     return refs
 
 
-def _net_names(flat: FlatDesign, doc: Document) -> tuple[dict[tuple, str], dict[tuple, NetWire]]:
+def _net_names(flat: FlatDesign, doc: Document) -> tuple[dict[int, str], dict[int, NetWire]]:
     """Name of each merged net (by union–find root) and the wire that gave it its name."""
-    chosen: dict[tuple, NetWire] = {}
+    chosen: dict[int, NetWire] = {}
     for wire in flat.wires:
-        root = flat.find(wire.node) or wire.node
+        root = flat.find(wire.node)
         best = chosen.get(root)
         if best is None or (wire.depth, wire.order) < (best.depth, best.order):
             chosen[root] = wire
     counts = Counter(wire.display for wire in chosen.values())
-    names: dict[tuple, str] = {}
+    names: dict[int, str] = {}
     taken: dict[str, NetWire] = {}
     for root, wire in sorted(chosen.items(), key=lambda item: item[1].order):
         name = wire.display if counts[wire.display] == 1 else wire.full_name
@@ -158,41 +158,76 @@ def _net_names(flat: FlatDesign, doc: Document) -> tuple[dict[tuple, str], dict[
     return names, chosen
 
 
-def _port_pins(view: View, known: dict[int, list[tuple[str, int, str]]]) -> list[tuple[str, int, str]]:
-    """(port key, member index, pin name) of every pin of a view, worked out once per view."""
-    found = known.get(id(view))
-    if found is None:
-        found = known[id(view)] = [
-            (key, index, port.name.display if not port.name.dims
-             else member_display(port.name, index))
-            for key, port in view.ports.items() for index in range(port.name.width)]
-    return found
+@dataclass(frozen=True, slots=True)
+class _Fields:
+    """What a part's properties (cell, view and instance merged) say, besides its kind."""
+
+    value: str | None
+    part_number: str | None
+    description: str | None
+    package: str | None
+    properties: dict[str, str]
 
 
-def _part(leaf: Leaf, ref: str, flat: FlatDesign, net_names: dict[tuple, str], doc: Document,
-          location: SourceLocation, ports: dict[int, list[tuple[str, int, str]]]) -> Part:
+def _fields(leaf: Leaf) -> _Fields:
     merged = {**leaf.cell.properties, **leaf.view.properties, **leaf.instance.properties}
     normal = [(_normal(name), name, value) for name, value in merged.items()]
     by_key = {key: value for key, _, value in normal}
-    value = by_key.get("value")
     part_number = next((by_key[k] for k in PART_NUMBER_KEYS if k in by_key), None)
     properties = {name.lower(): text for key, name, text in normal if key not in _NOT_KEPT}
     package = by_key.get("package") or by_key.get("footprint")
-    kind = infer_kind(ref, value, part_number, by_key.get("description"), package,
-                      leaf.cell.name.display)
-    pins = []
-    keys, find = leaf.keys, flat.find
-    for key, index, name in _port_pins(leaf.view, ports):
-        root = find(("p", keys, key, index))
-        pins.append(Pin(name, net_names.get(root) if root is not None else None))
-    ohms = _ohms(kind, value)
-    problem = _resistance_problem(kind, value, ohms)
-    if problem:
-        raise doc.error(leaf.instance.form, f"{ref}: {problem}")
-    return Part(ref=ref, kind=kind, value=value, pins=tuple(pins),
-                location=location, value_si=ohms,
-                path="/".join(leaf.names), cell=leaf.cell.name.display,
-                part_number=part_number, properties=properties)
+    return _Fields(by_key.get("value"), part_number, by_key.get("description"), package,
+                   properties or _NO_PROPERTIES)
+
+
+_NO_PROPERTIES: dict[str, str] = {}
+"""One empty property table for every part without properties (never changed)."""
+
+
+class _PartMaker:
+    """Parts of one design. Parts whose cell, view and instance properties are the same
+    objects share their property reading (and its dictionary, never changed); pins with the
+    same name and net, and equal values, are one object each."""
+
+    def __init__(self, flat: FlatDesign, net_names: dict[int, str], doc: Document) -> None:
+        self.flat, self.net_names, self.doc = flat, net_names, doc
+        self.fields: dict[tuple[int, int, int], _Fields] = {}
+        self.values: dict[tuple[str, str | None], tuple[float | None, str]] = {}
+        self.pins: dict[tuple[str, str | None], Pin] = {}
+        self.names: dict[int, tuple[str, ...]] = {}
+
+    def part(self, leaf: Leaf, ref: str, location: SourceLocation) -> Part:
+        key = (id(leaf.cell), id(leaf.view), id(leaf.instance.properties))
+        fields = self.fields.get(key)
+        if fields is None:  # the objects stay alive as long as the leaves: ids are stable
+            fields = self.fields[key] = _fields(leaf)
+        value, cell = fields.value, leaf.cell.name.display
+        kind = infer_kind(ref, value, fields.part_number, fields.description, fields.package,
+                          cell)
+        reading = self.values.get((kind, value))
+        if reading is None:
+            ohms = _ohms(kind, value)
+            reading = self.values[(kind, value)] = (ohms, _resistance_problem(kind, value, ohms))
+        if reading[1]:
+            raise self.doc.error(leaf.instance.form, f"{ref}: {reading[1]}")
+        return Part(ref=ref, kind=kind, value=value, pins=self.pins_of(leaf),
+                    location=location, value_si=reading[0],
+                    path="/".join(leaf.names), cell=cell,
+                    part_number=fields.part_number, properties=fields.properties)
+
+    def pins_of(self, leaf: Leaf) -> tuple[Pin, ...]:
+        names = self.names.get(id(leaf.view))
+        if names is None:
+            names = self.names[id(leaf.view)] = tuple(name for _, _, name in pin_names(leaf.view))
+        find, net_names, known = self.flat.find, self.net_names, self.pins
+        pins = []
+        for node, name in enumerate(names, leaf.pins):
+            net = net_names.get(find(node))
+            pin = known.get((name, net))
+            if pin is None:
+                pin = known[(name, net)] = Pin(name, net)
+            pins.append(pin)
+        return tuple(pins)
 
 
 def _resistance_problem(kind: str, value: str | None, ohms: float | None) -> str:
@@ -220,8 +255,8 @@ def _ohms(kind: str, value: str | None) -> float | None:
         return None
 
 
-def _nets(parts: dict[str, Part], chosen: dict[tuple, NetWire], names: dict[tuple, str],
-          flat: FlatDesign, doc: Document, ordered: list[tuple[tuple, NetWire]],
+def _nets(parts: dict[str, Part], chosen: dict[int, NetWire], names: dict[int, str],
+          flat: FlatDesign, doc: Document, ordered: list[tuple[int, NetWire]],
           places: list[SourceLocation]) -> dict[str, Net]:
     """Nets in declaration order (``ordered``: the chosen wires by order, ``places``: where
     each was declared); refuses a net with fewer than two connections."""
@@ -230,11 +265,11 @@ def _nets(parts: dict[str, Part], chosen: dict[tuple, NetWire], names: dict[tupl
         for pin in part.pins:
             if pin.net is not None:
                 joined[pin.net].append((ref, pin.name))
-    outside = Counter(names.get(flat.find(("p", (), key, i)))
-                      for key, port in flat.top_view.ports.items() for i in range(port.name.width))
-    aliases: dict[tuple, dict[str, None]] = {}  # insertion-ordered sets: a ground net merges
+    outside = Counter(names.get(flat.find(node))  # the top cell's own ports are nodes 0, 1...
+                      for node in range(len(pin_names(flat.top_view))))
+    aliases: dict[int, dict[str, None]] = {}  # insertion-ordered sets: a ground net merges
     for wire in flat.wires:                      # thousands of sheet-local wires
-        root = flat.find(wire.node) or wire.node
+        root = flat.find(wire.node)
         if chosen[root] is not wire:
             aliases.setdefault(root, {})[wire.full_name] = None
     nets: dict[str, Net] = {}

@@ -1,17 +1,19 @@
 """Flatten an EDIF design: walk the hierarchy from the top cell, join nets through ports.
 
 The walk is iterative (an explicit stack of cell views to expand). Every net wire and every
-port pin of every placed instance is a node of a union–find structure:
+port pin of every placed instance is a node, numbered, of a union–find structure:
 
-* ``("n", path, net_index, i)`` — wire ``i`` of net number ``net_index`` of the view placed
-  at instance path ``path`` (a tuple of instance keys; ``()`` is the top cell);
-* ``("p", path, port_key, i)`` — pin ``i`` of port ``port_key`` of the view placed at
-  ``path``. The same node is the port seen from inside a sub-sheet and the instance pin
-  seen from its parent, which is how nets join across the hierarchy.
+* the wires of a placed view (a sheet) are one block of consecutive numbers: its nets in
+  order, each net's wires in order;
+* the pins of a placed instance are one block: its view's ports in order, each port's pins in
+  order (the order of :func:`pin_names`). The same block is the sheet's own ports seen from
+  inside and the instance's pins seen from its parent, which is how nets join across the
+  hierarchy. The top cell's own ports are the block starting at 0.
 
-An instance is a leaf (a part) when its cell is in an ``external`` library or its view has
-no instances in its contents. Each view's references are resolved and checked once, however
-often the view is placed.
+The blocks of the children of one placed view are consecutive, so each view's connections
+are worked out once, as (wire in its block, pin in its children's block or own port) pairs,
+however often the view is placed. An instance is a leaf (a part) when its cell is in an
+``external`` library or its view has no instances in its contents.
 """
 
 from __future__ import annotations
@@ -23,25 +25,31 @@ from linter.readers.edif_syntax import (
     Cell, EdifFile, Instance, Name, Net, PortRef, View, member_display,
 )
 
-__all__ = ["Leaf", "NetWire", "FlatDesign", "flatten"]
+__all__ = ["Leaf", "NetWire", "FlatDesign", "flatten", "pin_names"]
 
 
 @dataclass(frozen=True, slots=True)
 class Leaf:
-    """A placed part: its instance path (keys and display names), instance, cell and view."""
+    """A placed part: the display names of its parents, its instance, cell and view, and the
+    first node of its pin block."""
 
-    keys: tuple[str, ...]
-    names: tuple[str, ...]
+    parents: tuple[str, ...]
     instance: Instance
     cell: Cell
     view: View
+    pins: int
+
+    @property
+    def names(self) -> tuple[str, ...]:
+        """Instance path as display names (``("S2", "R7")``)."""
+        return (*self.parents, self.instance.name.display)
 
 
 @dataclass(frozen=True, slots=True)
 class NetWire:
     """One wire of a net as placed: its depth and order decide which name a merged net takes."""
 
-    node: tuple
+    node: int
     depth: int
     order: int
     display: str
@@ -61,17 +69,22 @@ class FlatDesign:
     top_view: View
     leaves: list[Leaf]
     wires: list[NetWire]
-    parent: dict[tuple, tuple]
+    parent: list[int]
 
-    def find(self, node: tuple) -> tuple | None:
-        """Representative of ``node``'s set, or None for a node nothing joins."""
+    def find(self, node: int) -> int:
+        """Representative of ``node``'s set (``node`` itself when nothing joins it)."""
         parent = self.parent
-        if node not in parent:
-            return None
         while parent[node] != node:
             parent[node] = parent[parent[node]]
             node = parent[node]
         return node
+
+
+def pin_names(view: View) -> list[tuple[str, int, str]]:
+    """(port key, member index, pin name) of every pin of a view, in pin-block order."""
+    return [(key, index, port.name.display if not port.name.dims
+             else member_display(port.name, index))
+            for key, port in view.ports.items() for index in range(port.name.width)]
 
 
 @dataclass(frozen=True, slots=True)
@@ -81,32 +94,64 @@ class _Target:
     leaf: bool
 
 
+@dataclass(frozen=True, slots=True)
+class _Layout:
+    """A view's block sizes and connections, worked out once for every placement.
+
+    ``wires`` pairs each joined wire (its number in the view's wire block) with a pin: its
+    number in the children's block, or ``-1 - n`` for pin ``n`` of the view's own ports.
+    """
+
+    wire_count: int
+    child_offsets: tuple[int, ...]
+    child_pins: int
+    links: list[tuple[int, int]]
+
+
+def _port_offsets(view: View) -> dict[str, int]:
+    offsets, at = {}, 0
+    for key, port in view.ports.items():
+        offsets[key] = at
+        at += port.name.width
+    return offsets
+
+
+def _pin_count(view: View) -> int:
+    return sum(port.name.width for port in view.ports.values())
+
+
+class _Folded(dict):
+    """``str.casefold`` remembered: port names repeat on every instance of a cell."""
+
+    def __call__(self, text: str) -> str:
+        found = self.get(text)
+        if found is None:
+            found = self[text] = text.casefold()
+            if len(self) > 4096:
+                self.clear()
+        return found
+
+
 class _Flattener:
     def __init__(self, edif: EdifFile) -> None:
         self.edif = edif
         self.doc = edif.doc
-        self.parent: dict[tuple, tuple] = {}
+        self.parent: list[int] = []
         self.targets: dict[int, dict[str, _Target]] = {}
-        self.links: dict[int, list[tuple[int, int, str | None, str, int]]] = {}
+        self.layouts: dict[int, _Layout] = {}
+        self.port_offsets: dict[int, dict[str, int]] = {}
+        self.scalars: dict[int, dict[str, int]] = {}
+        self.pin_counts: dict[int, int] = {}
+
+    def allocate(self, count: int) -> int:
+        """The first of ``count`` new nodes, each its own set."""
+        parent = self.parent
+        first = len(parent)
+        parent.extend(range(first, first + count))
+        return first
 
     def fail(self, form: list, message: str) -> None:
         raise self.doc.error(form, message)
-
-    def union(self, a: tuple, b: tuple) -> None:
-        parent = self.parent
-        for node in (a, b):
-            if node not in parent:
-                parent[node] = node
-        root_a, root_b = self._root(a), self._root(b)
-        if root_a != root_b:
-            parent[root_b] = root_a
-
-    def _root(self, node: tuple) -> tuple:
-        parent = self.parent
-        while parent[node] != node:
-            parent[node] = parent[parent[node]]
-            node = parent[node]
-        return node
 
     def resolve(self, instance: Instance, cell: Cell) -> _Target:
         library_key = instance.library.casefold() if instance.library else cell.library
@@ -132,18 +177,78 @@ class _Flattener:
             self.targets[id(view)] = found
         return found
 
-    def links_of(self, cell: Cell, view: View) -> list[tuple[int, int, str | None, str, int]]:
-        """(net index, wire, instance key or None, port key, pin) for every joined pin of a view."""
-        found = self.links.get(id(view))
+    def layout_of(self, cell: Cell, view: View) -> _Layout:
+        """The view's blocks and connections (its references resolved and checked once)."""
+        found = self.layouts.get(id(view))
         if found is None:
             targets = self.targets_of(cell, view)
-            found = []
-            for index, net in enumerate(view.nets):
-                for entry in net.joined:
-                    pins = self.entry_pins(entry, net, cell, view, targets)
-                    found.extend((index, wire, inst, port, pin) for wire, (inst, port, pin) in enumerate(pins))
-            self.links[id(view)] = found
+            offsets, at = {}, 0
+            for key, target in targets.items():
+                offsets[key] = at
+                at += self.pin_count(target.view)
+            links = self.links(cell, view, targets, offsets)
+            found = _Layout(sum(net.name.width for net in view.nets), tuple(offsets.values()),
+                            at, links)
+            self.layouts[id(view)] = found
         return found
+
+    def links(self, cell: Cell, view: View, targets: dict[str, _Target],
+              offsets: dict[str, int]) -> list[tuple[int, int]]:
+        """(wire, pin) pairs of :class:`_Layout`, in the order of the nets and their references.
+
+        The common reference, one scalar port of an instance on a scalar net, is matched with
+        plain lookups; anything else (and every reference that names something missing) takes
+        :meth:`entry_pins`, which checks and refuses with a located message.
+        """
+        links: list[tuple[int, int]] = []
+        fold = _Folded()
+        first_wire = 0
+        for net in view.nets:
+            scalar = net.name.width == 1
+            for entry in net.joined:
+                if scalar and type(entry) is PortRef and entry.member is None \
+                        and entry.instance is not None:
+                    instance = entry.instance.casefold()
+                    target = targets.get(instance)
+                    if target is not None:
+                        port = self.scalar_ports(target.view).get(fold(entry.port))
+                        if port is not None:
+                            links.append((first_wire, offsets[instance] + port))
+                            continue
+                pins = self.entry_pins(entry, net, cell, view, targets)
+                links.extend((first_wire + wire, self.pin_number(inst, port, pin, view,
+                                                                 targets, offsets))
+                             for wire, (inst, port, pin) in enumerate(pins))
+            first_wire += net.name.width
+        return links
+
+    def offsets_of(self, view: View) -> dict[str, int]:
+        found = self.port_offsets.get(id(view))
+        if found is None:
+            found = self.port_offsets[id(view)] = _port_offsets(view)
+        return found
+
+    def scalar_ports(self, view: View) -> dict[str, int]:
+        """Pin number of each port of width 1 of a view, by port key."""
+        found = self.scalars.get(id(view))
+        if found is None:
+            offsets = self.offsets_of(view)
+            found = self.scalars[id(view)] = {key: offsets[key] for key, port in
+                                              view.ports.items() if port.name.width == 1}
+        return found
+
+    def pin_count(self, view: View) -> int:
+        found = self.pin_counts.get(id(view))
+        if found is None:
+            found = self.pin_counts[id(view)] = _pin_count(view)
+        return found
+
+    def pin_number(self, instance: str | None, port: str, pin: int, view: View,
+                   targets: dict[str, _Target], offsets: dict[str, int]) -> int:
+        """A pin's number in the children's block, or ``-1 - n`` for own port pin ``n``."""
+        if instance is None:
+            return -1 - (self.offsets_of(view)[port] + pin)
+        return offsets[instance] + self.offsets_of(targets[instance].view)[port] + pin
 
     def entry_pins(self, entry: PortRef | tuple[PortRef, ...], net: Net, cell: Cell, view: View,
                    targets: dict[str, _Target]) -> list[tuple[str | None, str, int]]:
@@ -188,42 +293,59 @@ class _Flattener:
     def walk(self, top_cell: Cell, top_view: View) -> tuple[list[Leaf], list[NetWire]]:
         leaves: list[Leaf] = []
         wires: list[NetWire] = []
-        stack = [(top_cell, top_view, (), (), (id(top_view),))]
+        own = self.allocate(_pin_count(top_view))
+        stack = [(top_cell, top_view, (), own, (id(top_view),))]
         limit, placed = active().max_parts, 0
+        parent = self.parent
         while stack:
-            cell, view, keys, names, ancestors = stack.pop()
-            self.place_nets(view, keys, names, wires)
+            cell, view, names, own, ancestors = stack.pop()
+            first_wire = self.place_nets(view, names, wires)
             if len(wires) > 4 * limit:
                 self.fail(view.form, f"the design expands to more than {4 * limit} net pieces "
                                      "(4 x max_parts)")
-            for index, wire, inst, port, pin in self.links_of(cell, view):
-                self.union(("n", keys, index, wire), ("p", keys + (inst,) if inst else keys, port, pin))
+            layout = self.layout_of(cell, view)
+            first_pin = self.allocate(layout.child_pins)
+            for wire, pin in layout.links:
+                a = first_wire + wire
+                b = first_pin + pin if pin >= 0 else own - 1 - pin
+                while parent[a] != a:
+                    parent[a] = a = parent[parent[a]]
+                while parent[b] != b:
+                    parent[b] = b = parent[parent[b]]
+                if a != b:
+                    parent[b] = a
             children = []
-            for key, target in self.targets_of(cell, view).items():
+            for (key, target), offset in zip(self.targets_of(cell, view).items(),
+                                             layout.child_offsets):
                 instance = view.instances[key]
                 placed += 1
                 if placed > limit:
                     self.fail(instance.form, f"the design expands to more than {limit} "
                                              "instances (max_parts)")
                 if target.leaf:
-                    leaves.append(Leaf(keys + (key,), names + (instance.name.display,),
-                                       instance, target.cell, target.view))
+                    leaves.append(Leaf(names, instance, target.cell, target.view,
+                                       first_pin + offset))
                     continue
                 if id(target.view) in ancestors:
                     self.fail(instance.form, f"instance '{instance.name.display}': cell "
                                              f"'{target.cell.name.display}' contains itself")
-                children.append((target.cell, target.view, keys + (key,),
-                                 names + (instance.name.display,), ancestors + (id(target.view),)))
+                children.append((target.cell, target.view, names + (instance.name.display,),
+                                 first_pin + offset, ancestors + (id(target.view),)))
             stack.extend(reversed(children))
         return leaves, wires
 
-    @staticmethod
-    def place_nets(view: View, keys: tuple, names: tuple, wires: list[NetWire]) -> None:
-        for index, net in enumerate(view.nets):
-            for wire in range(net.name.width):
-                display = net.name.display if not net.name.dims else member_display(net.name, wire)
-                wires.append(NetWire(("n", keys, index, wire), len(keys), len(wires), display,
-                                     names, net))
+    def place_nets(self, view: View, names: tuple, wires: list[NetWire]) -> int:
+        """NetWires for every wire of the view placed under ``names``; the first wire's node."""
+        first = node = len(self.parent)
+        depth = len(names)
+        for net in view.nets:
+            name = net.name
+            for wire in range(name.width):
+                display = name.display if not name.dims else member_display(name, wire)
+                wires.append(NetWire(node, depth, len(wires), display, names, net))
+                node += 1
+        self.allocate(node - first)
+        return first
 
 
 def _top(edif: EdifFile) -> tuple[Cell, View]:
