@@ -51,9 +51,8 @@ def _reference_line(group) -> str:
 def _check_result_against_plain_path(result) -> None:
     text = ReportFormat.JSON.reporter().render(result)
     assert json.loads(text) == _plain_report(result)
-    corners = CornerTexts()
     for group in result.groups:
-        assert group_line(group, corners) == _reference_line(group)
+        assert group_line(group) == _reference_line(group)
 
 
 @pytest.fixture(scope="module")
@@ -129,16 +128,23 @@ def _odd_group() -> GroupResult:
 
 def test_odd_values_give_the_plain_bytes() -> None:
     group = _odd_group()
-    corners = CornerTexts()
-    assert group_line(group, corners) == _reference_line(group)
-    assert group_line(group, corners) == _reference_line(group)  # corners remembered
+    assert group_line(group) == _reference_line(group)
     unsolved = GroupResult(group.group, "unsolved", reason="R1 has no value")
-    assert group_line(unsolved, corners) == _reference_line(unsolved)
+    assert group_line(unsolved) == _reference_line(unsolved)
+
+
+def test_corner_text_made_once_per_corner_object() -> None:
+    corner = _corner("R1", 4.75)
+    corners = CornerTexts()
+    first = corners.text(corner)
+    assert first == compact_json(plain_data(corner.as_dict()))  # expected: the plain path
+    assert corners.text(corner) is first
+    assert corners.text(_corner("R1", 4.75)) == first  # an equal corner, another object
 
 
 def test_a_stand_in_record_takes_the_plain_path() -> None:
     stand_in = sample_result().groups[0]
-    assert group_line(stand_in, CornerTexts()) == _reference_line(stand_in)
+    assert group_line(stand_in) == _reference_line(stand_in)
 
 
 _scalars = st.one_of(st.none(), st.booleans(), st.integers(),

@@ -3,10 +3,11 @@
 :func:`group_line` gives, for a :class:`~linter.results.GroupResult`, exactly
 ``json.dumps(plain_data(group.as_dict()), ensure_ascii=False, allow_nan=False)`` (default
 separators ``", "`` and ``": "``), without building the dict tree: a 100k-part board has
-about 26,000 groups and 20,000 corner records, and the tree costs more than the text. A
+about 26,000 groups and 200,000 corner records, and the tree costs more than the text. A
 corner record is written once per :class:`~linter.corners.Corner` object and reused for
-every LED, resistor and transistor that quotes it (a :class:`CornerTexts` lives for one
-report). Anything else (a stand-in record with ``as_dict()`` only) takes the plain path.
+every LED, resistor and transistor of the group that quotes it (a :class:`CornerTexts`
+lives for one group: the analysis makes each group's corners for that group, so little is
+lost, and memory stays bounded). Anything else (a stand-in record with ``as_dict()`` only) takes the plain path.
 The tests hold both paths to the same bytes on every fixture and on hand-made odd values.
 """
 
@@ -67,7 +68,7 @@ class CornerTexts:
     """The JSON text of each corner record, made once per :class:`Corner` object.
 
     Keyed by identity; the corner is kept with its text, so that an id is never reused
-    while the cache lives (one report).
+    while the cache lives (one group).
     """
 
     def __init__(self) -> None:
@@ -149,10 +150,11 @@ def _records(records: Iterable[Any], write: Any, corners: CornerTexts) -> str:
     return "[" + ", ".join([write(record, corners) for record in records]) + "]"
 
 
-def group_line(group: Any, corners: CornerTexts) -> str:
+def group_line(group: Any) -> str:
     """The JSON ``groups`` entry of one group, on one line (see the module docstring)."""
     if type(group) is not GroupResult:
         return compact_json(plain_data(group.as_dict()))
+    corners = CornerTexts()
     shape = group.group
     return ('{"id": ' + _value(shape.id) + ', "topology": ' + _value(shape.topology)
             + ', "rail": ' + _value(group.rail) + ', "parts": ' + _strings(shape.parts)
