@@ -117,6 +117,10 @@ def base_values(series: str) -> tuple[float, ...]:
     return tuple(value / scale for value in raw)
 
 
+_LOOKUPS_KEPT = 1 << 16
+"""Answers each lookup (nearest, below, above, is_standard) remembers by its arguments: a
+board repeats a few hundred values many thousands of times."""
+
 _VALUE_RANGE = (1e-100, 1e100)
 """Values this module handles (Ω or any unit); far wider than any real part."""
 
@@ -134,11 +138,17 @@ def _in_decade(mantissa: float, decade: int) -> float:
     return integer * 10.0**exponent if exponent >= 0 else integer / 10.0**-exponent
 
 
-def _candidates(value: float, series: str) -> list[float]:
+@lru_cache(maxsize=None)
+def _decade_values(series: str, decade: int) -> tuple[float, ...]:
+    """The values of ``series`` in one decade, each made by :func:`_in_decade` once."""
+    return tuple(_in_decade(mantissa, decade) for mantissa in base_values(series))
+
+
+def _candidates(value: float, series: str) -> tuple[float, ...]:
     """Series values of the decade holding ``value`` and of its two neighbour decades."""
     decade = math.floor(math.log10(value))
-    return [_in_decade(mantissa, d) for d in (decade - 1, decade, decade + 1)
-            for mantissa in base_values(series)]
+    return (_decade_values(series, decade - 1) + _decade_values(series, decade)
+            + _decade_values(series, decade + 1))
 
 
 def values_between(series: str, low: float, high: float) -> tuple[float, ...]:
@@ -153,11 +163,11 @@ def values_between(series: str, low: float, high: float) -> tuple[float, ...]:
         raise ValueError(f"empty range: {low!r} > {high!r}")
     found: list[float] = []
     for decade in range(math.floor(math.log10(low)) - 1, math.floor(math.log10(high)) + 2):
-        found.extend(v for v in (_in_decade(m, decade) for m in base_values(series))
-                     if low <= v <= high)
+        found.extend(v for v in _decade_values(series, decade) if low <= v <= high)
     return tuple(found)
 
 
+@lru_cache(maxsize=_LOOKUPS_KEPT)
 def nearest(value: float, series: str) -> float:
     """The value of ``series`` closest to ``value`` (absolute difference; ties go down).
 
@@ -168,6 +178,7 @@ def nearest(value: float, series: str) -> float:
     return min(_candidates(value, series), key=lambda v: (abs(v - value), v))
 
 
+@lru_cache(maxsize=_LOOKUPS_KEPT)
 def below(value: float, series: str, rel_tol: float = DEFAULT_REL_TOL) -> float:
     """The largest value of ``series`` at or below ``value`` (within ``rel_tol`` counts as at).
 
@@ -178,6 +189,7 @@ def below(value: float, series: str, rel_tol: float = DEFAULT_REL_TOL) -> float:
     return max(v for v in _candidates(value, series) if v <= value * (1 + rel_tol))
 
 
+@lru_cache(maxsize=_LOOKUPS_KEPT)
 def above(value: float, series: str, rel_tol: float = DEFAULT_REL_TOL) -> float:
     """The smallest value of ``series`` at or above ``value`` (within ``rel_tol`` counts as at).
 
@@ -197,6 +209,7 @@ def neighbours(value: float, series: str) -> tuple[float, float]:
     return below(value, series), above(value, series)
 
 
+@lru_cache(maxsize=_LOOKUPS_KEPT)
 def is_standard(value: float, series: str, rel_tol: float = DEFAULT_REL_TOL) -> bool:
     """True when ``value`` is a value of ``series`` within ``rel_tol`` (relative).
 

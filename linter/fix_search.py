@@ -17,7 +17,8 @@ from typing import Any, Callable, Iterable, Mapping
 
 from linter import eseries
 from linter.analysis import analyse
-from linter.fixes import ResistorChoice, resistor_for_current_solved
+from linter.fix_batch import Overlay, SeriesWalk, solve_resistor_values
+from linter.fixes import SERIES_STEP, ResistorChoice, resistor_for_current_solved
 from linter.model import Circuit
 from linter.partdata import ResistorData
 from linter.results import GroupResult
@@ -25,7 +26,7 @@ from linter.results import GroupResult
 __all__ = ["DEFAULT_TOLERANCE", "resolve", "with_resistor", "led_currents",
            "resistor_for_max", "resistor_for_min", "rail_for_min", "sub_circuit",
            "resolve_circuit", "resistor_record", "tolerance_of", "split_resistor",
-           "signature", "remembered"]
+           "signature", "remembered", "resistor_walk"]
 
 DEFAULT_TOLERANCE = 0.05
 """Resistor tolerance (fraction) when the part data gives none (DESIGN.md: else 5 %)."""
@@ -37,8 +38,7 @@ _MAX_STEPS = 200
 def resolve(context: Any, result: GroupResult, part_data: Mapping[str, Any] | None = None,
             rails: Mapping[str, Any] | None = None) -> GroupResult:
     """The group solved again with some part data (or rails) replaced."""
-    data = dict(context.part_data)
-    data.update(part_data or {})
+    data = Overlay(context.part_data, part_data or {})
     rail_map = dict(context.rails)
     rail_map.update(rails or {})
     (again,) = analyse([result.group], context.circuit, data, rail_map, context.settings.ambient)
@@ -65,9 +65,44 @@ def led_currents(result: GroupResult, refs: Iterable[str]) -> tuple[float, float
             max(x.current.max for x in leds))
 
 
-def _solver(context: Any, result: GroupResult, ref: str, leds: tuple[str, ...]):
+_WALKS_KEPT = 8
+"""Groups (with one resistor each) whose solved values are kept for the next search."""
+
+_WALKS: OrderedDict[tuple[int, int, str], tuple[Any, GroupResult, dict]] = OrderedDict()
+
+
+def _solved_values(context: Any, result: GroupResult, ref: str) -> dict:
+    """The table of ``result``'s group solved with ``ref`` at each value (Ω) so far, shared
+    by the searches of several rules on the same group and resistor (a pin's limit and the
+    LED's, say). Kept for the last :data:`_WALKS_KEPT` groups; the context and the result
+    are held with it, so that the ids in the key stay theirs."""
+    key = (id(context), id(result), ref)
+    entry = _WALKS.get(key)
+    if entry is not None and entry[0] is context and entry[1] is result:
+        _WALKS.move_to_end(key)
+        return entry[2]
+    table: dict = {}
+    _WALKS[key] = (context, result, table)
+    if len(_WALKS) > _WALKS_KEPT:
+        _WALKS.popitem(last=False)
+    return table
+
+
+def resistor_walk(context: Any, result: GroupResult, ref: str, series: str) -> SeriesWalk:
+    """The group solved with resistor ``ref`` at the values a search of ``series`` asks for,
+    neighbouring values solved ahead in one batch (:class:`linter.fix_batch.SeriesWalk`);
+    each answer is what :func:`with_resistor` gives for that value."""
+    return SeriesWalk(lambda values: solve_resistor_values(context, result, ref, values),
+                      up=lambda ohms: eseries.above(ohms * SERIES_STEP, series),
+                      down=lambda ohms: eseries.below(ohms / SERIES_STEP, series),
+                      known=_solved_values(context, result, ref))
+
+
+def _solver(context: Any, result: GroupResult, ref: str, leds: tuple[str, ...], series: str):
+    walk = resistor_walk(context, result, ref, series)
+
     def current(ohms: float) -> tuple[float, float, float]:
-        again = with_resistor(context, result, ref, ohms)
+        again = walk(ohms)
         if again.status != "solved":
             raise RuntimeError(f"{result.id}: not solvable with {ref} = {ohms} Ω")
         return led_currents(again, leds)
@@ -88,9 +123,11 @@ def resistor_for_max(context: Any, result: GroupResult, ref: str, leds: tuple[st
     which the solver's worst-case maximum over ``leds`` is at most ``limit`` (A)."""
     def search() -> ResistorChoice | None:
         tolerance = tolerance_of(context, ref)
+        series = eseries.series_for_tolerance(tolerance)
         start = result.resistor(ref).ohms
-        return resistor_for_current_solved(_solver(context, result, ref, leds), limit, start,
-                                           tolerance=tolerance, max_steps=_MAX_STEPS)
+        return resistor_for_current_solved(_solver(context, result, ref, leds, series), limit,
+                                           start, series=series, tolerance=tolerance,
+                                           max_steps=_MAX_STEPS)
     return remembered(context, result, ("resistor_for_max", ref, leds, limit), search)
 
 
@@ -107,7 +144,7 @@ def _resistor_for_min(context: Any, result: GroupResult, ref: str, leds: tuple[s
                       floor: float, ceiling: float | None) -> ResistorChoice | None:
     tolerance = tolerance_of(context, ref)
     series = eseries.series_for_tolerance(tolerance)
-    current = _solver(context, result, ref, leds)
+    current = _solver(context, result, ref, leds, series)
     ohms = result.resistor(ref).ohms
     for _ in range(_MAX_STEPS):
         ohms = eseries.below(ohms / 1.001, series)
@@ -213,7 +250,7 @@ def split_resistor(circuit: Circuit, group: Any, shared: str, ohms_each: float
         parts[name] = Part(name, "resistor", None, (Pin("1", far), Pin("2", own)),
                            resistor.location, value_si=ohms_each)
         names[string[0]] = name
-    edited = Circuit(circuit.source, circuit.format, {**circuit.parts, **parts}, circuit.nets)
+    edited = Circuit(circuit.source, circuit.format, parts, circuit.nets)  # only what is kept
     return sub_circuit(edited, parts), names
 
 
@@ -267,14 +304,12 @@ def signature(context: Any, result: GroupResult, question: Any) -> bytes | None:
     text = repr((replace(group, id=""), parts, question, data,
                  sorted(context.rails.items()), context.settings.ambient))
     order: dict[str, int] = {}
-
-    def neutral(match: re.Match) -> str:
-        name = match.group(1)
-        if name not in names:
-            return match.group(0)
-        return "\0%d\0" % order.setdefault(name, len(order))
-
-    text = _QUOTED.sub(neutral, text)
+    pieces = _QUOTED.split(text)  # text, quoted name, text, quoted name, …, text
+    for index in range(1, len(pieces), 2):
+        name = pieces[index]
+        pieces[index] = ("\0%d\0" % order.setdefault(name, len(order)) if name in names
+                         else f"'{name}'")
+    text = "".join(pieces)
     seen = list(order)
     ranks = (sorted(range(len(seen)), key=lambda i: seen[i]),
              sorted(range(len(seen)), key=lambda i: natural_key(seen[i])))

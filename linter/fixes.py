@@ -22,7 +22,7 @@ from linter.fixes_rating import (
     derated_transistor_rating, derating_factor, resistor_rating,
 )
 from linter.fixes_resistor import (
-    PerLedFix, ResistorChoice, line_current, per_led_resistors, rail_for_resistor,
+    SERIES_STEP, PerLedFix, ResistorChoice, line_current, per_led_resistors, rail_for_resistor,
     resistor_for_current, resistor_for_current_solved,
 )
 from linter.fixes_sink import GENERIC_NPN, SinkDesign, collector_current, rail_for_sink, sink_design
@@ -30,7 +30,8 @@ from linter.fixes_sink import GENERIC_NPN, SinkDesign, collector_current, rail_f
 __all__ = [
     "CHIP_POWER_RATINGS", "DEFAULT_DERATING_SHARE", "RatingChoice", "derated_resistor_rating",
     "derated_transistor_rating", "derating_factor", "resistor_rating",
-    "PerLedFix", "ResistorChoice", "line_current", "per_led_resistors", "rail_for_resistor",
+    "SERIES_STEP", "PerLedFix", "ResistorChoice", "line_current", "per_led_resistors",
+    "rail_for_resistor",
     "resistor_for_current", "resistor_for_current_solved",
     "GENERIC_NPN", "SinkDesign", "collector_current", "rail_for_sink", "sink_design",
 ]

@@ -24,13 +24,16 @@ __all__ = [
     "resistor_for_current_solved",
     "per_led_resistors",
     "rail_for_resistor",
+    "SERIES_STEP",
 ]
 
 CurrentFunction = Callable[[float], tuple[float, float, float]]
 """R (Ω) → (i_nom, i_min, i_max) in A, as the solver computes them for that resistor."""
 
-_STEP = 1.001
+SERIES_STEP = 1.001
 """Ratio (dimensionless) that moves past a series value to reach its neighbour (E192 steps ≈ 1.2 %)."""
+
+_STEP = SERIES_STEP
 
 
 _RATIO_SLACK = 1e-9

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from typing import Any, Iterable
 
-from linter import fix_search
+from linter import eseries, fix_search
 from linter.dissipation import Allowance, over, semiconductor_allowance
 from linter.findings import Finding
 from linter.fixes import resistor_for_current_solved
@@ -108,18 +108,21 @@ def _resistor_for_power(context: Any, result: GroupResult, ref: str,
     """Smallest standard value of ``ref`` for which every LED named in ``limits`` keeps its
     solved worst-case power (W) within its allowance (W). The choice's "current" fields
     hold the largest ratio power/allowance (dimensionless; at most 1)."""
-    def ratio(value: float) -> tuple[float, float, float]:
-        again = fix_search.with_resistor(context, result, ref, value)
-        if again.status != "solved":
-            raise RuntimeError(f"{result.id}: not solvable with {ref} = {value} Ω")
-        spans = [(again.led(r).power, allowed) for r, allowed in limits.items()]
-        return (max(s.nom / a for s, a in spans), min(s.min / a for s, a in spans),
-                max(s.max / a for s, a in spans))
-
     def search():
+        tolerance = fix_search.tolerance_of(context, ref)
+        series = eseries.series_for_tolerance(tolerance)
+        walk = fix_search.resistor_walk(context, result, ref, series)
+
+        def ratio(value: float) -> tuple[float, float, float]:
+            again = walk(value)
+            if again.status != "solved":
+                raise RuntimeError(f"{result.id}: not solvable with {ref} = {value} Ω")
+            spans = [(again.led(r).power, allowed) for r, allowed in limits.items()]
+            return (max(s.nom / a for s, a in spans), min(s.min / a for s, a in spans),
+                    max(s.max / a for s, a in spans))
+
         return resistor_for_current_solved(ratio, 1.0, result.resistor(ref).ohms,
-                                           tolerance=fix_search.tolerance_of(context, ref),
-                                           max_steps=200)
+                                           series=series, tolerance=tolerance, max_steps=200)
 
     try:
         return fix_search.remembered(context, result,

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from typing import Any, Iterable
 
-from linter import fix_search
+from linter import eseries, fix_search
 from linter.findings import Finding
 from linter.fixes import resistor_for_current_solved
 from linter.partdata import McuData
@@ -140,17 +140,20 @@ def _pin_fix(context: Any, result: GroupResult, pin: PinResult, values: dict) ->
 
 def _resistor_for_pin(context: Any, result: GroupResult, ref: str, pin: PinResult):
     """Smallest standard value of ``ref`` keeping the pin's solved worst case within rating."""
-    def current(value: float) -> tuple[float, float, float]:
-        again = fix_search.with_resistor(context, result, ref, value)
-        if again.status != "solved":
-            raise RuntimeError(f"{result.id}: not solvable with {ref} = {value} Ω")
-        span = next(p for p in again.pins if p.id == pin.id).current
-        return span.nom, span.min, span.max
-
     def search():
+        tolerance = fix_search.tolerance_of(context, ref)
+        series = eseries.series_for_tolerance(tolerance)
+        walk = fix_search.resistor_walk(context, result, ref, series)
+
+        def current(value: float) -> tuple[float, float, float]:
+            again = walk(value)
+            if again.status != "solved":
+                raise RuntimeError(f"{result.id}: not solvable with {ref} = {value} Ω")
+            span = next(p for p in again.pins if p.id == pin.id).current
+            return span.nom, span.min, span.max
+
         return resistor_for_current_solved(current, pin.current_max, result.resistor(ref).ohms,
-                                           tolerance=fix_search.tolerance_of(context, ref),
-                                           max_steps=200)
+                                           series=series, tolerance=tolerance, max_steps=200)
 
     try:
         return fix_search.remembered(context, result,

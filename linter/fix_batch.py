@@ -1,0 +1,172 @@
+"""Fix searches solved in batches: many candidate values of one group in one solver run.
+
+A fix search asks the solver about one group again and again, each time with one part
+value (or one rail) changed. Each question alone is a whole Newton run of a tiny batch;
+asked together, the candidates are models of one structure and the solver takes them as one
+batch (:func:`linter.analysis.analyse` does the same for identical groups of a board). The
+answers are the same numbers: the solver treats every row on its own (a row converges and
+leaves the iteration by itself), so a candidate solved among others gives what it gives
+alone. ``tests/test_fix_batch.py`` compares both paths number for number.
+
+:class:`SeriesWalk` is what the searches use: a lookup of "the group with resistor R at
+this value" that, on the first value asked, solves a window of the neighbouring series
+values along with it, and a longer window each time the search walks past what is known.
+The search itself runs unchanged and asks exactly the values it asked before; it only finds
+most of them solved already.
+"""
+
+from __future__ import annotations
+
+from typing import Any, Callable, Iterator, Mapping, Sequence
+
+from linter.netbuild import ModelGap, build_model
+from linter.results import GroupResult
+
+__all__ = ["Overlay", "solve_variants", "solve_resistor_values", "SeriesWalk",
+           "FIRST_WINDOW", "MAX_WINDOW"]
+
+FIRST_WINDOW = (4, 24)
+"""Values solved with the first one asked: (below it, above it) along the walk."""
+
+MAX_WINDOW = 64
+"""Most values solved ahead in one batch when a search walks past the known ones."""
+
+
+class Overlay(Mapping):
+    """A mapping read through ``changes`` first, then ``base`` (neither is copied).
+
+    A 100,000-part board's part data is not copied for every candidate value of one
+    resistor: the model builder only looks parts up.
+    """
+
+    def __init__(self, base: Mapping[str, Any], changes: Mapping[str, Any]) -> None:
+        self._base, self._changes = base, changes
+
+    def __getitem__(self, key: str) -> Any:
+        if key in self._changes:
+            return self._changes[key]
+        return self._base[key]
+
+    def __contains__(self, key: object) -> bool:
+        return key in self._changes or key in self._base
+
+    def get(self, key: str, default: Any = None) -> Any:
+        if key in self._changes:
+            return self._changes[key]
+        return self._base.get(key, default)
+
+    def __iter__(self) -> Iterator[str]:
+        yield from self._changes
+        yield from (key for key in self._base if key not in self._changes)
+
+    def __len__(self) -> int:
+        return len(self._base) + sum(1 for key in self._changes if key not in self._base)
+
+
+def _solve_models(models: list, ambient: Any) -> list[GroupResult]:
+    """Models of one structure (one signature) solved as one batch, in order."""
+    from linter import analysis
+
+    hook = getattr(analysis, "analyse_models", None)
+    if hook is not None:
+        return list(hook(models, ambient))
+    with analysis._gc_paused():  # the analysis owner's bucket solver; see the report
+        return list(analysis._solve_bucket(models, ambient))
+
+
+Variant = tuple[Mapping[str, Any], Mapping[str, Any]]
+"""(part data changes by reference, rail changes by net name) of one candidate."""
+
+
+def solve_variants(context: Any, result: GroupResult, variants: Sequence[Variant]
+                   ) -> list[GroupResult]:
+    """``result``'s group solved again once per variant, every variant in one batch.
+
+    Each answer is what :func:`linter.fix_search.resolve` gives for that variant alone:
+    a model that cannot be built is ``unsolved`` with the reason, as the analysis reports it.
+    """
+    answers: list[GroupResult | None] = [None] * len(variants)
+    buckets: dict[tuple, list[tuple[int, Any]]] = {}
+    group = result.group
+    for index, (data, rails) in enumerate(variants):
+        rail_map = dict(context.rails)
+        rail_map.update(rails)
+        try:
+            model = build_model(group, context.circuit, Overlay(context.part_data, data),
+                                rail_map)
+        except ModelGap as exc:
+            answers[index] = GroupResult(group, "unsolved", reason=str(exc))
+            continue
+        buckets.setdefault(model.signature, []).append((index, model))
+    for members in buckets.values():
+        solved = _solve_models([model for _, model in members], context.settings.ambient)
+        for (index, _), answer in zip(members, solved):
+            answers[index] = answer
+    return [answer for answer in answers if answer is not None]
+
+
+def solve_resistor_values(context: Any, result: GroupResult, ref: str,
+                          values: Sequence[float]) -> list[GroupResult]:
+    """The group solved with resistor ``ref`` at each of ``values`` (Ω), in one batch; the
+    same results as :func:`linter.fix_search.with_resistor` value by value."""
+    from linter.fix_search import resistor_record
+
+    return solve_variants(context, result,
+                          [({ref: resistor_record(context, ref, ohms)}, {}) for ohms in values])
+
+
+Step = Callable[[float], float]
+"""The next series value from one value (Ω → Ω), up or down the walk."""
+
+
+class SeriesWalk:
+    """The group solved at the values of one resistor a search asks for, solved ahead.
+
+    ``walk(ohms)`` is the GroupResult of the group with the resistor at ``ohms``. The first
+    value asked is solved together with the :data:`FIRST_WINDOW` values reached from it by
+    ``down`` and ``up``; a value beyond the known ones is solved with as many more in its
+    direction as are known already (at most :data:`MAX_WINDOW`). A value the steps do not
+    reach is solved too, only with fewer companions. Every answer is kept for the walk's
+    lifetime (one search), or as long as the ``known`` table handed in is kept.
+    """
+
+    def __init__(self, solve_many: Callable[[list[float]], list[GroupResult]],
+                 up: Step, down: Step, known: dict[float, GroupResult] | None = None) -> None:
+        self._solve_many, self._up, self._down = solve_many, up, down
+        self._known: dict[float, GroupResult] = {} if known is None else known
+        """Answers by value; ``known`` shares them with other walks of the same resistor."""
+        self.batches = 0
+        """Solver runs so far (for tests and profiling)."""
+
+    def __call__(self, ohms: float) -> GroupResult:
+        found = self._known.get(ohms)
+        if found is None:
+            self._fetch(ohms)
+            found = self._known[ohms]
+        return found
+
+    def _fetch(self, ohms: float) -> None:
+        if not self._known:
+            below, above = FIRST_WINDOW
+        else:
+            ahead = min(MAX_WINDOW, max(len(self._known), FIRST_WINDOW[1]))
+            below, above = (0, ahead) if ohms > max(self._known) else (
+                (ahead, 0) if ohms < min(self._known) else (1, 1))
+        values = [ohms]
+        values += self._steps(ohms, self._up, above)
+        values += self._steps(ohms, self._down, below)
+        wanted = [v for v in dict.fromkeys(values) if v not in self._known]
+        self._known.update(zip(wanted, self._solve_many(wanted)))
+        self.batches += 1
+
+    @staticmethod
+    def _steps(start: float, step: Step, count: int) -> list[float]:
+        found: list[float] = []
+        value = start
+        for _ in range(count):
+            try:
+                value = step(value)
+            except ValueError:  # outside the values the E-series tables handle
+                break
+            found.append(value)
+        return found
