@@ -13,7 +13,7 @@ if TYPE_CHECKING:
     from linter.model import Circuit, SourceLocation
 
 __all__ = ["ordered_findings", "finding_location", "severity_counts", "plain_data",
-           "sorted_groups"]
+           "sorted_groups", "sorted_records", "group_entry"]
 
 
 def _order(finding: Finding) -> tuple:
@@ -89,3 +89,23 @@ def sorted_groups(groups: Iterable[Any]) -> list[dict[str, Any]]:
     """Each group's ``as_dict()`` as plain data, in natural order of the group id."""
     dicts = [plain_data(group.as_dict()) for group in groups]
     return sorted(dicts, key=lambda entry: natural_key(str(entry.get("id", ""))))
+
+
+def group_entry(group: Any) -> dict[str, Any]:
+    """One group's ``as_dict()`` as plain data (an entry of :func:`sorted_groups`)."""
+    return plain_data(group.as_dict())
+
+
+def _record_id(group: Any) -> str:
+    """The id :func:`sorted_groups` sorts by, without the whole entry where the record has
+    an ``id`` (a solved group); a stand-in record with ``as_dict()`` only is asked for it."""
+    record_id = getattr(group, "id", None)
+    if isinstance(record_id, str):
+        return record_id
+    return str(group_entry(group).get("id", ""))
+
+
+def sorted_records(groups: Iterable[Any]) -> list[Any]:
+    """The group records in the order of :func:`sorted_groups`, not turned into entries:
+    a reporter that shows a few groups, or one at a time, makes only those entries."""
+    return sorted(groups, key=lambda group: natural_key(_record_id(group)))

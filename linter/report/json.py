@@ -21,13 +21,11 @@ from typing import TYPE_CHECKING, Any, Iterable, Iterator, Mapping
 from linter import __version__
 from linter.findings import Finding
 from linter.gc_pause import paused_gc
-from linter.refs import natural_key
 from linter.report.common import (finding_location, ordered_findings, plain_data,
-                                  severity_counts, sorted_groups)
+                                  severity_counts, sorted_groups, sorted_records)
 from linter.report.json_groups import group_line
 from linter.report.json_layout import Lines, compact_json, layered_chunks
 from linter.report.stream import StreamingReporter
-from linter.results import GroupResult
 
 if TYPE_CHECKING:
     from linter.engine import CheckResult
@@ -106,16 +104,9 @@ def report_dict(result: "CheckResult") -> dict[str, Any]:
     }
 
 
-def _group_id(group: Any) -> str:
-    """The id a group is sorted by (a stand-in record has ``as_dict()`` only)."""
-    if type(group) is GroupResult:
-        return str(group.group.id)
-    return str(plain_data(group.as_dict()).get("id", ""))
-
-
 def _group_lines(groups: Iterable[Any]) -> Iterator[str]:
     """Each group's JSON entry, one line each, in natural order of the group id."""
-    for group in sorted(groups, key=lambda group: natural_key(_group_id(group))):
+    for group in sorted_records(groups):
         yield group_line(group)
 
 

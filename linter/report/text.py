@@ -12,7 +12,7 @@ whose tables use dashes under the header and no frame.
 from __future__ import annotations
 
 import io
-from typing import TYPE_CHECKING, Any, Mapping
+from typing import TYPE_CHECKING, Any, Iterator, Mapping
 
 from rich import box
 from rich.console import Console
@@ -20,16 +20,17 @@ from rich.table import Table
 from rich.text import Text
 
 from linter.findings import SEVERITIES, Finding
+from linter.gc_pause import paused_gc
 from linter.refs import fold_refs
-from linter.report import Reporter
-from linter.report.common import (finding_location, ordered_findings, severity_counts,
-                                  sorted_groups)
+from linter.report.common import (finding_location, group_entry, ordered_findings,
+                                  severity_counts, sorted_records)
+from linter.report.stream import StreamingReporter
 from linter.units import format_si
 
 if TYPE_CHECKING:
     from linter.engine import CheckResult
 
-__all__ = ["TextReporter", "REPORT_WIDTH", "UNKNOWN"]
+__all__ = ["TextReporter", "REPORT_WIDTH", "UNKNOWN", "PIECE_CHARS"]
 
 REPORT_WIDTH = 100
 """Columns of the report: fixed, so that the same input gives the same text anywhere."""
@@ -147,54 +148,113 @@ def _group_line(group: Mapping[str, Any]) -> Text:
     return line
 
 
-class TextReporter(Reporter):
-    """Readable when piped; colour only when asked for (the CLI asks on a terminal)."""
+PIECE_CHARS = 1 << 16
+"""A streamed text report comes in pieces of about this many characters."""
 
-    def render(self, result: "CheckResult") -> str:
-        buffer = io.StringIO()
-        color = self.options.color
-        console = Console(file=buffer, force_terminal=color, no_color=not color,
-                          color_system="standard" if color else None, legacy_windows=False,
-                          width=REPORT_WIDTH, highlight=False, soft_wrap=True,
-                          emoji=False, markup=False)
+
+class _Lines:
+    """The report's lines as they are printed, kept until taken (:meth:`take`).
+
+    Without colour, rich prints a :class:`Text` line as its plain text and a newline (control
+    codes are already stripped from ``Text.plain``); only tabs are expanded on the way, so a
+    plain line is kept as it is, while a line with a tab, a table, and everything in colour
+    go through rich. The tests hold the shortcut to rich's own output.
+    """
+
+    def __init__(self, color: bool) -> None:
+        self.buffer = io.StringIO()
+        self.console = Console(file=self.buffer, force_terminal=color, no_color=not color,
+                               color_system="standard" if color else None,
+                               legacy_windows=False, width=REPORT_WIDTH, highlight=False,
+                               soft_wrap=True, emoji=False, markup=False)
+        self.plain = not color
+        self.pending: list[str] = []
+        self.size = 0
+
+    def print(self, renderable: Any = None, **options: Any) -> None:
+        """Print one renderable (a blank line when None) as ``Console.print`` would."""
+        if self.plain and (renderable is None or (type(renderable) is Text and not options)):
+            line = "" if renderable is None else renderable.plain
+            if "\t" not in line:
+                self._keep(line + "\n")
+                return
+        if renderable is None:
+            self.console.print()
+        else:
+            self.console.print(renderable, **options)
+        self._keep(self.buffer.getvalue())
+        self.buffer.seek(0)
+        self.buffer.truncate()
+
+    def _keep(self, text: str) -> None:
+        self.pending.append(text)
+        self.size += len(text)
+
+    def take(self) -> str:
+        """The text printed since the last call."""
+        text = "".join(self.pending)
+        self.pending.clear()
+        self.size = 0
+        return text
+
+
+class TextReporter(StreamingReporter):
+    """Readable when piped; colour only when asked for (the CLI asks on a terminal).
+
+    The text comes in pieces of about :data:`PIECE_CHARS` characters (:meth:`chunks`), so
+    that the report of a large board is written as it is made.
+    """
+
+    def chunks(self, result: "CheckResult") -> Iterator[str]:
+        lines = _Lines(self.options.color)
+        with paused_gc():  # acyclic text; see linter.gc_pause
+            for _ in self._print(lines, result):
+                if lines.size >= PIECE_CHARS:
+                    yield lines.take()
+            yield lines.take()
+
+    def _print(self, lines: _Lines, result: "CheckResult") -> Iterator[None]:
+        """Print the report line by line, pausing after each group and finding."""
         if not self.options.quiet:
-            console.print(_summary(result))
+            lines.print(_summary(result))
             if self.options.verbose:
-                self._print_groups(console, result)
+                yield from self._print_groups(lines, result)
             else:
-                self._print_group_lines(console, result)
-        self._print_findings(console, result)
-        return buffer.getvalue()
+                self._print_group_lines(lines, result)
+        yield from self._print_findings(lines, result)
 
-    def _print_groups(self, console: Console, result: "CheckResult") -> None:
+    def _print_groups(self, lines: _Lines, result: "CheckResult") -> Iterator[None]:
         style = box.SIMPLE_HEAD if self.options.color else _PLAIN_BOX
-        for group in sorted_groups(result.groups):
-            console.print()
-            console.print(_group_heading(group))
+        for record in sorted_records(result.groups):
+            group = group_entry(record)
+            lines.print()
+            lines.print(_group_heading(group))
             if group.get("leds"):
-                console.print(_led_table(group, style), soft_wrap=False)
+                lines.print(_led_table(group, style), soft_wrap=False)
             if group.get("resistors"):
-                console.print(_resistor_table(group, style), soft_wrap=False)
+                lines.print(_resistor_table(group, style), soft_wrap=False)
+            yield
 
-    def _print_group_lines(self, console: Console, result: "CheckResult") -> None:
-        groups = sorted_groups(result.groups)
-        for group in groups[:GROUP_LINES_MAX]:
-            console.print(_group_line(group))
-        if len(groups) > GROUP_LINES_MAX:
-            console.print(Text(f"  … and {len(groups) - GROUP_LINES_MAX} more groups "
-                               "(--verbose lists them all)"))
+    def _print_group_lines(self, lines: _Lines, result: "CheckResult") -> None:
+        records = sorted_records(result.groups)
+        for record in records[:GROUP_LINES_MAX]:
+            lines.print(_group_line(group_entry(record)))
+        if len(records) > GROUP_LINES_MAX:
+            lines.print(Text(f"  … and {len(records) - GROUP_LINES_MAX} more groups "
+                             "(--verbose lists them all)"))
 
-    def _print_findings(self, console: Console, result: "CheckResult") -> None:
+    def _print_findings(self, lines: _Lines, result: "CheckResult") -> Iterator[None]:
         findings = ordered_findings(result.findings)
         for severity in SEVERITIES:
             these = [finding for finding in findings if finding.severity == severity]
             if not these:
                 continue
             if not self.options.quiet:
-                console.print()
-                console.print(Text(_count_of(len(these), severity).upper(),
-                                   style=_STYLE[severity]))
+                lines.print()
+                lines.print(Text(_count_of(len(these), severity).upper(),
+                                 style=_STYLE[severity]))
             for finding in these:
-                console.print(_finding_line(finding, result))
+                lines.print(_finding_line(finding, result))
                 if finding.fix:
-                    console.print(Text(f"    fix: {finding.fix}"))
+                    lines.print(Text(f"    fix: {finding.fix}"))
+                yield

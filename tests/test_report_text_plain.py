@@ -1,0 +1,85 @@
+"""The text report's plain-line shortcut against rich's own printing (same bytes).
+
+Without colour, the text reporter writes a line's plain text itself instead of asking rich to
+print it. Expected values: rich's output for the same line or report (the plain path of our
+own code, with the shortcut turned off), never stored text.
+"""
+
+from __future__ import annotations
+
+import io
+
+import pytest
+from hypothesis import given, settings, strategies as st
+from report_samples import fixture_netlists, sample_result
+from rich.console import Console
+from rich.text import Text
+
+from linter.engine import CheckRequest, run_check
+from linter.report import ReportOptions
+from linter.report import text as text_report
+from linter.report.text import REPORT_WIDTH, TextReporter, _Lines
+
+
+def _plain_console(buffer: io.StringIO) -> Console:
+    """The console the reporter makes without colour."""
+    return Console(file=buffer, force_terminal=False, no_color=True, color_system=None,
+                   legacy_windows=False, width=REPORT_WIDTH, highlight=False, soft_wrap=True,
+                   emoji=False, markup=False)
+
+
+_ODD = list("ab -:\n\r\t\x00\x07\x08\x0b\x0c\x1b\x7f\u0085\u2028\u200b\u0301\u03a9\u4e00\U0001f600")
+_pieces = st.one_of(st.text(max_size=150), st.text(alphabet=st.sampled_from(_ODD), max_size=40))
+
+
+@settings(max_examples=400)
+@given(st.lists(st.tuples(_pieces, st.sampled_from([None, "bold", "bold red", "cyan"])),
+                max_size=4))
+def test_shortcut_writes_what_rich_prints(pieces) -> None:
+    line = Text()
+    for piece, style in pieces:
+        line.append(piece, style=style)
+    fast, slow = _Lines(color=False), io.StringIO()
+    fast.print(line)
+    _plain_console(slow).print(line)
+    assert fast.take() == slow.getvalue()
+
+
+def test_blank_line_as_rich_prints_it() -> None:
+    fast, slow = _Lines(color=False), io.StringIO()
+    fast.print()
+    _plain_console(slow).print()
+    assert fast.take() == slow.getvalue() == "\n"
+
+
+@pytest.fixture(scope="module")
+def checked() -> list:
+    """The hand-made sample and every fixture board, checked once."""
+    return [sample_result(), sample_result(groups=False)] + [
+        run_check(CheckRequest(netlist=path)) for path in fixture_netlists()]
+
+
+@pytest.mark.parametrize("options", [ReportOptions(), ReportOptions(verbose=True),
+                                     ReportOptions(quiet=True)], ids=["plain", "verbose", "quiet"])
+def test_reports_same_bytes_with_and_without_the_shortcut(checked, options, monkeypatch) -> None:
+    fast = [TextReporter(options).render(result) for result in checked]
+    original = _Lines.__init__
+
+    def through_rich(self, color):  # type: ignore[no-untyped-def]
+        original(self, color)
+        self.plain = False  # every line printed by rich (the console itself stays plain)
+
+    monkeypatch.setattr(text_report._Lines, "__init__", through_rich)
+    slow = [TextReporter(options).render(result) for result in checked]
+    assert fast == slow
+    assert any(len(report.splitlines()) > 10 for report in fast)  # real reports compared
+
+
+def test_streamed_pieces_join_to_the_whole_report(checked, monkeypatch) -> None:
+    demo = max(checked, key=lambda result: len(result.findings))
+    for options in (ReportOptions(), ReportOptions(verbose=True), ReportOptions(color=True)):
+        whole = TextReporter(options).render(demo)
+        monkeypatch.setattr(text_report, "PIECE_CHARS", 100)
+        pieces = list(TextReporter(options).chunks(demo))
+        monkeypatch.undo()
+        assert len(pieces) > 3 and "".join(pieces) == whole
