@@ -31,7 +31,7 @@ from linter.kinds import infer_kind
 from linter.model import Circuit, Net, Part, Pin, SourceLocation
 from linter.readers.edif_compound import EdifCompounds
 from linter.readers.edif_flatten import FlatDesign, Leaf, NetWire, flatten, pin_names
-from linter.readers.edif_syntax import View, read_edif_file
+from linter.readers.edif_syntax import EdifFile, _child, read_edif_file
 from linter.readers.sexpr import Document, parse, paused_gc
 from linter.units import ValueParseError, parse_number
 
@@ -99,17 +99,38 @@ def _circuit(doc: Document) -> Circuit:
     ordered = sorted(chosen.items(), key=lambda item: item[1].order)
     forms = [leaf.instance.form for leaf in flat.leaves]
     places = _locations(doc, forms + [wire.net.form for _, wire in ordered])  # one pass
-    make = _PartMaker(flat, net_names, doc).part
-    parts = {ref: make(leaf, ref, place) for ref, leaf, place in zip(refs, flat.leaves, places)}
-    nets = _nets(parts, chosen, net_names, flat, doc, ordered, places[len(forms):])
     design = edif.design.name.display if edif.design is not None else ""
+    leaves, flat.leaves = flat.leaves, []
+    _release_instances(edif)
+    del edif, forms
+    make = _PartMaker(flat, net_names, doc).part
+    parts = {}
+    for index, (ref, place) in enumerate(zip(refs, places)):
+        parts[ref] = make(leaves[index], ref, place)
+        leaves[index] = None  # type: ignore[call-overload]  # its instance record can go
+    nets = _nets(parts, chosen, net_names, flat, doc, ordered, places[len(refs):])
     return Circuit(source=source, format="edif", parts=parts, nets=nets, design=design)
+
+
+def _release_instances(edif: EdifFile) -> None:
+    """Let go of the instance records everywhere but in the leaves, so that each goes as soon
+    as its part is made (a 100,000-part design holds tens of MB of them). Positions stay
+    known: a record's form is an offset or a list the document keeps in its index."""
+    edif.doc.root = None
+    for library in edif.libraries.values():
+        for cell in library.cells.values():
+            for view in cell.views.values():
+                if view.instances:
+                    view.instances = {}
+                    contents = _child(view.form, "contents")
+                    if contents is not None:
+                        contents.clear()
 
 
 def _locations(doc: Document, forms: list[list]) -> list[SourceLocation]:
     """Where each form starts, found in one pass over the document."""
-    source = doc.source
-    return [SourceLocation(source, line, column) for line, column in doc.positions_of(forms)]
+    source, position = doc.source, doc.position
+    return [SourceLocation(source, *position(offset)) for offset in doc.offsets_of(forms)]
 
 
 def _reference(leaf: Leaf) -> str | None:

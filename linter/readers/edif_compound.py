@@ -22,7 +22,7 @@ from __future__ import annotations
 
 import re
 
-from linter.readers.edif_syntax import Instance, Name, PortRef, decode_string
+from linter.readers.edif_syntax import Instance, Name, Net, PortRef, decode_string
 
 __all__ = ["EdifCompounds"]
 
@@ -61,20 +61,29 @@ _INSTANCE = _ws_form(
     rf"((?:(?:{_PROPERTY}|{_DESIGNATOR}){_W}*+)*+)")
 """Groups: 1 the form, 2 a plain name, 3 and 4 a renamed name and its text, 5 view, 6 cell,
 7 library (or None), 8 the properties and designators, as written."""
-_PORT_REF = _ws_form(_kw("portRef"), f"({_IDENT})",
-                     "(?:" + _ws_form(_kw("instanceRef"), f"({_IDENT})") + ")?")
-"""Groups: 9 the form, 10 the port, 11 the instance (or None)."""
+def _port_ref(group: str) -> str:
+    """(portRef P [(instanceRef I)]); ``group`` is "(" to capture P and I, or "(?:"."""
+    return _ws_form(_kw("portRef"), f"{group}{_IDENT})",
+                    "(?:" + _ws_form(_kw("instanceRef"), f"{group}{_IDENT})") + ")?")
+
+
+_PORT_REF = _port_ref("(")
+_NET = _ws_form(_kw("net"), _name_def(),
+                _ws_form(_kw("joined"), rf"((?:{_W}*+{_port_ref('(?:')})*+)"))
+"""Groups: 9 the form, 10 a plain name, 11 and 12 a renamed name and its text, 13 the port
+references, as written."""
 _PLAIN = r'[()]|"[^"]*+"|[^' + _WS + r'()"]++|"'
-"""Group 12: a plain token, exactly as :data:`linter.readers.sexpr._TOKEN` reads one."""
+"""Group 17: a plain token, exactly as :data:`linter.readers.sexpr._TOKEN` reads one."""
 
 _ITEM = re.compile(
-    _ws_form(_kw("property"), _name_def(),
-             _ws_form(_kw("string"), _STRING))
+    _ws_form(_kw("property"), _name_def(), _ws_form(_kw("string"), _STRING))
     + "|" + _ws_form(_kw("designator"), _STRING))
 """One item of group 8: groups plain name, renamed name, its text, value; or designator."""
+_PAIR = re.compile(_PORT_REF)
+"""One port reference of group 13 (or a whole one, groups 14 to 16): port, instance."""
 
-TOKEN_GROUP = 12
-PATTERN = re.compile(rf"{_W}*+(?:({_INSTANCE})|({_PORT_REF})|({_PLAIN}))")
+TOKEN_GROUP = 17
+PATTERN = re.compile(rf"{_W}*+(?:({_INSTANCE})|({_NET})|({_PORT_REF})|({_PLAIN}))")
 _MAX_SHARED = 10_000
 """Distinct property sets remembered for sharing (a netlist repeats a few hundred)."""
 
@@ -89,21 +98,51 @@ class EdifCompounds:
     def __init__(self) -> None:
         self._items: dict[str, tuple[str | None, dict[str, str]]] = {}
         self._texts: dict[str, str] = {}
+        self._atoms: dict[str, str] = {}
+        self._names: dict[str, Name] = {}
 
     def build(self, match: re.Match[str]) -> object:
-        if match.lastindex == 1:
+        which = match.lastindex
+        if which == 1:
             return self._instance(match)
-        return PortRef(match.group(10), None, match.group(11), match.start(9))
+        if which == 9:
+            return self._net(match)
+        instance = match.group(16)
+        return PortRef(self._atom(match.group(15)), None,
+                       instance if instance is None else self._atom(instance), match.start(14))
+
+    def _atom(self, text: str) -> str:
+        """One object for equal identifiers (port, cell, instance names repeat)."""
+        found = self._atoms.get(text)
+        if found is None:
+            found = self._atoms[text] = text
+        return found
+
+    def _net(self, match: re.Match[str]) -> Net:
+        ident = match.group(10)
+        if ident is not None:
+            name = self._names.get(ident)
+            if name is None:
+                name = Name(ident.casefold(), ident[1:] if ident.startswith("&") else ident)
+        else:
+            name = Name(match.group(11).casefold(), decode_string(match.group(12)))
+        atom = self._atom
+        pairs = tuple(atom(text) if text else None
+                      for pair in _PAIR.findall(match.group(13)) for text in pair)
+        return Net(name, (), match.start(9), pairs)
 
     def _instance(self, match: re.Match[str]) -> Instance:
         ident = match.group(2)
         if ident is not None:
+            ident = self._atom(ident)
             name = Name(ident.casefold(), ident[1:] if ident.startswith("&") else ident)
         else:
             name = Name(match.group(3).casefold(), decode_string(match.group(4)))
         designator, properties = self._properties(match.group(8))
-        return Instance(name, match.group(7), match.group(6), match.group(5), designator,
-                        properties, match.start(1))
+        library, atom = match.group(7), self._atom
+        return Instance(name, library if library is None else atom(library),
+                        atom(match.group(6)), atom(match.group(5)), designator, properties,
+                        match.start(1))
 
     def _properties(self, items: str) -> tuple[str | None, dict[str, str]]:
         """Designator (the first) and properties by display name, later ones winning; equal

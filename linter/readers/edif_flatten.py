@@ -18,7 +18,9 @@ however often the view is placed. An instance is a leaf (a part) when its cell i
 
 from __future__ import annotations
 
+from array import array
 from dataclasses import dataclass
+from typing import Iterable
 
 from linter.limits import active
 from linter.readers.edif_syntax import (
@@ -69,7 +71,7 @@ class FlatDesign:
     top_view: View
     leaves: list[Leaf]
     wires: list[NetWire]
-    parent: list[int]
+    parent: array
 
     def find(self, node: int) -> int:
         """Representative of ``node``'s set (``node`` itself when nothing joins it)."""
@@ -98,14 +100,16 @@ class _Target:
 class _Layout:
     """A view's block sizes and connections, worked out once for every placement.
 
-    ``wires`` pairs each joined wire (its number in the view's wire block) with a pin: its
-    number in the children's block, or ``-1 - n`` for pin ``n`` of the view's own ports.
+    ``wires`` and ``pins`` pair each joined wire (its number in the view's wire block) with a
+    pin: its number in the children's block, or ``-1 - n`` for pin ``n`` of the view's own
+    ports (two arrays of machine integers: a flat design has one pair per pin).
     """
 
     wire_count: int
     child_offsets: tuple[int, ...]
     child_pins: int
-    links: list[tuple[int, int]]
+    wires: array
+    pins: array
 
 
 def _port_offsets(view: View) -> dict[str, int]:
@@ -136,12 +140,13 @@ class _Flattener:
     def __init__(self, edif: EdifFile) -> None:
         self.edif = edif
         self.doc = edif.doc
-        self.parent: list[int] = []
+        self.parent = array("q")
         self.targets: dict[int, dict[str, _Target]] = {}
         self.layouts: dict[int, _Layout] = {}
         self.port_offsets: dict[int, dict[str, int]] = {}
         self.scalars: dict[int, dict[str, int]] = {}
         self.pin_counts: dict[int, int] = {}
+        self.resolved: dict[tuple[str | None, str, str, str], _Target] = {}
 
     def allocate(self, count: int) -> int:
         """The first of ``count`` new nodes, each its own set."""
@@ -154,6 +159,14 @@ class _Flattener:
         raise self.doc.error(form, message)
 
     def resolve(self, instance: Instance, cell: Cell) -> _Target:
+        """The cell and view an instance places (one record for every equal reference)."""
+        key = (instance.library, instance.cell, instance.view, cell.library)
+        found = self.resolved.get(key)
+        if found is None:
+            found = self.resolved[key] = self.look_up(instance, cell)
+        return found
+
+    def look_up(self, instance: Instance, cell: Cell) -> _Target:
         library_key = instance.library.casefold() if instance.library else cell.library
         library = self.edif.libraries.get(library_key)
         who = f"instance '{instance.name.display}'"
@@ -188,24 +201,29 @@ class _Flattener:
                 at += self.pin_count(target.view)
             links = self.links(cell, view, targets, offsets)
             found = _Layout(sum(net.name.width for net in view.nets), tuple(offsets.values()),
-                            at, links)
+                            at, array("q", links[0::2]), array("q", links[1::2]))
             self.layouts[id(view)] = found
         return found
 
     def links(self, cell: Cell, view: View, targets: dict[str, _Target],
-              offsets: dict[str, int]) -> list[tuple[int, int]]:
-        """(wire, pin) pairs of :class:`_Layout`, in the order of the nets and their references.
+              offsets: dict[str, int]) -> list[int]:
+        """Wire, pin, wire, pin... of :class:`_Layout`, in the order of the nets and their references.
 
         The common reference, one scalar port of an instance on a scalar net, is matched with
         plain lookups; anything else (and every reference that names something missing) takes
         :meth:`entry_pins`, which checks and refuses with a located message.
         """
-        links: list[tuple[int, int]] = []
+        links: list[int] = []
         fold = _Folded()
         first_wire = 0
         for net in view.nets:
             scalar = net.name.width == 1
-            for entry in net.joined:
+            entries: Iterable[PortRef | tuple[PortRef, ...]] = net.joined
+            if net.pairs:  # a net read whole: port references as (port, instance) pairs
+                pairs = iter(net.pairs)
+                entries = (PortRef(port, None, instance, net.form)  # type: ignore[arg-type]
+                           for port, instance in zip(pairs, pairs))
+            for entry in entries:
                 if scalar and type(entry) is PortRef and entry.member is None \
                         and entry.instance is not None:
                     instance = entry.instance.casefold()
@@ -213,12 +231,12 @@ class _Flattener:
                     if target is not None:
                         port = self.scalar_ports(target.view).get(fold(entry.port))
                         if port is not None:
-                            links.append((first_wire, offsets[instance] + port))
+                            links += (first_wire, offsets[instance] + port)
                             continue
                 pins = self.entry_pins(entry, net, cell, view, targets)
-                links.extend((first_wire + wire, self.pin_number(inst, port, pin, view,
-                                                                 targets, offsets))
-                             for wire, (inst, port, pin) in enumerate(pins))
+                for wire, (inst, port, pin) in enumerate(pins):
+                    links += (first_wire + wire,
+                              self.pin_number(inst, port, pin, view, targets, offsets))
             first_wire += net.name.width
         return links
 
@@ -305,7 +323,7 @@ class _Flattener:
                                      "(4 x max_parts)")
             layout = self.layout_of(cell, view)
             first_pin = self.allocate(layout.child_pins)
-            for wire, pin in layout.links:
+            for wire, pin in zip(layout.wires, layout.pins):
                 a = first_wire + wire
                 b = first_pin + pin if pin >= 0 else own - 1 - pin
                 while parent[a] != a:

@@ -91,6 +91,8 @@ def read_view(reader: FormReader, form: list, cell: Name) -> View:
             _add_instance(reader, item, instances, cell)
         elif kw == "net":
             nets.append(read_net(reader, item))
+        elif type(item) is Net:  # read whole by the parser
+            nets.append(item)
     return View(name, ports, instances, nets, reader.properties(form), contents is not None, form)
 
 

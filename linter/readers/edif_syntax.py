@@ -65,11 +65,17 @@ class PortRef:
 
 @dataclass(frozen=True, slots=True)
 class Net:
-    """A net (or net array); ``joined`` entries are port references or port lists."""
+    """A net (or net array); ``joined`` entries are port references or port lists.
+
+    A net read whole (:mod:`linter.readers.edif_compound`) has its plain port references in
+    ``pairs`` instead, port and instance (None for a port of the cell itself) in turn, and
+    ``form`` is the offset of its ``(``.
+    """
 
     name: Name
     joined: tuple[PortRef | tuple[PortRef, ...], ...]
-    form: list = field(repr=False)
+    form: list | int = field(repr=False)
+    pairs: tuple[str | None, ...] = ()
 
 
 @dataclass(frozen=True, slots=True)
