@@ -170,7 +170,7 @@ def distinct_codes(codes: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     return out.astype(np.int8), counts + 1
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Corner:
     """A solved corner in words and numbers: what rules quote ("at +12V max (13.2 V)").
 

@@ -20,6 +20,21 @@ from linter.results import GroupResult, LedResult, PinResult, ResistorResult, Sp
 __all__ = ["renamed"]
 
 
+def _clone(record, changes: dict):
+    """``dataclasses.replace(record, **changes)`` for a frozen slotted dataclass of ours
+    without ``__post_init__`` (every result record and :class:`Corner`): the same class and
+    fields, set slot by slot without the keyword handling of ``replace``."""
+    cls = type(record)
+    made = _NEW(cls)
+    for name in cls.__slots__:
+        _SET(made, name, changes[name] if name in changes else getattr(record, name))
+    return made
+
+
+_NEW = object.__new__
+_SET = object.__setattr__
+
+
 class _Renamer:
     def __init__(self, refs: Mapping[str, str]) -> None:
         self.refs = refs
@@ -31,33 +46,39 @@ class _Renamer:
         found = self.corners.get(id(corner))
         if found is None:
             refs = self.refs
-            found = self.corners[id(corner)] = Corner(
-                corner.scenario, corner.rails, corner.ambient_c,
-                {refs[k]: v for k, v in corner.vf.items()},
-                {refs[k]: v for k, v in corner.beta.items()},
-                {refs[k]: v for k, v in corner.resistors.items()})
+            changes = {}
+            if corner.vf:
+                changes["vf"] = {refs[k]: v for k, v in corner.vf.items()}
+            if corner.beta:
+                changes["beta"] = {refs[k]: v for k, v in corner.beta.items()}
+            if corner.resistors:
+                changes["resistors"] = {refs[k]: v for k, v in corner.resistors.items()}
+            found = self.corners[id(corner)] = _clone(corner, changes)
         return found
 
     def span(self, span: Span | None) -> Span | None:
         if span is None or (span.at_min is None and span.at_max is None):
             return span
-        return Span(span.nom, span.min, span.max, self.corner(span.at_min),
-                    self.corner(span.at_max))
+        return _clone(span, {"at_min": self.corner(span.at_min),
+                             "at_max": self.corner(span.at_max)})
 
     def led(self, x: LedResult) -> LedResult:
-        return LedResult(self.refs[x.ref], x.part_number, self.span(x.current),
-                         self.span(x.vf), self.span(x.power), x.lit_scenarios, x.reverse_v,
-                         self.corner(x.reverse_at), x.di_dvf, x.assumed)
+        return _clone(x, {"ref": self.refs[x.ref], "current": self.span(x.current),
+                          "vf": self.span(x.vf), "power": self.span(x.power),
+                          "reverse_at": self.corner(x.reverse_at)})
 
     def resistor(self, x: ResistorResult) -> ResistorResult:
-        return ResistorResult(self.refs[x.ref], x.ohms, x.tolerance, self.span(x.current),
-                              self.span(x.power), x.rating_w, x.package)
+        return _clone(x, {"ref": self.refs[x.ref], "current": self.span(x.current),
+                          "power": self.span(x.power)})
 
     def transistor(self, x: TransistorResult) -> TransistorResult:
-        return replace(x, ref=self.refs[x.ref], vce=self.span(x.vce),
-                       current=self.span(x.current), power=self.span(x.power),
-                       saturated_at=self.corner(x.saturated_at),
-                       rail_min_at=self.corner(x.rail_min_at), vgs=self.span(x.vgs))
+        return _clone(x, {"ref": self.refs[x.ref], "vce": self.span(x.vce),
+                          "current": self.span(x.current), "power": self.span(x.power),
+                          "saturated_at": self.corner(x.saturated_at),
+                          "rail_min_at": self.corner(x.rail_min_at), "vgs": self.span(x.vgs)})
+
+    def pin(self, x: PinResult, drive) -> PinResult:
+        return _clone(x, {"id": drive.id, "net": drive.net, "current": self.span(x.current)})
 
 
 def renamed(result: GroupResult, group: Group, refs: Mapping[str, str],
@@ -67,11 +88,9 @@ def renamed(result: GroupResult, group: Group, refs: Mapping[str, str],
     Pin i of the result is the group's pin drive i (both in the group's pin order)."""
     r = _Renamer(refs)
     notes = tuple(f"{refs[ref]}: {text}" for ref, text in note_parts)
-    pins = tuple(PinResult(drive.id, drive.net, r.span(p.current), p.sourcing, p.current_max)
-                 for p, drive in zip(result.pins, group.pins))
-    return GroupResult(
-        group, result.status, result.rail, tuple(r.led(x) for x in result.leds),
-        tuple(r.resistor(x) for x in result.resistors),
-        tuple(r.transistor(x) for x in result.transistors), pins, result.corners,
-        result.scheme, tuple(r.corner(c) for c in result.not_converged), notes,
-        result.reason)
+    return _clone(result, {
+        "group": group, "leds": tuple(r.led(x) for x in result.leds),
+        "resistors": tuple(r.resistor(x) for x in result.resistors),
+        "transistors": tuple(r.transistor(x) for x in result.transistors),
+        "pins": tuple(r.pin(p, drive) for p, drive in zip(result.pins, group.pins)),
+        "not_converged": tuple(r.corner(c) for c in result.not_converged), "notes": notes})

@@ -16,7 +16,7 @@ __all__ = ["Span", "LedResult", "ResistorResult", "TransistorResult", "PinResult
            "GroupResult"]
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Span:
     """A quantity over the corners: ``nom`` at the nominal corner, ``min`` and ``max`` over
     all corners solved, and where the extremes occur (``at_min``, ``at_max``)."""
@@ -37,7 +37,7 @@ class Span:
                 if c is not None}
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class LedResult:
     """One LED: current (A), forward voltage (V) and power (W) over the scenarios in which
     it is lit (``lit_scenarios``); the largest reverse voltage across it over every scenario
@@ -64,7 +64,7 @@ class LedResult:
                 "corners": {"current_a": self.current.corners_dict()}}
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class ResistorResult:
     """One resistor: nominal ohms (Ω), tolerance (fraction), current magnitude (A) and
     power (W) over every scenario and corner, its rating before derating (W) and package."""
@@ -84,7 +84,7 @@ class ResistorResult:
                 "corners": {"power_w": self.power.corners_dict()}}
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class TransistorResult:
     """One transistor (``kind`` npn, pnp, nmos, pmos), magnitudes positive in normal use.
 
@@ -132,7 +132,7 @@ class TransistorResult:
         return out
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class PinResult:
     """A microcontroller pin: current magnitude (A) over scenarios and corners,
     ``sourcing`` (True when the largest current flows out of the pin), its rating (A)."""
@@ -149,7 +149,7 @@ class PinResult:
                 "corners": {"current_a": self.current.corners_dict()}}
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class GroupResult:
     """One solved (or unsolvable) group.
 

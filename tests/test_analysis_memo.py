@@ -250,3 +250,18 @@ def test_electrical_keys_see_every_solver_figure() -> None:
     other = replace(models[1], bjts=(replace(models[1].bjts[0], vce_sat=0.3),))
     keys = electrical_keys([models[0], other], stacked)
     assert keys[0] != keys[1]
+
+
+def test_clone_is_dataclasses_replace() -> None:
+    # the plain reference: dataclasses.replace on the same records
+    from linter.result_rename import _clone
+    groups, c, data, rails = _channels(1)
+    (result,) = analysis.analyse(groups, c, data, rails)
+    records = [result, *result.leds, *result.resistors, *result.transistors, *result.pins,
+               result.leds[0].current, result.leds[0].current.at_max]
+    for record in records:
+        field = dataclasses.fields(record)[0].name
+        value = "changed" if isinstance(getattr(record, field), str) else 1.5
+        assert _clone(record, {}) == record
+        assert _clone(record, {field: value}) == replace(record, **{field: value})
+        assert type(_clone(record, {})) is type(record)
