@@ -231,19 +231,20 @@ class _PartMaker:
             reading = self.values[(kind, value)] = (ohms, _resistance_problem(kind, value, ohms))
         if reading[1]:
             raise self.doc.error(leaf.instance.form, f"{ref}: {reading[1]}")
-        return Part(ref=ref, kind=kind, value=value, pins=self.pins_of(leaf),
-                    location=location, value_si=reading[0],
-                    path="/".join(leaf.names), cell=cell,
-                    part_number=fields.part_number, properties=fields.properties)
+        path = "/".join(leaf.names) if leaf.parents else leaf.instance.name.display
+        return Part(ref, kind, value, self.pins_of(leaf), location, reading[0], path, cell,
+                    fields.part_number, fields.properties)
 
     def pins_of(self, leaf: Leaf) -> tuple[Pin, ...]:
         names = self.names.get(id(leaf.view))
         if names is None:
             names = self.names[id(leaf.view)] = tuple(name for _, _, name in pin_names(leaf.view))
-        find, net_names, known = self.flat.find, self.net_names, self.pins
+        parent, net_names, known = self.flat.parent, self.net_names, self.pins
         pins = []
         for node, name in enumerate(names, leaf.pins):
-            net = net_names.get(find(node))
+            while parent[node] != node:  # the root (the sets are final: no compression)
+                node = parent[node]
+            net = net_names.get(node)
             pin = known.get((name, net))
             if pin is None:
                 pin = known[(name, net)] = Pin(name, net)

@@ -126,8 +126,8 @@ class EdifCompounds:
                 name = Name(ident.casefold(), ident[1:] if ident.startswith("&") else ident)
         else:
             name = Name(match.group(11).casefold(), decode_string(match.group(12)))
-        atom = self._atom
-        pairs = tuple(atom(text) if text else None
+        share = self._atoms.setdefault  # findall gives "" for a missing instance: None
+        pairs = tuple(share(text, text) or None
                       for pair in _PAIR.findall(match.group(13)) for text in pair)
         return Net(name, (), match.start(9), pairs)
 

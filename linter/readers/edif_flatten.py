@@ -20,7 +20,6 @@ from __future__ import annotations
 
 from array import array
 from dataclasses import dataclass
-from typing import Iterable
 
 from linter.limits import active
 from linter.readers.edif_syntax import (
@@ -91,9 +90,12 @@ def pin_names(view: View) -> list[tuple[str, int, str]]:
 
 @dataclass(frozen=True, slots=True)
 class _Target:
+    """What an instance places; ``ports``: the pin number of each scalar port, by key."""
+
     cell: Cell
     view: View
     leaf: bool
+    ports: dict[str, int]
 
 
 @dataclass(frozen=True, slots=True)
@@ -122,18 +124,6 @@ def _port_offsets(view: View) -> dict[str, int]:
 
 def _pin_count(view: View) -> int:
     return sum(port.name.width for port in view.ports.values())
-
-
-class _Folded(dict):
-    """``str.casefold`` remembered: port names repeat on every instance of a cell."""
-
-    def __call__(self, text: str) -> str:
-        found = self.get(text)
-        if found is None:
-            found = self[text] = text.casefold()
-            if len(self) > 4096:
-                self.clear()
-        return found
 
 
 class _Flattener:
@@ -181,7 +171,7 @@ class _Flattener:
             self.fail(instance.form, f"{who}: cell '{target.name.display}' has no view "  # type: ignore[union-attr]
                                      f"'{instance.view}'")
         leaf = target.external or not view.instances  # type: ignore[union-attr]
-        return _Target(target, view, leaf)  # type: ignore[arg-type]
+        return _Target(target, view, leaf, self.scalar_ports(view))  # type: ignore[arg-type]
 
     def targets_of(self, cell: Cell, view: View) -> dict[str, _Target]:
         found = self.targets.get(id(view))
@@ -214,31 +204,44 @@ class _Flattener:
         :meth:`entry_pins`, which checks and refuses with a located message.
         """
         links: list[int] = []
-        fold = _Folded()
+        folded: dict[str, str] = {}  # port names repeat on every instance of a cell
         first_wire = 0
         for net in view.nets:
             scalar = net.name.width == 1
-            entries: Iterable[PortRef | tuple[PortRef, ...]] = net.joined
-            if net.pairs:  # a net read whole: port references as (port, instance) pairs
-                pairs = iter(net.pairs)
-                entries = (PortRef(port, None, instance, net.form)  # type: ignore[arg-type]
-                           for port, instance in zip(pairs, pairs))
-            for entry in entries:
+            pairs = iter(net.pairs)  # a net read whole: (port, instance) pairs
+            for port, instance in zip(pairs, pairs):
+                if instance is not None:
+                    key = instance.casefold()
+                    target = targets.get(key)
+                    if target is not None:
+                        number = target.ports.get(folded.get(port) or
+                                                  folded.setdefault(port, port.casefold()))
+                        if number is not None:
+                            links += (first_wire, offsets[key] + number)
+                            continue
+                self.add_links(links, first_wire, PortRef(port, None, instance, net.form),
+                               net, cell, view, targets, offsets)  # type: ignore[arg-type]
+            for entry in net.joined:
                 if scalar and type(entry) is PortRef and entry.member is None \
                         and entry.instance is not None:
-                    instance = entry.instance.casefold()
-                    target = targets.get(instance)
+                    key = entry.instance.casefold()
+                    target = targets.get(key)
                     if target is not None:
-                        port = self.scalar_ports(target.view).get(fold(entry.port))
-                        if port is not None:
-                            links += (first_wire, offsets[instance] + port)
+                        number = target.ports.get(entry.port.casefold())
+                        if number is not None:
+                            links += (first_wire, offsets[key] + number)
                             continue
-                pins = self.entry_pins(entry, net, cell, view, targets)
-                for wire, (inst, port, pin) in enumerate(pins):
-                    links += (first_wire + wire,
-                              self.pin_number(inst, port, pin, view, targets, offsets))
+                self.add_links(links, first_wire, entry, net, cell, view, targets, offsets)
             first_wire += net.name.width
         return links
+
+    def add_links(self, links: list[int], first_wire: int, entry: PortRef | tuple[PortRef, ...],
+                  net: Net, cell: Cell, view: View, targets: dict[str, _Target],
+                  offsets: dict[str, int]) -> None:
+        """Wire, pin... of one reference (checked: a missing name is refused, located)."""
+        pins = self.entry_pins(entry, net, cell, view, targets)
+        for wire, (inst, port, pin) in enumerate(pins):
+            links += (first_wire + wire, self.pin_number(inst, port, pin, view, targets, offsets))
 
     def offsets_of(self, view: View) -> dict[str, int]:
         found = self.port_offsets.get(id(view))
