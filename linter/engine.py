@@ -131,11 +131,16 @@ def _notes_as_findings(context: AnalysisContext, registry: Mapping[str, Any]) ->
 def run_rules(context: AnalysisContext, registry: Mapping[str, Any] | None = None) -> list[Finding]:
     """The findings of every enabled rule, rules in id order, each rule's findings as it gives them."""
     registry = _rule_registry() if registry is None else registry
-    with paused_gc():  # findings and fix searches are many small acyclic records
-        findings = _notes_as_findings(context, registry)
-        for rule_id in sorted(registry):
-            if context.enabled(rule_id):
-                findings.extend(registry[rule_id]().check(context))
+    from linter.rulekit import forget_board
+
+    try:
+        with paused_gc():  # findings and fix searches are many small acyclic records
+            findings = _notes_as_findings(context, registry)
+            for rule_id in sorted(registry):
+                if context.enabled(rule_id):
+                    findings.extend(registry[rule_id]().check(context))
+    finally:
+        forget_board()
     return findings
 
 

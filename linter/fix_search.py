@@ -26,7 +26,7 @@ from linter.results import GroupResult
 __all__ = ["DEFAULT_TOLERANCE", "resolve", "with_resistor", "led_currents",
            "resistor_for_max", "resistor_for_min", "rail_for_min", "sub_circuit",
            "resolve_circuit", "resistor_record", "tolerance_of", "split_resistor",
-           "signature", "remembered", "resistor_walk"]
+           "signature", "remembered", "resistor_walk", "forget_board"]
 
 DEFAULT_TOLERANCE = 0.05
 """Resistor tolerance (fraction) when the part data gives none (DESIGN.md: else 5 %)."""
@@ -86,6 +86,11 @@ def _solved_values(context: Any, result: GroupResult, ref: str) -> dict:
     if len(_WALKS) > _WALKS_KEPT:
         _WALKS.popitem(last=False)
     return table
+
+
+def forget_board() -> None:
+    """Drop the solved values kept for the last groups searched (they hold their board)."""
+    _WALKS.clear()
 
 
 def resistor_walk(context: Any, result: GroupResult, ref: str, series: str) -> SeriesWalk:
@@ -179,7 +184,8 @@ def resolve_circuit(context: Any, circuit: Circuit,
     """Find the groups of an edited (sub-)circuit and solve them, as the engine would."""
     from linter.topology import find_groups
 
-    data = dict(context.part_data)
+    known = context.part_data  # only the (sub-)circuit's parts are looked at: not copied whole
+    data = {ref: known[ref] for ref in circuit.parts if ref in known}
     data.update(part_data)
     groups = find_groups(circuit, context.rails, data)
     return analyse(groups, circuit, data, context.rails, context.settings.ambient)

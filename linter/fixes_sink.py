@@ -133,9 +133,12 @@ def _choose_divider(v_reference: float, v_th_target: float,
     pairs = list(_divider_pairs(r_total_max))
     if not pairs:
         return None
-    best = min(error(pair) for pair in pairs)
-    good = [pair for pair in pairs if error(pair) <= max(best, DIVIDER_RATIO_SLACK)]
-    return min(good, key=lambda p: (max(_coarseness(p[0]), _coarseness(p[1])), -sum(p), error(p)))
+    errors = [error(pair) for pair in pairs]  # each pair's error worked out once
+    limit = max(min(errors), DIVIDER_RATIO_SLACK)
+    good = [(pair, e) for pair, e in zip(pairs, errors) if e <= limit]
+    chosen = min(good, key=lambda item: (max(_coarseness(item[0][0]), _coarseness(item[0][1])),
+                                          -sum(item[0]), item[1]))
+    return chosen[0]
 
 
 def _thevenin(v_reference: float, top: float, bottom: float) -> tuple[float, float]:

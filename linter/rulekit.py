@@ -16,7 +16,7 @@ from linter.units import format_si
 
 __all__ = ["part_location", "solved_groups", "group_rail", "led_data", "resistor_data", "bjt_data",
            "corner_phrase", "at_corner", "amps", "volts", "ohms", "watts", "say", "memoised",
-           "sink_design"]
+           "sink_design", "forget_board"]
 
 
 def part_location(context: Any, ref: str) -> Any:
@@ -32,10 +32,24 @@ def solved_groups(context: Any) -> Iterator[Any]:
     path is left out), so its figures are no ground for a verdict: ``unchecked-group`` reports
     it instead.
     """
-    for result in getattr(context, "groups", ()) or ():
-        if (getattr(result, "status", None) == "solved"
-                and result.group.topology != "unrecognised"):
-            yield result
+    groups = getattr(context, "groups", ()) or ()
+    if _SOLVED[0] is not groups:  # every rule asks; the board's groups are sorted out once
+        _SOLVED[:] = [groups, tuple(
+            result for result in groups if getattr(result, "status", None) == "solved"
+            and result.group.topology != "unrecognised")]
+    yield from _SOLVED[1]
+
+
+_SOLVED: list = [None, ()]
+"""(the groups last asked about, their solved and recognised results)."""
+
+
+def forget_board() -> None:
+    """Drop what the helpers keep of the board last checked (the engine calls it after the
+    rules, so that a run over several boards holds one board at a time)."""
+    _SOLVED[:] = [None, ()]
+    from linter import fix_search
+    fix_search.forget_board()
 
 
 def group_rail(context: Any, result: Any) -> Rail | None:

@@ -287,8 +287,18 @@ def format_si(value: float, unit: str, digits: int = 3) -> str:
     >>> format_si(0.0, "V")
     '0 V'
     """
-    if value == 0 or not math.isfinite(value):
+    if value == 0 or not math.isfinite(value):  # -0.0 stays "-0": never remembered
         return f"{value:g} {unit}"
+    return _format_finite(value, unit, digits)
+
+
+_FORMATS_KEPT = 1 << 16
+"""Texts :func:`format_si` remembers: a board repeats the same figures channel after channel."""
+
+
+@lru_cache(maxsize=_FORMATS_KEPT)
+def _format_finite(value: float, unit: str, digits: int) -> str:
+    """:func:`format_si` of a finite value other than zero."""
     scale, prefix = pick_scale(value, _FORMAT_PREFIXES)
     number = f"{value / scale:.{digits}g}"
     if "e" in number:
