@@ -22,7 +22,6 @@ HTML is one page per board; the CLI refuses ``--format html`` with several netli
 
 from __future__ import annotations
 
-import json
 from pathlib import Path
 from typing import TYPE_CHECKING, Any, Sequence
 
@@ -197,7 +196,12 @@ def render_many(fmt: ReportFormat, outcomes: Sequence["BoardOutcome"],
 
         return "".join(layered_chunks(combined_layout(outcomes), COMBINED_COMPACT_DEPTH)) + "\n"
     if fmt is ReportFormat.SARIF:
+        from linter.report.json_layout import Lines, compact_json
+        from linter.report.sarif import sarif_chunks
+
         base = (options.base_dir or Path.cwd()).resolve()
         log = combined_sarif(outcomes, base)
-        return json.dumps(log, indent=2, ensure_ascii=False, allow_nan=False) + "\n"
+        run = log["runs"][0]
+        run["results"] = Lines([compact_json(entry) for entry in run["results"]])
+        return "".join(sarif_chunks(log))
     raise ValueError(f"no combined report in {fmt.value}; one page per board")

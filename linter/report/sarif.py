@@ -11,23 +11,24 @@ file edits, which ledlint does not make); they are in the message and in ``prope
 
 from __future__ import annotations
 
-import json
 import re
 from pathlib import Path
-from typing import TYPE_CHECKING, Any, Iterable
+from typing import TYPE_CHECKING, Any, Iterable, Iterator
 from urllib.parse import quote
 
 from linter import __version__
 from linter.findings import Finding
-from linter.report import Reporter
+from linter.gc_pause import paused_gc
 from linter.report.common import finding_location, ordered_findings, plain_data
+from linter.report.json_layout import Lines, compact_json, layered_chunks
+from linter.report.stream import StreamingReporter
 
 if TYPE_CHECKING:
     from linter.engine import CheckResult
     from linter.model import Circuit, SourceLocation
 
 __all__ = ["SarifReporter", "SARIF_SCHEMA_URI", "SARIF_VERSION", "FINGERPRINT_KEY",
-           "SOURCE_ROOT", "LEVELS", "sarif_log"]
+           "SOURCE_ROOT", "LEVELS", "sarif_log", "sarif_chunks"]
 
 SARIF_VERSION = "2.1.0"
 SARIF_SCHEMA_URI = ("https://docs.oasis-open.org/sarif/sarif/v2.1.0/errata01/os/schemas/"
@@ -88,9 +89,20 @@ def _artifact(file: str, base: Path) -> dict[str, str]:
     return {"uri": quote(relative.as_posix(), safe="/"), "uriBaseId": SOURCE_ROOT}
 
 
-def _physical(location: "SourceLocation", base: Path) -> dict[str, Any]:
-    return {"artifactLocation": _artifact(location.file, base),
-            "region": {"startLine": location.line, "startColumn": location.column}}
+class _Places:
+    """``physicalLocation`` records of one log: each file's artifact resolved once (a board's
+    findings all point into one or two files; resolving asks the file system)."""
+
+    def __init__(self, base: Path) -> None:
+        self.base = base
+        self._artifacts: dict[str, dict[str, str]] = {}
+
+    def physical(self, location: "SourceLocation") -> dict[str, Any]:
+        artifact = self._artifacts.get(location.file)
+        if artifact is None:
+            artifact = self._artifacts[location.file] = _artifact(location.file, self.base)
+        return {"artifactLocation": dict(artifact),
+                "region": {"startLine": location.line, "startColumn": location.column}}
 
 
 def _logical(finding: Finding, circuit: "Circuit") -> list[dict[str, str]]:
@@ -106,14 +118,14 @@ def _logical(finding: Finding, circuit: "Circuit") -> list[dict[str, str]]:
     return logical
 
 
-def _related(finding: Finding, circuit: "Circuit", base: Path) -> list[dict[str, Any]]:
+def _related(finding: Finding, circuit: "Circuit", places: _Places) -> list[dict[str, Any]]:
     """The instances of the other named parts, so that a viewer can show each of them."""
     related = []
     for ref in finding.parts[1:]:
         part = circuit.parts.get(ref)
         if part is not None:
             related.append({"id": len(related) + 1, "message": {"text": ref},
-                            "physicalLocation": _physical(part.location, base)})
+                            "physicalLocation": places.physical(part.location)})
     return related
 
 
@@ -121,11 +133,12 @@ def _message(finding: Finding) -> str:
     return finding.message if not finding.fix else f"{finding.message}\nFix: {finding.fix}"
 
 
-def _result(finding: Finding, rule_index: int, circuit: "Circuit", base: Path) -> dict[str, Any]:
+def _result(finding: Finding, rule_index: int, circuit: "Circuit",
+            places: _Places) -> dict[str, Any]:
     location: dict[str, Any] = {}
     where = finding_location(finding, circuit)
     if where is not None:
-        location["physicalLocation"] = _physical(where, base)
+        location["physicalLocation"] = places.physical(where)
     logical = _logical(finding, circuit)
     if logical:
         location["logicalLocations"] = logical
@@ -137,7 +150,7 @@ def _result(finding: Finding, rule_index: int, circuit: "Circuit", base: Path) -
     }
     if location:
         result["locations"] = [location]
-    related = _related(finding, circuit, base)
+    related = _related(finding, circuit, places)
     if related:
         result["relatedLocations"] = related
     result["partialFingerprints"] = {FINGERPRINT_KEY: finding.fingerprint}
@@ -147,27 +160,53 @@ def _result(finding: Finding, rule_index: int, circuit: "Circuit", base: Path) -
     return result
 
 
-def sarif_log(result: "CheckResult", base: Path) -> dict[str, Any]:
-    """The SARIF log as plain data; relative URIs start from ``base`` (an absolute folder)."""
-    findings = ordered_findings(result.findings)
-    rules = _rules(findings)
+def _results(findings: list[Finding], rules: list[dict[str, Any]], circuit: "Circuit",
+             base: Path) -> Iterator[dict[str, Any]]:
+    """One SARIF result per finding, in the order given."""
     index = {descriptor["id"]: position for position, descriptor in enumerate(rules)}
+    places = _Places(base)
+    for finding in findings:
+        yield _result(finding, index[finding.rule], circuit, places)
+
+
+def _log_around(rules: list[dict[str, Any]], base: Path, results: Any) -> dict[str, Any]:
     driver = {"name": "ledlint", "version": __version__, "semanticVersion": __version__,
               "rules": rules}
     run = {
         "tool": {"driver": driver},
         "originalUriBaseIds": {SOURCE_ROOT: {"uri": base.as_uri().rstrip("/") + "/"}},
         "columnKind": "unicodeCodePoints",
-        "results": [_result(finding, index[finding.rule], result.circuit, base)
-                    for finding in findings],
+        "results": results,
     }
     return {"$schema": SARIF_SCHEMA_URI, "version": SARIF_VERSION, "runs": [run]}
 
 
-class SarifReporter(Reporter):
-    """SARIF 2.1.0; the same input in the same folder gives the same bytes."""
+def sarif_log(result: "CheckResult", base: Path) -> dict[str, Any]:
+    """The SARIF log as plain data; relative URIs start from ``base`` (an absolute folder)."""
+    findings = ordered_findings(result.findings)
+    rules = _rules(findings)
+    return _log_around(rules, base, list(_results(findings, rules, result.circuit, base)))
 
-    def render(self, result: "CheckResult") -> str:
+
+def sarif_chunks(log: dict[str, Any]) -> Iterator[str]:
+    """A SARIF log's text in pieces: indented by two spaces as ``json.dumps(indent=2)``
+    writes it, except that each result (a :class:`Lines` entry) is one line."""
+    with paused_gc():  # acyclic text; see linter.gc_pause
+        yield from layered_chunks(log)
+        yield "\n"
+
+
+class SarifReporter(StreamingReporter):
+    """SARIF 2.1.0; the same input in the same folder gives the same bytes.
+
+    Layout: the log indented by two spaces, each result on one line (a changed finding is
+    one changed line); the results are made as they are written (:meth:`chunks`).
+    """
+
+    def chunks(self, result: "CheckResult") -> Iterator[str]:
         base = (self.options.base_dir or Path.cwd()).resolve()
-        log = sarif_log(result, base)
-        return json.dumps(log, indent=2, ensure_ascii=False, allow_nan=False) + "\n"
+        findings = ordered_findings(result.findings)
+        rules = _rules(findings)
+        lines = Lines(compact_json(entry)
+                      for entry in _results(findings, rules, result.circuit, base))
+        yield from sarif_chunks(_log_around(rules, base, lines))
