@@ -127,10 +127,12 @@ def _release_instances(edif: EdifFile) -> None:
                         contents.clear()
 
 
-def _locations(doc: Document, forms: list[list]) -> list[SourceLocation]:
-    """Where each form starts, found in one pass over the document."""
+def _locations(doc: Document, forms: list[list | int]) -> list[SourceLocation]:
+    """Where each form starts, found in one pass over the document; one object a place."""
     source, position = doc.source, doc.position
-    return [SourceLocation(source, *position(offset)) for offset in doc.offsets_of(forms)]
+    offsets = doc.offsets_of(forms)
+    known = {offset: SourceLocation(source, *position(offset)) for offset in offsets}
+    return [known[offset] for offset in offsets]  # a sheet placed twice: one location
 
 
 def _reference(leaf: Leaf) -> str | None:
@@ -242,8 +244,8 @@ class _PartMaker:
         parent, net_names, known = self.flat.parent, self.net_names, self.pins
         pins = []
         for node, name in enumerate(names, leaf.pins):
-            while parent[node] != node:  # the root (the sets are final: no compression)
-                node = parent[node]
+            while parent[node] != node:  # the root, halving the path on the way
+                parent[node] = node = parent[parent[node]]
             net = net_names.get(node)
             pin = known.get((name, net))
             if pin is None:
