@@ -101,9 +101,11 @@ def _refuse_output_over_input(args: argparse.Namespace, netlists: Sequence[Path]
 
 
 def _run_check(args: argparse.Namespace) -> int:
-    from linter.cli_many import run_many, wants_many
+    from linter.cli_plan import wants_many
 
     if wants_many(args):  # several paths or a folder: one combined report (linter.batch)
+        from linter.cli_many import run_many
+
         return run_many(args)
     from linter.engine import CheckRequest, run_check
     from linter.findings import severity_rank

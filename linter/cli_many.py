@@ -19,23 +19,11 @@ from pathlib import Path
 from typing import Sequence
 
 from linter.batch import BoardOutcome, expand_inputs, plan_boards, run_boards
+from linter.cli_plan import wants_many
 from linter.errors import UsageError
 from linter.report import ReportFormat, ReportOptions
 
 __all__ = ["wants_many", "run_many", "HTML_REFUSAL"]
-
-
-def wants_many(args: argparse.Namespace) -> bool:
-    """True when the command line names several paths or a folder.
-
-    Raises
-    ------
-    UsageError
-        ``--jobs`` below 1.
-    """
-    if args.jobs < 1:
-        raise UsageError(f"ledlint check: --jobs {args.jobs}: give a whole number of 1 or more")
-    return bool(args.more_netlists) or args.netlist.is_dir()
 
 
 HTML_REFUSAL = ("ledlint check: --format html makes one page per board; name one netlist, "

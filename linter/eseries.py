@@ -1,8 +1,8 @@
 """IEC 60063 preferred numbers (the E-series) for resistor values, across decades.
 
-The base values of each series come from the ``eseries`` package (its tables follow
-IEC 60063, including the irregular E24 values 27, 30, 33, 36, 39, 43, 47 and the E192 value
-920). This module adds what ledlint needs on top: the series that goes with a tolerance, the
+The base values of each series are the IEC 60063 tables of :mod:`linter.eseries_tables`
+(the irregular E24 values 27, 30, 33, 36, 39, 43, 47 and the E192 value 920 included; a test
+compares them with the ``eseries`` package's). This module adds what ledlint needs on top: the series that goes with a tolerance, the
 nearest, next-lower and next-higher standard value of any positive value in any decade, and a
 tolerant membership test for values read from netlists.
 
@@ -15,7 +15,8 @@ import math
 from functools import lru_cache
 from typing import Literal
 
-import eseries as _eseries
+from linter.eseries_tables import SERIES as _TABLES
+from linter.eseries_tables import TOLERANCE as _TOLERANCES
 
 __all__ = [
     "SeriesName",
@@ -54,11 +55,10 @@ _PRECISION_ALSO = "E24"
 """Precision ranges (2 % and tighter) are also stocked in the E24 values (common practice)."""
 
 
-def _key(series: str) -> _eseries.ESeries:
-    try:
-        return _eseries.ESeries[series]
-    except KeyError:
-        raise ValueError(f"unknown E-series {series!r}; known: {', '.join(SERIES_NAMES)}") from None
+def _key(series: str) -> str:
+    if series not in _TABLES:
+        raise ValueError(f"unknown E-series {series!r}; known: {', '.join(SERIES_NAMES)}")
+    return series
 
 
 def series_tolerance(series: str) -> float:
@@ -67,7 +67,7 @@ def series_tolerance(series: str) -> float:
     >>> series_tolerance("E96")
     0.01
     """
-    return float(_eseries.tolerance(_key(series)))
+    return _TOLERANCES[_key(series)]
 
 
 def series_for_tolerance(tolerance: float) -> str:
@@ -111,7 +111,7 @@ def base_values(series: str) -> tuple[float, ...]:
     >>> base_values("E6")
     (1.0, 1.5, 2.2, 3.3, 4.7, 6.8)
     """
-    raw = _eseries.series(_key(series))
+    raw = _TABLES[_key(series)]
     digits = len(str(raw[0]))  # 10 for E3–E24, 100 for E48–E192
     scale = 10.0 ** (digits - 1)
     return tuple(value / scale for value in raw)

@@ -139,3 +139,25 @@ def test_below_and_above_bracket_the_value(value, series):
     assert is_standard(low, series) and is_standard(high, series)
     inside = [v for v in values_between(series, value / 10, value * 10) if low < v < high]
     assert inside == []
+
+
+def test_written_out_tables_equal_the_eseries_package():
+    """linter.eseries_tables holds the IEC 60063 tables itself (no package import on a
+    check); the eseries package (a published implementation of IEC 60063) must agree."""
+    import eseries as package
+
+    from linter.eseries_tables import SERIES, TOLERANCE
+
+    assert tuple(SERIES) == eseries.SERIES_NAMES
+    for name in SERIES:
+        assert SERIES[name] == tuple(package.series(package.ESeries[name])), name
+        assert TOLERANCE[name] == float(package.tolerance(package.ESeries[name])), name
+
+
+def test_cached_decades_equal_values_made_one_by_one():
+    """The decade tables built once give the values the plain per-call loop gave (our own
+    plain path as the reference)."""
+    for name in eseries.SERIES_NAMES:
+        for decade in range(-3, 8):
+            plain = tuple(eseries._in_decade(m, decade) for m in base_values(name))
+            assert eseries._decade_values(name, decade) == plain
