@@ -156,7 +156,13 @@ class SeriesWalk:
         values += self._steps(ohms, self._up, above)
         values += self._steps(ohms, self._down, below)
         wanted = [v for v in dict.fromkeys(values) if v not in self._known]
-        self._known.update(zip(wanted, self._solve_many(wanted)))
+        try:
+            answers = self._solve_many(wanted)
+        except Exception:  # noqa: BLE001 - a value solved ahead may fail; the asked one alone
+            if len(wanted) == 1:
+                raise
+            wanted, answers = [ohms], self._solve_many([ohms])
+        self._known.update(zip(wanted, answers))
         self.batches += 1
 
     @staticmethod

@@ -33,11 +33,17 @@ def solved_groups(context: Any) -> Iterator[Any]:
     it instead.
     """
     groups = getattr(context, "groups", ()) or ()
+    if not isinstance(groups, tuple):  # a list may change between calls: nothing kept
+        yield from _solved(groups)
+        return
     if _SOLVED[0] is not groups:  # every rule asks; the board's groups are sorted out once
-        _SOLVED[:] = [groups, tuple(
-            result for result in groups if getattr(result, "status", None) == "solved"
-            and result.group.topology != "unrecognised")]
+        _SOLVED[:] = [groups, _solved(groups)]
     yield from _SOLVED[1]
+
+
+def _solved(groups: Iterable[Any]) -> tuple:
+    return tuple(result for result in groups if getattr(result, "status", None) == "solved"
+                 and result.group.topology != "unrecognised")
 
 
 _SOLVED: list = [None, ()]

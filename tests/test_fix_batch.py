@@ -136,3 +136,23 @@ def test_overlay_reads_changes_first_and_copies_nothing():
 
 def test_first_window_is_small():
     assert sum(fix_batch.FIRST_WINDOW) + 1 <= fix_batch.MAX_WINDOW
+
+
+def test_a_failing_value_solved_ahead_does_not_fail_the_value_asked():
+    solved: list[list[float]] = []
+
+    def solve_many(values):
+        solved.append(list(values))
+        if len(values) > 1:
+            raise FloatingPointError("one of the values ahead cannot be solved")
+        return [f"answer {values[0]}"]
+
+    walk = SeriesWalk(solve_many, up=lambda r: r * 2, down=lambda r: r / 2)
+    assert walk(10.0) == "answer 10.0"
+    assert solved[-1] == [10.0]
+
+    def never(values):
+        raise FloatingPointError("no value can be solved")
+
+    with pytest.raises(FloatingPointError):  # the value asked fails alone too: as before
+        SeriesWalk(never, up=lambda r: r * 2, down=lambda r: r / 2)(5.0)

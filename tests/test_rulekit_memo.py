@@ -26,3 +26,34 @@ def test_memoised_sink_design_matches_the_plain_design():
                   reference_tolerance=0.02, resistor_tolerance=0.01)
     assert sink_design(*args, **kwargs) == plain_sink_design(*args, **kwargs)
     assert sink_design(*args, **kwargs) is sink_design(*args, **kwargs)
+
+
+def _board(groups):
+    from types import SimpleNamespace
+
+    return SimpleNamespace(groups=groups)
+
+
+def _result(status, topology):
+    from types import SimpleNamespace
+
+    return SimpleNamespace(status=status, group=SimpleNamespace(topology=topology))
+
+
+def test_solved_groups_kept_per_board_equal_the_plain_filter():
+    from linter.rulekit import forget_board, solved_groups
+
+    a, b, c = (_result("solved", "resistor"), _result("unsolved", "resistor"),
+               _result("solved", "unrecognised"))
+    first = _board((a, b, c))
+    assert list(solved_groups(first)) == [a]
+    assert list(solved_groups(first)) == [a]          # kept for the same board
+    second = _board((c, a, a))
+    assert list(solved_groups(second)) == [a, a]      # another board: its own groups
+    changing = [a, b]
+    board = _board(changing)
+    assert list(solved_groups(board)) == [a]
+    changing.append(a)                                # a list is never kept
+    assert list(solved_groups(board)) == [a, a]
+    forget_board()
+    assert list(solved_groups(first)) == [a]
