@@ -83,3 +83,55 @@ def test_streamed_pieces_join_to_the_whole_report(checked, monkeypatch) -> None:
         pieces = list(TextReporter(options).chunks(demo))
         monkeypatch.undo()
         assert len(pieces) > 3 and "".join(pieces) == whole
+
+
+_CELL_CHARS = list("aZ09 .-µΩ–/\t\n中\u0301\x07") + ["mA", "kΩ", "D17"]
+_cells = st.lists(st.sampled_from(_CELL_CHARS), max_size=6).map("".join)
+
+
+def _rich_table(headings, right, rows) -> str:
+    from rich.table import Table
+
+    table = Table(box=text_report._PLAIN_BOX, show_edge=False, pad_edge=False,
+                  header_style="bold")
+    for heading, flush_right in zip(headings, right):
+        table.add_column(heading, justify="right" if flush_right else "left")
+    for row in rows:
+        table.add_row(*row)
+    buffer = io.StringIO()
+    _plain_console(buffer).print(table, soft_wrap=False)
+    return buffer.getvalue()
+
+
+_tidy_cells = st.lists(st.sampled_from(["mA", "D17", "4.7", "kΩ", "µA", "–", "?", "x"]),
+                      min_size=1, max_size=3).map(" ".join)
+
+
+def _tables(cells):
+    return st.integers(min_value=1, max_value=12).flatmap(lambda columns: st.tuples(
+        st.lists(cells, min_size=columns, max_size=columns),
+        st.lists(st.booleans(), min_size=columns, max_size=columns),
+        st.lists(st.lists(cells, min_size=columns, max_size=columns), max_size=4)))
+
+
+@settings(max_examples=600)
+@given(st.one_of(_tables(_tidy_cells), _tables(_cells)))
+def test_plain_table_is_what_rich_prints(table) -> None:
+    from linter.report.text_tables import plain_table
+
+    headings, right, rows = table
+    text = plain_table(headings, right, rows, REPORT_WIDTH)
+    if text is not None:  # None: rich prints it (odd cells or too wide)
+        assert text == _rich_table(headings, right, rows)
+
+
+def test_plain_table_takes_the_usual_tables() -> None:
+    from linter.report.text_tables import plain_table
+
+    # a group table as the reporter makes it (invented figures)
+    headings = ("LED", "part", "I nom", "I min", "I max")
+    rows = [("D7", "LX-R0603", "18.5 mA", "4.39 µA", "75.1 mA"), ("D10", "?", "2 mA", "?", "?")]
+    right = [False, False, True, True, True]
+    text = plain_table(headings, right, rows, REPORT_WIDTH)
+    assert text is not None and text == _rich_table(headings, right, rows)
+    assert plain_table(("a",) * 30, [True] * 30, [("xxxx",) * 30], REPORT_WIDTH) is None  # wide

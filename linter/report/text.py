@@ -25,6 +25,7 @@ from linter.refs import fold_refs
 from linter.report.common import (finding_location, group_entry, ordered_findings,
                                   severity_counts, sorted_records)
 from linter.report.stream import StreamingReporter
+from linter.report.text_tables import plain_table
 from linter.units import format_si
 
 if TYPE_CHECKING:
@@ -82,29 +83,53 @@ def _si(value: Any, unit: str) -> str:
     return UNKNOWN if value is None else format_si(float(value), unit)
 
 
-def _led_table(group: Mapping[str, Any], style: box.Box) -> Table:
-    table = Table(box=style, show_edge=False, pad_edge=False, header_style="bold")
-    for heading in ("LED", "part", "I nom", "I min", "I max", "Vf nom", "Vf min", "Vf max",
-                    "P nom", "P max"):
-        table.add_column(heading, justify="left" if heading in ("LED", "part") else "right")
+_LED_HEADINGS = ("LED", "part", "I nom", "I min", "I max", "Vf nom", "Vf min", "Vf max",
+                 "P nom", "P max")
+_RESISTOR_HEADINGS = ("resistor", "value", "P nom", "P max", "rating")
+
+
+def _led_rows(group: Mapping[str, Any]) -> list[tuple[str, ...]]:
+    rows = []
     for led in group.get("leds", ()):
         current, vf, power = (led.get(k) or {} for k in ("current_a", "vf_v", "power_w"))
-        table.add_row(led.get("ref", ""), led.get("part") or UNKNOWN,
-                      *(_si(current.get(k), "A") for k in ("nom", "min", "max")),
-                      *(_si(vf.get(k), "V") for k in ("nom", "min", "max")),
-                      _si(power.get("nom"), "W"), _si(power.get("max"), "W"))
-    return table
+        rows.append((led.get("ref", ""), led.get("part") or UNKNOWN,
+                     *(_si(current.get(k), "A") for k in ("nom", "min", "max")),
+                     *(_si(vf.get(k), "V") for k in ("nom", "min", "max")),
+                     _si(power.get("nom"), "W"), _si(power.get("max"), "W")))
+    return rows
 
 
-def _resistor_table(group: Mapping[str, Any], style: box.Box) -> Table:
-    table = Table(box=style, show_edge=False, pad_edge=False, header_style="bold")
-    for heading in ("resistor", "value", "P nom", "P max", "rating"):
-        table.add_column(heading, justify="left" if heading == "resistor" else "right")
+def _resistor_rows(group: Mapping[str, Any]) -> list[tuple[str, ...]]:
+    rows = []
     for resistor in group.get("resistors", ()):
         power = resistor.get("power_w") or {}
-        table.add_row(resistor.get("ref", ""), _si(resistor.get("ohms"), "Ω"),
-                      _si(power.get("nom"), "W"), _si(power.get("max"), "W"),
-                      _si(resistor.get("rating_w"), "W"))
+        rows.append((resistor.get("ref", ""), _si(resistor.get("ohms"), "Ω"),
+                     _si(power.get("nom"), "W"), _si(power.get("max"), "W"),
+                     _si(resistor.get("rating_w"), "W")))
+    return rows
+
+
+def _group_tables(group: Mapping[str, Any]) -> list[tuple[tuple[str, ...], list[tuple[str, ...]]]]:
+    """The group's tables: (headings, rows) of its LEDs, then of its resistors, if any.
+    The first column of each (the reference) is left-justified, the numbers right."""
+    tables = []
+    if group.get("leds"):
+        tables.append((_LED_HEADINGS, _led_rows(group)))
+    if group.get("resistors"):
+        tables.append((_RESISTOR_HEADINGS, _resistor_rows(group)))
+    return tables
+
+
+def _left_justified(heading: str) -> bool:
+    return heading in ("LED", "part", "resistor")
+
+
+def _table(headings: tuple[str, ...], rows: list[tuple[str, ...]], style: box.Box) -> Table:
+    table = Table(box=style, show_edge=False, pad_edge=False, header_style="bold")
+    for heading in headings:
+        table.add_column(heading, justify="left" if _left_justified(heading) else "right")
+    for row in rows:
+        table.add_row(*row)
     return table
 
 
@@ -176,17 +201,18 @@ class _Lines:
         if self.plain and (renderable is None or (type(renderable) is Text and not options)):
             line = "" if renderable is None else renderable.plain
             if "\t" not in line:
-                self._keep(line + "\n")
+                self.keep(line + "\n")
                 return
         if renderable is None:
             self.console.print()
         else:
             self.console.print(renderable, **options)
-        self._keep(self.buffer.getvalue())
+        self.keep(self.buffer.getvalue())
         self.buffer.seek(0)
         self.buffer.truncate()
 
-    def _keep(self, text: str) -> None:
+    def keep(self, text: str) -> None:
+        """Add text as it is (whole lines, each ending in a newline)."""
         self.pending.append(text)
         self.size += len(text)
 
@@ -229,10 +255,13 @@ class TextReporter(StreamingReporter):
             group = group_entry(record)
             lines.print()
             lines.print(_group_heading(group))
-            if group.get("leds"):
-                lines.print(_led_table(group, style), soft_wrap=False)
-            if group.get("resistors"):
-                lines.print(_resistor_table(group, style), soft_wrap=False)
+            for headings, rows in _group_tables(group):
+                right = [not _left_justified(heading) for heading in headings]
+                text = plain_table(headings, right, rows, REPORT_WIDTH) if lines.plain else None
+                if text is not None:
+                    lines.keep(text)  # what rich prints for it (linter.report.text_tables)
+                else:
+                    lines.print(_table(headings, rows, style), soft_wrap=False)
             yield
 
     def _print_group_lines(self, lines: _Lines, result: "CheckResult") -> None:
