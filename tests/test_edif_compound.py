@@ -12,6 +12,7 @@ from pathlib import Path
 
 import pytest
 
+from linter import limits
 from linter.errors import NetlistError
 from linter.readers import edif
 from linter.readers.edif_compound import PATTERN, TOKEN_GROUP
@@ -127,3 +128,32 @@ def test_errors_are_word_for_word_those_of_the_plain_reading(instances: str, net
 def test_a_compound_form_as_the_whole_file_is_refused_as_not_edif() -> None:
     assert error_of(edif.read_edif, "(portRef A)") == \
         "t.edif:1:1: not an EDIF netlist: expected '(edif' at the start, found '(portRef'"
+
+
+@pytest.mark.parametrize("depth", [6, 7, 8, 9, 12, 16])
+def test_compound_forms_near_the_nesting_limit_read_as_without_them(depth: int) -> None:
+    # instances sit 6 lists deep (edif, library, cell, view, contents); their forms nest 4
+    # more: with the limit anywhere around there, both readings refuse or accept alike
+    text = board('(instance R1 (viewRef netlist (cellRef RES (libraryRef P))))\n'
+                 '(instance R2 (viewRef netlist (cellRef RES (libraryRef P))))',
+                 '(net A (joined (portRef VIN) (portRef &1 (instanceRef R1))))\n'
+                 '(net B (joined (portRef &2 (instanceRef R1)) (portRef &1 (instanceRef R2))))\n'
+                 '(net C (joined (portRef &2 (instanceRef R2)) (portRef VIN)))')
+    with limits.applied(limits.Limits(max_nesting=depth)):
+        try:
+            slow = plain(text)
+        except NetlistError as problem:
+            assert error_of(edif.read_edif, text) == str(problem)
+        else:
+            fast = edif.read_edif(text, "t.edif")
+            assert fast.parts == slow.parts and fast.nets == slow.nets
+
+
+def test_the_same_reading_twice_in_one_process() -> None:
+    # shared property readings are keyed by the records' identity while they live; a second
+    # reading (new records, possibly at reused addresses) must not see the first one's
+    text = (ROOT / "fixtures" / "demo" / "dust_extractor_panel.edif").read_text(encoding="utf-8")
+    first = edif.read_edif(text, "a.edif")
+    second = edif.read_edif(text.replace('"330"', '"331"'), "a.edif")
+    assert first.parts == plain(text, "a.edif").parts
+    assert second.parts == plain(text.replace('"330"', '"331"'), "a.edif").parts

@@ -1,6 +1,7 @@
 """EDIF 2.0.0 netlists to a :class:`linter.model.Circuit`.
 
-Three steps, one module each: :mod:`linter.readers.sexpr` parses the text,
+Three steps, one module each: :mod:`linter.readers.sexpr` parses the text (the frequent
+forms read whole into records by :mod:`linter.readers.edif_compound`),
 :mod:`linter.readers.edif_forms` turns the forms into declaration records, and
 :mod:`linter.readers.edif_flatten` walks the hierarchy from the design's top cell and joins
 nets through ports. This module names what the walk found and builds the Circuit:

@@ -99,7 +99,6 @@ class EdifCompounds:
         self._items: dict[str, tuple[str | None, dict[str, str]]] = {}
         self._texts: dict[str, str] = {}
         self._atoms: dict[str, str] = {}
-        self._names: dict[str, Name] = {}
 
     def build(self, match: re.Match[str]) -> object:
         which = match.lastindex
@@ -121,9 +120,7 @@ class EdifCompounds:
     def _net(self, match: re.Match[str]) -> Net:
         ident = match.group(10)
         if ident is not None:
-            name = self._names.get(ident)
-            if name is None:
-                name = Name(ident.casefold(), ident[1:] if ident.startswith("&") else ident)
+            name = Name(ident.casefold(), ident[1:] if ident.startswith("&") else ident)
         else:
             name = Name(match.group(11).casefold(), decode_string(match.group(12)))
         share = self._atoms.setdefault  # findall gives "" for a missing instance: None

@@ -14,6 +14,12 @@ again). Offsets of the opening parentheses come from a second regex, run once on
 first position request. A text with a syntax error is parsed a second time by a slower
 loop that tracks offsets, only to say where the error is.
 
+A reader may also hand :func:`parse` *compound forms* (:class:`CompoundForms`): a token
+pattern that matches whole, well-formed lists of a frequent spelling in one regex match each,
+and a builder that turns each into a record placed in the tree instead of the list (the EDIF
+reader reads its instances and nets so). Those lists then never exist, and the offsets of the
+lists that do are recorded as they are met.
+
 The syntax is the one EDIF 2.0.0 uses, narrower than Lisp's. Where sexpdata reads an
 atom differently, this module follows EDIF, on purpose:
 
@@ -38,7 +44,7 @@ from array import array
 from bisect import bisect_right
 from itertools import accumulate, chain, compress, count
 from operator import add, methodcaller
-from typing import Callable, Iterable, Iterator, Protocol, Sequence
+from typing import Iterable, Iterator, Protocol, Sequence
 
 from sexpdata import Symbol
 
