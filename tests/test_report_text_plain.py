@@ -135,3 +135,28 @@ def test_plain_table_takes_the_usual_tables() -> None:
     text = plain_table(headings, right, rows, REPORT_WIDTH)
     assert text is not None and text == _rich_table(headings, right, rows)
     assert plain_table(("a",) * 30, [True] * 30, [("xxxx",) * 30], REPORT_WIDTH) is None  # wide
+
+
+def _shown_part(entry: dict) -> dict:
+    """The fields shown_entry keeps, taken from the whole entry (the plain path)."""
+    keep = {key: entry[key] for key in ("id", "topology", "rail", "parts", "setter")}
+    keep["leds"] = [{key: led[key] for key in ("ref", "part", "current_a", "vf_v", "power_w")}
+                    for led in entry["leds"]]
+    keep["resistors"] = [{key: resistor[key] for key in ("ref", "ohms", "power_w", "rating_w")}
+                         for resistor in entry["resistors"]]
+    return keep
+
+
+def test_shown_entry_is_part_of_the_whole_entry(checked) -> None:
+    from test_report_json_layout import _odd_group
+
+    from linter.report.common import group_entry
+    from linter.report.text import shown_entry
+
+    records = [record for result in checked for record in result.groups] + [_odd_group()]
+    solved = [record for record in records if hasattr(record, "group")]
+    assert len(solved) > 50
+    for record in solved:
+        assert shown_entry(record) == _shown_part(group_entry(record))
+    stand_in = sample_result().groups[0]
+    assert shown_entry(stand_in) == group_entry(stand_in)

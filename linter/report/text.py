@@ -22,8 +22,9 @@ from rich.text import Text
 from linter.findings import SEVERITIES, Finding
 from linter.gc_pause import paused_gc
 from linter.refs import fold_refs
+from linter.results import GroupResult
 from linter.report.common import (finding_location, group_entry, ordered_findings,
-                                  severity_counts, sorted_records)
+                                  plain_data, severity_counts, sorted_records)
 from linter.report.stream import StreamingReporter
 from linter.report.text_tables import plain_table
 from linter.units import format_si
@@ -31,7 +32,7 @@ from linter.units import format_si
 if TYPE_CHECKING:
     from linter.engine import CheckResult
 
-__all__ = ["TextReporter", "REPORT_WIDTH", "UNKNOWN", "PIECE_CHARS"]
+__all__ = ["TextReporter", "REPORT_WIDTH", "UNKNOWN", "PIECE_CHARS", "shown_entry"]
 
 REPORT_WIDTH = 100
 """Columns of the report: fixed, so that the same input gives the same text anywhere."""
@@ -86,6 +87,32 @@ def _si(value: Any, unit: str) -> str:
 _LED_HEADINGS = ("LED", "part", "I nom", "I min", "I max", "Vf nom", "Vf min", "Vf max",
                  "P nom", "P max")
 _RESISTOR_HEADINGS = ("resistor", "value", "P nom", "P max", "rating")
+
+
+def _span_entry(span: Any) -> dict[str, Any]:
+    return {"nom": plain_data(span.nom), "min": plain_data(span.min), "max": plain_data(span.max)}
+
+
+def shown_entry(record: Any) -> Mapping[str, Any]:
+    """The fields of a group's JSON entry this report shows, as :func:`group_entry` gives
+    them (id, topology, rail, setter, parts; each LED's ref, part, current, Vf and power;
+    each resistor's ref, ohms, power and rating), without the rest (the corners, chiefly).
+    A record other than a solved group gives its whole entry."""
+    if type(record) is not GroupResult:
+        return group_entry(record)
+    shape = record.group
+    return {
+        "id": plain_data(shape.id), "topology": plain_data(shape.topology),
+        "rail": plain_data(record.rail), "parts": plain_data(shape.parts),
+        "setter": plain_data(shape.setter),
+        "leds": [{"ref": plain_data(led.ref), "part": plain_data(led.part_number),
+                  "current_a": _span_entry(led.current), "vf_v": _span_entry(led.vf),
+                  "power_w": _span_entry(led.power)} for led in record.leds],
+        "resistors": [{"ref": plain_data(resistor.ref), "ohms": plain_data(resistor.ohms),
+                       "power_w": _span_entry(resistor.power),
+                       "rating_w": plain_data(resistor.rating_w)}
+                      for resistor in record.resistors],
+    }
 
 
 def _led_rows(group: Mapping[str, Any]) -> list[tuple[str, ...]]:
@@ -252,7 +279,7 @@ class TextReporter(StreamingReporter):
     def _print_groups(self, lines: _Lines, result: "CheckResult") -> Iterator[None]:
         style = box.SIMPLE_HEAD if self.options.color else _PLAIN_BOX
         for record in sorted_records(result.groups):
-            group = group_entry(record)
+            group = shown_entry(record)
             lines.print()
             lines.print(_group_heading(group))
             for headings, rows in _group_tables(group):
@@ -267,7 +294,7 @@ class TextReporter(StreamingReporter):
     def _print_group_lines(self, lines: _Lines, result: "CheckResult") -> None:
         records = sorted_records(result.groups)
         for record in records[:GROUP_LINES_MAX]:
-            lines.print(_group_line(group_entry(record)))
+            lines.print(_group_line(shown_entry(record)))
         if len(records) > GROUP_LINES_MAX:
             lines.print(Text(f"  … and {len(records) - GROUP_LINES_MAX} more groups "
                              "(--verbose lists them all)"))
