@@ -11,6 +11,7 @@ Where the two disagree the analysis keeps the netlist's value: the netlist is wh
 from __future__ import annotations
 
 import math
+from operator import attrgetter
 from dataclasses import dataclass, field, fields, replace
 from typing import Literal, Mapping
 
@@ -52,10 +53,11 @@ def apply_bom(circuit: Circuit, bom: Bom) -> tuple[Circuit, tuple[BomDiscrepancy
     by_fold = {ref.casefold(): ref for ref in circuit.parts}
     found: dict[str, BomLine] = {}
     problems: list[BomDiscrepancy] = []
+    exact = circuit.parts if len(by_fold) == len(circuit.parts) else {}  # no refs alike but for case
     for line in bom.lines:
         problems.extend(_check_quantity(line))
         for bom_ref in line.refs:
-            ref = by_fold.get(bom_ref.casefold())
+            ref = bom_ref if bom_ref in exact else by_fold.get(bom_ref.casefold())
             if ref is None:
                 problems.append(BomDiscrepancy(
                     "missing-from-netlist", (bom_ref,),
@@ -69,6 +71,8 @@ def apply_bom(circuit: Circuit, bom: Bom) -> tuple[Circuit, tuple[BomDiscrepancy
             else:
                 found[ref] = line
     parts = dict(circuit.parts)
+    facts: dict[int, dict[str, str]] = {}  # BOM line (by identity) -> its facts
+    matches: dict[tuple, bool] = {}  # (line, what the comparison reads of a part) -> agree
     for ref, part in circuit.parts.items():
         line = found.get(ref)
         if line is None:
@@ -77,9 +81,21 @@ def apply_bom(circuit: Circuit, bom: Bom) -> tuple[Circuit, tuple[BomDiscrepancy
                     "missing-from-bom", (ref,),
                     f"{ref} is in the netlist but not in the BOM", part.location))
             continue
-        same_value = line.value is None or part.value is None or _value_matches(part, line)
-        problems.extend(_compare(part, line, same_value))
-        parts[ref] = _enrich(part, line, same_value)
+        if line.value is None or part.value is None:
+            same_value = True
+        else:  # a line lists many parts of the same value: compare each pairing once
+            model = part.model.name if part.model is not None else None
+            key = (id(line), part.value, part.value_si, part.kind, part.part_number,
+                   part.model is not None, model)
+            same_value = matches.get(key)  # type: ignore[assignment]
+            if same_value is None:
+                same_value = matches[key] = _value_matches(part, line)
+        if (not same_value and not line.dnp) or (part.part_number and line.part_number):
+            problems.extend(_compare(part, line, same_value))
+        line_facts = facts.get(id(line))
+        if line_facts is None:
+            line_facts = facts[id(line)] = _line_facts(line)
+        parts[ref] = _enrich(part, line, same_value, line_facts)
     return replace(circuit, parts=parts), tuple(problems)
 
 
@@ -94,32 +110,42 @@ def _check_quantity(line: BomLine) -> list[BomDiscrepancy]:
         line.location, {"quantity": float(line.quantity), "references": float(count)})]
 
 
-def _enrich(part: Part, line: BomLine, same_value: bool) -> Part:
+def _line_facts(line: BomLine) -> dict[str, str]:
+    """The properties a BOM line gives each of its parts, in :data:`_BOM_PROPERTIES` order."""
+    found = {name: text for name, text in zip(_BOM_PROPERTIES, _READ_LINE(line))
+             if text is not None}
+    if line.dnp:
+        found["dnp"] = "yes"
+    return found
+
+
+def _enrich(part: Part, line: BomLine, same_value: bool,
+            facts: Mapping[str, str] | None = None) -> Part:
     """The part with the BOM's facts in its properties (and part number where it had none).
 
-    ``same_value`` says whether the BOM's value agrees with the netlist's (or either is absent).
+    ``same_value`` says whether the BOM's value agrees with the netlist's (or either is absent);
+    ``facts`` is :func:`_line_facts` of ``line`` when the caller has it already.
     """
-    properties = dict(part.properties)
-    for name in _BOM_PROPERTIES:
-        text = getattr(line, name)
-        if text is not None:
-            properties[name] = text
-    if line.dnp:
-        properties["dnp"] = "yes"
+    properties = {**part.properties, **(_line_facts(line) if facts is None else facts)}
     if not same_value:
         properties["bom_value"] = line.value  # type: ignore[assignment]
-    part_number = part.part_number or line.part_number
-    return _changed(part, properties=properties, part_number=part_number)
+    return _changed(part, properties, part.part_number or line.part_number)
 
 
-_PART_FIELDS = tuple(item.name for item in fields(Part))
+_READ_LINE = attrgetter(*_BOM_PROPERTIES)
+_PART_FIELDS = tuple(item.name for item in fields(Part) if item.init)
+_READ_PART = attrgetter(*_PART_FIELDS)
+_PROPERTIES_AT = _PART_FIELDS.index("properties")
+_PART_NUMBER_AT = _PART_FIELDS.index("part_number")
 
 
-def _changed(part: Part, **changes: object) -> Part:
-    """``dataclasses.replace(part, **changes)`` without its per-call introspection."""
-    values = {name: getattr(part, name) for name in _PART_FIELDS}
-    values.update(changes)
-    return Part(**values)  # type: ignore[arg-type]
+def _changed(part: Part, properties: Mapping[str, str], part_number: str | None) -> Part:
+    """``dataclasses.replace(part, properties=…, part_number=…)`` without its per-call
+    introspection (every field read at once, the Part made from them in field order)."""
+    values = list(_READ_PART(part))
+    values[_PROPERTIES_AT] = properties
+    values[_PART_NUMBER_AT] = part_number
+    return Part(*values)
 
 
 def _compare(part: Part, line: BomLine, same_value: bool) -> list[BomDiscrepancy]:

@@ -78,10 +78,11 @@ def find_groups(circuit: Circuit, rails: Mapping[str, Rail],
 def _groups(circuit: Circuit, rails: Mapping[str, Rail],
             part_data: Mapping[str, PartData]) -> tuple[Group, ...]:
     index = CircuitIndex(circuit, rails, part_data)
-    order = {ref: position for position, ref in enumerate(circuit.parts)}
+    leds = [part.ref for part in circuit.leds()]
+    order = {ref: position for position, ref in enumerate(leds)}  # netlist order of the LEDs
     placed: set[str] = set()
     groups: list[Group] = []
-    for led in sorted((part.ref for part in circuit.leds()), key=index.sort_key):
+    for led in sorted(leds, key=index.sort_key):
         if led in placed:
             continue
         cluster = grow_cluster(index, led)

@@ -32,9 +32,14 @@ class Draft:
             found = [s.leds for s in self.strands if s.leds]
         else:
             found = [(led,) for led in self.leds]
-        return tuple(sorted(found, key=lambda leds: self.index.sort_key(leds[0])))
+        if len(found) == 1:
+            return (found[0],)
+        key = self.index.sort_key
+        return tuple(sorted(found, key=lambda leds: key(leds[0])))
 
     def pins(self) -> tuple[PinDrive, ...]:
+        if not self.cluster.pins and not self.extra_pins:
+            return ()
         found = dict.fromkeys(self.cluster.pins + self.extra_pins)
         return tuple(sorted(found, key=lambda pin: self.index.sort_key(pin.id)))
 
@@ -43,18 +48,23 @@ class Draft:
               transistor: str | None = None, drive: str | None = None) -> Group:
         """The frozen Group; parts and nets gathered from the cluster and the extras."""
         pins = self.pins()
+        all_rails = self.index.rails
         parts = {ref for chain in self.cluster.chains for ref in chain.parts}
-        parts.update(self.cluster.transistors, self.extra_parts, (p.part for p in pins))
-        nets = set(self.cluster.nets) | set(self.extra_nets)
-        nets.update(p.supply for p in pins if p.supply in self.index.rails)
-        rails = [net for net in nets if net in self.index.rails]
+        parts.update(self.cluster.transistors, self.extra_parts)
+        nets = set(self.cluster.nets)
+        nets.update(self.extra_nets)
+        if pins:
+            parts.update(p.part for p in pins)
+            nets.update(p.supply for p in pins if p.supply in all_rails)
         key = self.index.sort_key
-        first = min(self.leds, key=key)
+        sorted_nets = sorted(nets, key=key)
+        first = min(self.leds, key=key) if len(self.leds) > 1 else self.leds[0]
         return Group(
             id=f"G-{first}", topology=topology, leds=self.leds, strings=self.strings(),
             parts=tuple(sorted(parts, key=key)),
-            nets=tuple(sorted(nets, key=key)),
-            rails=tuple(sorted(rails, key=key)), setter=setter, pins=pins,
+            nets=tuple(sorted_nets),
+            rails=tuple([net for net in sorted_nets if net in all_rails]), setter=setter,
+            pins=pins,
             scenarios=scenarios or (Scenario("on", {}, self.leds),), reason=reason,
             transistor=transistor, drive=drive)
 

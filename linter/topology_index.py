@@ -22,6 +22,7 @@ Capacitors are open at DC: their pins are left out of every net.
 
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass
 from functools import cached_property
 from typing import Any, Callable, Literal, Mapping
@@ -62,6 +63,13 @@ _SUPPLY_NAMES: tuple[str, ...] = ("VDD", "VCC", "VDDIO")
 
 Polarity = Literal["npn", "pnp", "nmos", "pmos"]
 
+_ROLE_BY_KIND: dict[str, Role] = {
+    **{kind: "open" for kind in DC_OPEN_KINDS},
+    "npn": "transistor", "pnp": "transistor", "nmos": "transistor", "pmos": "transistor",
+    "mcu": "mcu",
+}
+"""The role of a part by its kind, for kinds outside :data:`SERIES_KINDS` (others: foreign)."""
+
 
 @dataclass(frozen=True)
 class NetSplit:
@@ -82,6 +90,31 @@ class NetSplit:
     def control_set(self) -> frozenset[str]:
         """``controls`` as a set, for membership tests."""
         return frozenset(self.controls)
+
+
+def _natural_key(name: str) -> tuple[tuple[str | tuple[int, str], ...], str]:
+    """:func:`linter.refs.natural_key` of ``name`` (the same value, made in one loop without
+    a call per chunk; a board has a key made for most of its references and nets)."""
+    simple = _LETTERS_NUMBER(name)
+    if simple is not None:  # the common designator: letters, then one number
+        prefix, digits = simple.groups()
+        significant = digits.lstrip("0")
+        return (prefix.casefold(), (len(significant), significant), ""), name
+    out: list[str | tuple[int, str]] = []
+    number = False
+    for chunk in _CHUNKS.split(name):
+        if number:
+            significant = chunk.lstrip("0")
+            out.append((len(significant), significant))
+        else:
+            out.append(chunk.casefold())
+        number = not number
+    return tuple(out), name
+
+
+_LETTERS_NUMBER = re.compile(r"(\D*)(\d+)").fullmatch
+_CHUNKS = re.compile(r"(\d+)")
+"""Digit runs (as :mod:`linter.refs` splits designators)."""
 
 
 class _Memo(dict):
@@ -135,45 +168,47 @@ class CircuitIndex:
         self.part_data = part_data
         self._terminals: dict[str, dict[str, Pin] | None] = {}
         self._from_parts: dict[str, list[tuple[str, str]]] | None = None
-        self.kind = _Memo(self._kind).__getitem__
-        self.role = _Memo(self._role).__getitem__
-        self.sort_key = _Memo(natural_key).__getitem__
+        self._kinds = self._all_kinds()
+        self._roles = self._all_roles()
+        self.kind = self._kinds.__getitem__
+        self.role = self._roles.__getitem__
+        self.sort_key = _Memo(_natural_key).__getitem__
         self.pins_on = _Memo(self._pins_on).__getitem__
         self.split = _Memo(self._split).__getitem__
+        self._led_pins = _Memo(self._find_led_pins).__getitem__
 
     # -- parts -------------------------------------------------------------------------
     def part(self, ref: str) -> Part:
         """The part called ``ref``."""
         return self.circuit.parts[ref]
 
-    def _kind(self, ref: str) -> str:
-        part = self.circuit.parts[ref]
-        if part.kind == "transistor":
-            data = self.part_data.get(ref)
-            if isinstance(data, (BjtData, MosfetData)):
-                return data.polarity
-        if part.kind != "mcu" and isinstance(self.part_data.get(ref), McuData):
-            return "mcu"
-        return part.kind
+    def _all_kinds(self) -> dict[str, str]:
+        """Every part's kind, with part data applied (one pass: a few dictionary operations
+        a part cost less than filling a cache part by part)."""
+        kinds = {ref: part.kind for ref, part in self.circuit.parts.items()}
+        for ref, data in self.part_data.items():
+            kind = kinds.get(ref)
+            if kind is None:
+                continue
+            if kind == "transistor" and isinstance(data, (BjtData, MosfetData)):
+                kinds[ref] = data.polarity
+            elif kind != "mcu" and isinstance(data, McuData):
+                kinds[ref] = "mcu"
+        return kinds
 
-    def _role(self, ref: str) -> Role:
-        kind = self.kind(ref)
-        if kind in DC_OPEN_KINDS:
-            return "open"
-        if kind in SERIES_KINDS and len(self.circuit.parts[ref].pins) == 2:
-            return "series"
-        if kind in ("npn", "pnp", "nmos", "pmos"):
-            return "transistor"
-        if kind == "mcu":
-            return "mcu"
-        return "foreign"
+    def _all_roles(self) -> dict[str, Role]:
+        """Every part's role, from its kind and its pin count."""
+        kinds, by_kind = self._kinds, _ROLE_BY_KIND
+        return {ref: (("series" if len(part.pins) == 2 else "foreign")
+                      if (kind := kinds[ref]) in SERIES_KINDS else by_kind.get(kind, "foreign"))
+                for ref, part in self.circuit.parts.items()}
 
     # -- nets --------------------------------------------------------------------------
     def _pins_on(self, net: str) -> tuple[tuple[str, str], ...]:
         declared = self.circuit.nets.get(net)
         raw = declared.pins if declared is not None else self._pins_from_parts(net)
-        return tuple(pair for pair in raw
-                     if pair[0] in self.circuit.parts and self.role(pair[0]) != "open")
+        roles = self._roles  # (a pin of a part the Circuit does not have is left out too)
+        return tuple([pair for pair in raw if roles.get(pair[0], "open") != "open"])
 
     def _pins_from_parts(self, net: str) -> tuple[tuple[str, str], ...]:
         """Fallback for a net a pin names but the Circuit does not list (built once)."""
@@ -187,17 +222,21 @@ class CircuitIndex:
         return tuple(self._from_parts.get(net, ()))
 
     def _split(self, net: str) -> NetSplit:
-        mcu, controls, rest = [], [], []
-        for ref, pin_name in self.pins_on(net):
-            role = self.role(ref)
-            if role == "mcu":
-                mcu.append((ref, pin_name))
-            elif role == "transistor" and self._is_control(ref, pin_name):
-                controls.append(ref)
+        mcu, controls, rest, foreign = [], [], [], []
+        roles = self._roles
+        for pair in self.pins_on(net):
+            role = roles[pair[0]]
+            if role == "series":
+                rest.append(pair)
+            elif role == "mcu":
+                mcu.append(pair)
+            elif role == "transistor" and self._is_control(*pair):
+                controls.append(pair[0])
             else:
-                rest.append((ref, pin_name))
-        foreign = tuple(pair for pair in rest if self.role(pair[0]) == "foreign")
-        return NetSplit(tuple(mcu), tuple(controls), tuple(rest), foreign)
+                rest.append(pair)
+                if role == "foreign":
+                    foreign.append(pair)
+        return NetSplit(tuple(mcu), tuple(controls), tuple(rest), tuple(foreign))
 
     def _is_control(self, ref: str, pin_name: str) -> bool:
         terminals = self.transistor_pins(ref)
@@ -212,7 +251,10 @@ class CircuitIndex:
         if net in self.rails:
             return False
         pins = self.pins_on(net)
-        return len(pins) == 2 and all(self.role(ref) == "series" for ref, _ in pins)
+        if len(pins) != 2:
+            return False
+        role = self.role
+        return role(pins[0][0]) == "series" and role(pins[1][0]) == "series"
 
     # -- pins --------------------------------------------------------------------------
     def other_pin(self, ref: str, pin_name: str) -> Pin:
@@ -221,13 +263,20 @@ class CircuitIndex:
         return second if first.name == pin_name else first
 
     def led_pins(self, ref: str) -> tuple[Pin, Pin] | None:
-        """(anode, cathode) of an LED, or None when its pin names do not say."""
-        part = self.circuit.parts[ref]
-        anodes = [pin for pin in part.pins if pin.name.casefold() in LED_ANODE_NAMES]
-        cathodes = [pin for pin in part.pins if pin.name.casefold() in LED_CATHODE_NAMES]
-        if len(part.pins) != 2 or len(anodes) != 1 or len(cathodes) != 1:
+        """(anode, cathode) of an LED, or None when its pin names do not say (cached)."""
+        return self._led_pins(ref)
+
+    def _find_led_pins(self, ref: str) -> tuple[Pin, Pin] | None:
+        pins = self.circuit.parts[ref].pins
+        if len(pins) != 2:
             return None
-        return anodes[0], cathodes[0]
+        first, second = pins
+        one, other = first.name.casefold(), second.name.casefold()
+        if one in LED_ANODE_NAMES and other in LED_CATHODE_NAMES:
+            return first, second
+        if other in LED_ANODE_NAMES and one in LED_CATHODE_NAMES:
+            return second, first
+        return None  # (the two name sets share no name)
 
     def transistor_pins(self, ref: str) -> dict[str, Pin] | None:
         """``{"c": …, "b": …, "e": …}`` (drain, gate, source for a MOSFET), or None (cached)."""

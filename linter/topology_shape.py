@@ -11,6 +11,7 @@ reason :func:`find_bank` gives.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import NamedTuple
 
 from linter.topology_index import CircuitIndex
 from linter.topology_walk import Chain
@@ -22,12 +23,11 @@ class NotABank(ValueError):
     """The chains do not form a bank; ``str()`` says why, in words for the report."""
 
 
-@dataclass(frozen=True)
-class Strand:
+class Strand(NamedTuple):
     """A chain turned so that its LEDs point from ``chain.nets[0]`` to ``chain.nets[-1]``.
 
     ``leds`` run from anode end to cathode end; ``resistors`` are the chain's resistors in
-    the same order (links are not resistors).
+    the same order (links are not resistors). A named tuple, as :class:`Chain` is.
     """
 
     chain: Chain
@@ -84,8 +84,9 @@ def _led_direction(index: CircuitIndex, chain: Chain, position: int) -> int:
 
 def orient(index: CircuitIndex, chain: Chain) -> Strand:
     """The chain as a :class:`Strand`, turned so that its LEDs point along it."""
-    directions = {chain.parts[i]: _led_direction(index, chain, i)
-                  for i in range(len(chain.parts)) if index.kind(chain.parts[i]) == "led"}
+    kind = index.kind
+    directions = {ref: _led_direction(index, chain, i)
+                  for i, ref in enumerate(chain.parts) if kind(ref) == "led"}
     if len(set(directions.values())) > 1:
         forward = [ref for ref, way in directions.items() if way > 0]
         backward = [ref for ref, way in directions.items() if way < 0]
@@ -93,8 +94,8 @@ def orient(index: CircuitIndex, chain: Chain) -> Strand:
                        f"in one series path")
     if directions and next(iter(directions.values())) < 0:
         chain = Chain(tuple(reversed(chain.parts)), tuple(reversed(chain.nets)))
-    leds = tuple(ref for ref in chain.parts if ref in directions)
-    resistors = tuple(ref for ref in chain.parts if index.kind(ref) == "resistor")
+    leds = tuple([ref for ref in chain.parts if ref in directions])
+    resistors = tuple([ref for ref in chain.parts if kind(ref) == "resistor"])
     return Strand(chain, leds, resistors)
 
 
