@@ -27,7 +27,7 @@ from linter.netbuild import GroupModel, ModelGap, build_model
 from linter.partdata import Ambient, PartDataMap, Rail
 from linter.reduce import group_result
 from linter.reduce_bucket import bucket_results
-from linter.group_key import GroupNames, group_key
+from linter.group_key import DataKeys, GroupNames, group_key
 from linter.result_rename import renamed
 from linter.results import GroupResult
 from linter.solve_memo import representatives
@@ -238,9 +238,10 @@ def analyse(groups: Iterable[Group], circuit: Circuit, part_data: PartDataMap,
     with _gc_paused():
         with _stage("build"):
             templates: dict[tuple, tuple[int, GroupNames, GroupModel | None]] = {}
+            data_keys = DataKeys()
             for index, group in enumerate(groups):
                 if memoise:
-                    key, names = group_key(group, circuit, part_data, rails)
+                    key, names = group_key(group, circuit, part_data, rails, data_keys)
                     template = templates.get(key)
                     if template is not None and template[2] is not None:
                         followers.append((index, template[0], names))

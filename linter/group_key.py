@@ -30,7 +30,7 @@ from linter.model import Circuit, Part
 from linter.netbuild import _ADDERS, supply_pin_names
 from linter.partdata import McuData, PartDataMap, Rail
 
-__all__ = ["GroupNames", "group_key"]
+__all__ = ["DataKeys", "GroupNames", "group_key"]
 
 GroupNames = tuple[tuple[str, ...], tuple[str, ...]]
 """A group's part references and plain net names, in their order in its key."""
@@ -44,8 +44,9 @@ _DATA_FIELDS: dict[type, tuple[str, ...]] = {}
 class _Encoder:
     """Numbers references and plain nets by first appearance."""
 
-    def __init__(self, rails: Mapping[str, Rail]) -> None:
+    def __init__(self, rails: Mapping[str, Rail], data_keys: "DataKeys") -> None:
         self.rails = rails
+        self.data = data_keys.key
         self.refs: dict[str, int] = {}
         self.nets: dict[str, int] = {}
 
@@ -72,6 +73,28 @@ class _Encoder:
         return found
 
 
+class DataKeys:
+    """:func:`_data_key` of each part data record met in one analysis, remembered by
+    identity; each record is kept (so that its id is not reused while this lives) and equal
+    keys are stored once."""
+
+    def __init__(self) -> None:
+        self.by_id: dict[int, Any] = {}
+        self.kept: list[Any] = []
+        self.interned: dict[Any, Any] = {}
+
+    def key(self, data: Any) -> Any:
+        found = self.by_id.get(id(data), _MISSING)
+        if found is _MISSING:
+            made = _data_key(data)
+            found = self.by_id[id(data)] = self.interned.setdefault(made, made)
+            self.kept.append(data)
+        return found
+
+
+_MISSING = object()
+
+
 def _data_key(data: Any) -> Any:
     """A part data record as a tuple of its fields but ``note``."""
     if data is None:
@@ -93,7 +116,7 @@ def _part_key(enc: _Encoder, part: Part | None, data: Any) -> tuple:
     model = part.model
     return (part.kind, part.value_si, part.part_number,
             tuple(model.params.items()) if model is not None else None,
-            tuple((p.name, enc.net(p.net)) for p in part.pins), _data_key(data))
+            tuple((p.name, enc.net(p.net)) for p in part.pins), enc.data(data))
 
 
 def _drive_key(enc: _Encoder, circuit: Circuit, part_data: PartDataMap, drive,
@@ -107,13 +130,17 @@ def _drive_key(enc: _Encoder, circuit: Circuit, part_data: PartDataMap, drive,
     names = supply_pin_names(mcu)
     supply = None if part is None else tuple(
         (p.name, enc.net(p.net)) for p in part.pins if p.name.casefold() in names)
-    return (enc.ref(drive.part), pin, enc.net(drive.net), _data_key(data), supply)
+    return (enc.ref(drive.part), pin, enc.net(drive.net), enc.data(data), supply)
 
 
 def group_key(group: Group, circuit: Circuit, part_data: PartDataMap,
-              rails: Mapping[str, Rail]) -> tuple[tuple, GroupNames]:
-    """(key, names): equal keys build models equal but for the names (see the module)."""
-    enc = _Encoder(rails)
+              rails: Mapping[str, Rail], data_keys: DataKeys | None = None
+              ) -> tuple[tuple, GroupNames]:
+    """(key, names): equal keys build models equal but for the names (see the module).
+
+    ``data_keys``, kept across the calls of one analysis, reads each part data record
+    once."""
+    enc = _Encoder(rails, DataKeys() if data_keys is None else data_keys)
     parts = circuit.parts
     for ref in group.parts:
         enc.ref(ref)

@@ -62,7 +62,9 @@ def _spans(values: np.ndarray, mask: np.ndarray, nominal: np.ndarray | None = No
 
 
 class _Namer:
-    """Describes one group's corners, each (scenario, row) once."""
+    """Describes one group's corners, each (scenario, row) once; equal mappings of the
+    group's corners (rails, vf bins, β levels, resistor levels) are one shared dict (corners
+    are read-only records)."""
 
     def __init__(self, model: GroupModel, codes: np.ndarray, corners: int,
                  ambient: Ambient) -> None:
@@ -72,6 +74,7 @@ class _Namer:
         self.axes = [(i, a.kind, a.name, rails.get(a.name) if a.kind == "rail" else None)
                      for i, a in enumerate(model.axes)]
         self.known: dict[int, Corner] = {}
+        self.mappings: dict[tuple, dict] = {}
 
     def __call__(self, flat_index: int) -> Corner:
         found = self.known.get(flat_index)
@@ -93,8 +96,10 @@ class _Namer:
                 out["rail"][name] = (LEVEL_NAMES["rail"][code], volts)
             else:
                 out[kind][name] = LEVEL_NAMES[kind][code]
-        return Corner(self.scenarios[s], out["rail"], temp, out["vf"], out["beta"],
-                      out["resistor"])
+        shared = self.mappings
+        rails, vf, beta, resistors = (shared.setdefault(tuple(m.items()), m) for m in (
+            out["rail"], out["vf"], out["beta"], out["resistor"]))
+        return Corner(self.scenarios[s], rails, temp, vf, beta, resistors)
 
 
 def _span(spans: _Spans, g: int, k: int, namer: _Namer) -> Span:

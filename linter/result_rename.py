@@ -39,28 +39,38 @@ class _Renamer:
     def __init__(self, refs: Mapping[str, str]) -> None:
         self.refs = refs
         self.corners: dict[int, Corner] = {}
+        self.mappings: dict[int, Mapping[str, str]] = {}
 
     def corner(self, corner: Corner | None) -> Corner | None:
         if corner is None:
             return None
         found = self.corners.get(id(corner))
         if found is None:
+            mapping = self.mapping
+            found = self.corners[id(corner)] = Corner(
+                corner.scenario, corner.rails, corner.ambient_c, mapping(corner.vf),
+                mapping(corner.beta), mapping(corner.resistors))
+        return found
+
+    def mapping(self, names: Mapping[str, str]) -> Mapping[str, str]:
+        """``names`` with its keys renamed; shared where the template's are (and the
+        template's own where it names nothing)."""
+        if not names:
+            return names
+        found = self.mappings.get(id(names))
+        if found is None:
             refs = self.refs
-            changes = {}
-            if corner.vf:
-                changes["vf"] = {refs[k]: v for k, v in corner.vf.items()}
-            if corner.beta:
-                changes["beta"] = {refs[k]: v for k, v in corner.beta.items()}
-            if corner.resistors:
-                changes["resistors"] = {refs[k]: v for k, v in corner.resistors.items()}
-            found = self.corners[id(corner)] = _clone(corner, changes)
+            found = self.mappings[id(names)] = {refs[k]: v for k, v in names.items()}
         return found
 
     def span(self, span: Span | None) -> Span | None:
-        if span is None or (span.at_min is None and span.at_max is None):
+        if span is None:
+            return None
+        low, high = span.at_min, span.at_max
+        if low is None and high is None:
             return span
-        return _clone(span, {"at_min": self.corner(span.at_min),
-                             "at_max": self.corner(span.at_max)})
+        corner = self.corner
+        return Span(span.nom, span.min, span.max, corner(low), corner(high))
 
     def led(self, x: LedResult) -> LedResult:
         return _clone(x, {"ref": self.refs[x.ref], "current": self.span(x.current),
