@@ -104,13 +104,20 @@ def _circuit(doc: Document) -> Circuit:
     leaves, flat.leaves = flat.leaves, []
     _release_instances(edif)
     del edif, forms
+    parts = _parts(leaves, refs, places, flat, net_names, doc)
+    nets = _nets(parts, chosen, net_names, flat, doc, ordered, places[len(refs):])
+    return Circuit(source=source, format="edif", parts=parts, nets=nets, design=design)
+
+
+def _parts(leaves: list[Leaf], refs: list[str], places: list[SourceLocation], flat: FlatDesign,
+           net_names: dict[int, str], doc: Document) -> dict[str, Part]:
+    """Parts by reference; each leaf is let go of once its part is made."""
     make = _PartMaker(flat, net_names, doc).part
     parts = {}
     for index, (ref, place) in enumerate(zip(refs, places)):
         parts[ref] = make(leaves[index], ref, place)
         leaves[index] = None  # type: ignore[call-overload]  # its instance record can go
-    nets = _nets(parts, chosen, net_names, flat, doc, ordered, places[len(refs):])
-    return Circuit(source=source, format="edif", parts=parts, nets=nets, design=design)
+    return parts
 
 
 def _release_instances(edif: EdifFile) -> None:
