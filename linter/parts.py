@@ -63,6 +63,7 @@ def resolve_part_data(circuit: Circuit, settings: "Settings") -> tuple[Circuit, 
     data: dict[str, PartData] = {}
     folded = folded_specs(settings.parts)
     leds: dict[tuple, tuple[LedData, str | None]] = {}
+    resistors: dict[tuple, tuple[ResistorData, str | None]] = {}
     for ref, part in circuit.parts.items():
         spec = find_spec(part, settings.parts, folded)
         if spec is not None:
@@ -70,18 +71,22 @@ def resolve_part_data(circuit: Circuit, settings: "Settings") -> tuple[Circuit, 
             if part.kind != spec.kind or part.part_number != number:
                 part = replace(part, kind=spec.kind, part_number=number)
                 parts[ref] = part
-        record = _record(part, spec, settings, leds)
+        record = _record(part, spec, settings, leds, resistors)
         if record is not None:
             data[ref] = record
     return replace(circuit, parts=parts), data
 
 
 def _record(part: Part, spec: PartSpec | None, settings: "Settings",
-            leds: dict[tuple, tuple[LedData, str | None]]) -> PartData | None:
+            leds: dict[tuple, tuple[LedData, str | None]],
+            resistors: dict[tuple, tuple[ResistorData, str | None]] | None = None,
+            ) -> PartData | None:
     if part.kind == "led":
         return _shared_led_data(part, spec, leds)
     if part.kind == "resistor":
-        return resistor_data(part, spec, settings.assume.resistor_tolerance)
+        if resistors is None:
+            return resistor_data(part, spec, settings.assume.resistor_tolerance)
+        return _shared_resistor_data(part, spec, settings.assume.resistor_tolerance, resistors)
     if part.kind in ("npn", "pnp"):
         return _bjt_data(part, spec)
     if part.kind in ("nmos", "pmos"):
@@ -101,6 +106,22 @@ def _shared_led_data(part: Part, spec: PartSpec | None,
     found = known.get(key)
     if found is None:
         record = led_data(part, spec)
+        known[key] = (record, record.note.removeprefix(f"{part.ref}: ") if record.note else None)
+        return record
+    record, note = found
+    return record if note is None else replace(record, note=f"{part.ref}: {note}")
+
+
+def _shared_resistor_data(part: Part, spec: PartSpec | None, default_tolerance: float,
+                          known: dict[tuple, tuple[ResistorData, str | None]]) -> ResistorData:
+    """:func:`resistor_data`, worked out once for every resistor with the same part data,
+    value and BOM facts (everything it reads but the reference, which only the note names)."""
+    properties = part.properties
+    key = (id(spec), part.value_si, part.value, part.part_number, properties.get("tolerance"),
+           properties.get("package"), properties.get("footprint"), properties.get("power"))
+    found = known.get(key)
+    if found is None:
+        record = resistor_data(part, spec, default_tolerance)
         known[key] = (record, record.note.removeprefix(f"{part.ref}: ") if record.note else None)
         return record
     record, note = found
