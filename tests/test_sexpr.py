@@ -16,7 +16,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from linter.errors import NetlistError
-from linter.readers.sexpr import MAX_DEPTH, parse
+from linter.readers.sexpr import MAX_DEPTH, Document, parse
 
 ROOT = Path(__file__).resolve().parent.parent
 EDIF_FIXTURES = sorted(p for p in ROOT.glob("fixtures/**/*.edif") if "bad" not in p.parts)
@@ -174,3 +174,23 @@ def test_nesting_at_the_limit_is_accepted():
     for _ in range(MAX_DEPTH - 1):
         node = node[0]
     assert node == []
+
+
+@settings(max_examples=200, deadline=None)
+@given(st.lists(st.sampled_from(["(", ")", "a", " ", "\n", "\r\n", "\r", '"x\ny"', "\t"]),
+                max_size=40),
+       st.data())
+def test_many_positions_at_once_are_the_single_positions(pieces, data):
+    # expected: Document.position, the one-offset lookup the syntax-error tests pin down
+    text = "".join(pieces)
+    doc = Document(text, "f", None, [])
+    offsets = data.draw(st.lists(st.integers(0, max(len(text) - 1, 0)), max_size=12))
+    assert doc.positions(offsets) == [doc.position(offset) for offset in offsets]
+
+
+def test_positions_on_one_long_line_look_only_between_offsets():
+    # a sweep that scanned back to the line start for every offset would take minutes here
+    text = "(a " * 2_000_000
+    offsets = list(range(0, len(text), 3))
+    positions = Document(text, "f", None, []).positions(offsets)
+    assert positions[-1] == (1, len(text) - 2)  # 1-based column of the last "("

@@ -137,10 +137,12 @@ def _release_instances(edif: EdifFile) -> None:
 
 def _locations(doc: Document, forms: list[list | int]) -> list[SourceLocation]:
     """Where each form starts, found in one pass over the document; one object a place."""
-    source, position = doc.source, doc.position
+    source = doc.source
     offsets = doc.offsets_of(forms)
-    known = {offset: SourceLocation(source, *position(offset)) for offset in offsets}
-    return [known[offset] for offset in offsets]  # a sheet placed twice: one location
+    distinct = list(dict.fromkeys(offsets))  # a sheet placed twice: one location
+    known = {offset: SourceLocation(source, line, column)
+             for offset, (line, column) in zip(distinct, doc.positions(distinct))}
+    return [known[offset] for offset in offsets]
 
 
 def _reference(leaf: Leaf) -> str | None:
