@@ -4,6 +4,10 @@
 identical structure into one batch, chooses the corners (:mod:`linter.corners`), solves every
 scenario at every corner of every group of a batch in one vectorised Newton run
 (:mod:`linter.batchsolve`) and reduces the rows to spans with the corner of each extreme.
+Work is done once per electrically distinct group: a group whose key
+(:mod:`linter.group_key`) repeats an earlier group's takes that result with its own names
+(:mod:`linter.result_rename`), and groups of a batch with equal solver inputs are solved once
+(:mod:`linter.solve_memo`).
 :func:`operating_point` solves one group at one named corner (for tests and for rules that
 need a particular point).
 """
@@ -27,7 +31,7 @@ from linter.netbuild import GroupModel, ModelGap, build_model
 from linter.partdata import Ambient, PartDataMap, Rail
 from linter.reduce import group_result
 from linter.reduce_bucket import bucket_results
-from linter.group_key import DataKeys, GroupNames, group_key
+from linter.group_key import DataKeys, group_key
 from linter.result_rename import renamed
 from linter.results import GroupResult
 from linter.solve_memo import representatives
@@ -232,49 +236,60 @@ def analyse(groups: Iterable[Group], circuit: Circuit, part_data: PartDataMap,
     groups = tuple(groups)
     STAGE_TIMES.clear()
     results: list[GroupResult | None] = [None] * len(groups)
-    buckets: dict[tuple, list[tuple[int, GroupModel]]] = {}
-    followers: list[tuple[int, int, GroupNames]] = []
-    rails = dict(rails)
     with _gc_paused():
         with _stage("build"):
-            templates: dict[tuple, tuple[int, GroupNames, GroupModel | None]] = {}
-            data_keys = DataKeys()
-            for index, group in enumerate(groups):
-                if memoise:
-                    key, names = group_key(group, circuit, part_data, rails, data_keys)
-                    template = templates.get(key)
-                    if template is not None and template[2] is not None:
-                        followers.append((index, template[0], names))
-                        continue
-                try:
-                    model = build_model(group, circuit, part_data, rails)
-                except ModelGap as exc:
-                    results[index] = GroupResult(group, "unsolved", reason=str(exc))
-                    model = None
-                if memoise and template is None:
-                    templates[key] = (index, names, model)
-                if model is not None:
-                    buckets.setdefault(model.signature, []).append((index, model))
-        for members in buckets.values():
+            work = _build(groups, circuit, part_data, dict(rails), results, memoise)
+        for members in work.buckets.values():
             solved = _solve_bucket([m for _, m in members], ambient, memoise=memoise)
             for (index, _), result in zip(members, solved):
                 results[index] = result
         with _stage("rename"):
-            _fill_followers(results, groups, followers, templates, buckets)
+            for index, template, refs in work.followers:
+                names, notes = work.templates[template]
+                results[index] = renamed(results[template], groups[index],  # type: ignore[arg-type]
+                                         dict(zip(names, refs)), notes)
     return tuple(r for r in results if r is not None)
 
 
-def _fill_followers(results: list, groups: tuple[Group, ...],
-                    followers: list[tuple[int, int, GroupNames]], templates: dict,
-                    buckets: dict) -> None:
-    """Each follower's result: its template's, with the follower's own names."""
-    if not followers:
-        return
-    known = {index: (names, model) for index, names, model in templates.values()}
-    for index, template, (refs, nets) in followers:
-        names, model = known[template]
-        results[index] = renamed(results[template], groups[index], dict(zip(names[0], refs)),
-                                 model.note_parts)
+@dataclass(frozen=True, eq=False)
+class _Work:
+    """What :func:`_build` leaves to solve: models by structure signature (with their
+    group's index); followers (index, template index, references in key order); per
+    template index, its references in key order and its model's note parts."""
+
+    buckets: dict[tuple, list[tuple[int, GroupModel]]]
+    followers: list[tuple[int, int, tuple[str, ...]]]
+    templates: dict[int, tuple[tuple[str, ...], tuple[tuple[str, str], ...]]]
+
+
+def _build(groups: tuple[Group, ...], circuit: Circuit, part_data: PartDataMap,
+           rails: dict[str, Rail], results: list, memoise: bool) -> _Work:
+    """Models of the groups to solve; with ``memoise``, a group whose key equals an earlier
+    modelled group's is a follower of it. A group that cannot be modelled gets its
+    ``unsolved`` result in ``results`` (its followers are then built each on its own)."""
+    work = _Work({}, [], {})
+    first: dict[tuple, tuple[int, tuple[str, ...]] | None] = {}
+    data_keys = DataKeys()
+    for index, group in enumerate(groups):
+        key: tuple | None = None
+        if memoise:
+            key, names = group_key(group, circuit, part_data, rails, data_keys)
+            template = first.get(key, ())
+            if template:
+                work.followers.append((index, template[0], names))
+                continue
+        try:
+            model = build_model(group, circuit, part_data, rails)
+        except ModelGap as exc:
+            results[index] = GroupResult(group, "unsolved", reason=str(exc))
+            if key is not None:
+                first.setdefault(key, None)
+            continue
+        if key is not None:
+            first[key] = (index, names)
+            work.templates[index] = (names, model.note_parts)
+        work.buckets.setdefault(model.signature, []).append((index, model))
+    return work
 
 
 def operating_point(group: Group, circuit: Circuit, part_data: PartDataMap,

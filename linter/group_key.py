@@ -30,10 +30,7 @@ from linter.model import Circuit, Part
 from linter.netbuild import _ADDERS, supply_pin_names
 from linter.partdata import McuData, PartDataMap, Rail
 
-__all__ = ["DataKeys", "GroupNames", "group_key"]
-
-GroupNames = tuple[tuple[str, ...], tuple[str, ...]]
-"""A group's part references and plain net names, in their order in its key."""
+__all__ = ["DataKeys", "group_key"]
 
 _JOINING = ("link", "inductor")
 """Kinds whose pins' nets are merged into one node."""
@@ -135,8 +132,9 @@ def _drive_key(enc: _Encoder, circuit: Circuit, part_data: PartDataMap, drive,
 
 def group_key(group: Group, circuit: Circuit, part_data: PartDataMap,
               rails: Mapping[str, Rail], data_keys: DataKeys | None = None
-              ) -> tuple[tuple, GroupNames]:
-    """(key, names): equal keys build models equal but for the names (see the module).
+              ) -> tuple[tuple, tuple[str, ...]]:
+    """(key, refs): equal keys build models equal but for the names (see the module);
+    ``refs`` the group's part references in their order in the key.
 
     ``data_keys``, kept across the calls of one analysis, reads each part data record
     once."""
@@ -161,4 +159,4 @@ def group_key(group: Group, circuit: Circuit, part_data: PartDataMap,
     key = (group.topology, setter_key, group.rails,
            tuple(tuple(enc.name(x) for x in s) for s in group.strings),
            tuple(inside), outside, drives, scenarios)
-    return key, (tuple(enc.refs), tuple(enc.nets))
+    return key, tuple(enc.refs)

@@ -10,7 +10,6 @@ scenario names and part numbers are in the key and stay as they are.
 
 from __future__ import annotations
 
-from dataclasses import replace
 from typing import Mapping
 
 from linter.corners import Corner

@@ -230,8 +230,8 @@ def test_group_key_ignores_names_only() -> None:
     groups, c, data, rails = _channels(2)
     data = _data(data, "D1", note="D1: from the settings")
     assert _key(groups, c, data, rails, 0) == _key(groups, c, data, rails, 1)
-    names = group_key(groups[1], c, data, rails)[1]
-    assert names[0][:2] == ("R1", "D1") and "A1" in names[1]
+    refs = group_key(groups[1], c, data, rails)[1]
+    assert refs[:2] == ("R1", "D1") and "U1" in refs
 
 
 def test_electrical_keys_see_every_solver_figure() -> None:
