@@ -10,7 +10,6 @@ reason :func:`find_bank` gives.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
 from typing import NamedTuple
 
 from linter.topology_index import CircuitIndex
@@ -43,9 +42,8 @@ class Strand(NamedTuple):
         return self.chain.nets[-1]
 
 
-@dataclass(frozen=True)
-class Bank:
-    """LED strings between two nets and the resistor chains that feed them.
+class Bank(NamedTuple):
+    """LED strings between two nets and the resistor chains that feed them (a named tuple).
 
     ``top`` is the terminal reached from the strings' anode net (for an anti-parallel bank:
     from the first string's anode net), ``bottom`` the one reached from the other net.

@@ -50,7 +50,7 @@ class Chain(NamedTuple):
     nets: tuple[str | None, ...]
 
 
-@dataclass
+@dataclass(slots=True)
 class Cluster:
     """What :func:`grow_cluster` found around one LED (mutable while it grows)."""
 
