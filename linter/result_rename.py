@@ -35,6 +35,11 @@ _SET = object.__setattr__
 
 
 class _Renamer:
+    """Renames one follower's records. The many small records (Corner, Span, LED, resistor
+    and pin results) are made by their constructors with every field passed (faster than a
+    generic copy); the tests compare every field with the plain path, so a field added to
+    one of them and not passed here fails there."""
+
     def __init__(self, refs: Mapping[str, str]) -> None:
         self.refs = refs
         self.corners: dict[int, Corner] = {}
@@ -72,13 +77,14 @@ class _Renamer:
         return Span(span.nom, span.min, span.max, corner(low), corner(high))
 
     def led(self, x: LedResult) -> LedResult:
-        return _clone(x, {"ref": self.refs[x.ref], "current": self.span(x.current),
-                          "vf": self.span(x.vf), "power": self.span(x.power),
-                          "reverse_at": self.corner(x.reverse_at)})
+        span = self.span
+        return LedResult(self.refs[x.ref], x.part_number, span(x.current), span(x.vf),
+                         span(x.power), x.lit_scenarios, x.reverse_v, self.corner(x.reverse_at),
+                         x.di_dvf, x.assumed)
 
     def resistor(self, x: ResistorResult) -> ResistorResult:
-        return _clone(x, {"ref": self.refs[x.ref], "current": self.span(x.current),
-                          "power": self.span(x.power)})
+        return ResistorResult(self.refs[x.ref], x.ohms, x.tolerance, self.span(x.current),
+                              self.span(x.power), x.rating_w, x.package)
 
     def transistor(self, x: TransistorResult) -> TransistorResult:
         return _clone(x, {"ref": self.refs[x.ref], "vce": self.span(x.vce),
@@ -87,7 +93,7 @@ class _Renamer:
                           "rail_min_at": self.corner(x.rail_min_at), "vgs": self.span(x.vgs)})
 
     def pin(self, x: PinResult, drive) -> PinResult:
-        return _clone(x, {"id": drive.id, "net": drive.net, "current": self.span(x.current)})
+        return PinResult(drive.id, drive.net, self.span(x.current), x.sourcing, x.current_max)
 
 
 def renamed(result: GroupResult, group: Group, refs: Mapping[str, str],
