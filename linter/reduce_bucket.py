@@ -152,8 +152,7 @@ def _led_table(b: _Bucket, probe: float) -> dict:
     columns = np.arange(count)
     shifted = current[:, first, b.c, columns] - current[:, first, 0, columns]
     table.update(count=count, rev=rev, rev_at=rev_at, di_dvf=(shifted / probe).tolist(),
-                 lit=[tuple(s.name for s, on in zip(b.first.group.scenarios, lit[:, i]) if on)
-                      for i in range(count)])
+                 lit=[np.flatnonzero(lit[:, i]).tolist() for i in range(count)])
     return table
 
 
@@ -196,10 +195,14 @@ def _rail_min_table(b: _Bucket) -> dict | None:
 
 
 def _leds(table: dict, g: int, model: GroupModel, namer: _Namer) -> tuple[LedResult, ...]:
+    """The LED records of group ``g``; the scenarios lit are named by the group's own
+    scenarios (the bucket shares which are lit, not their names)."""
     specs = [d for d in model.diodes if d.curve is not None]
+    names = namer.scenarios
     return tuple(LedResult(
         spec.ref, spec.part_number, _span(table["i"], g, i, namer),
-        _span(table["vf"], g, i, namer), _span(table["p"], g, i, namer), table["lit"][i],
+        _span(table["vf"], g, i, namer), _span(table["p"], g, i, namer),
+        tuple(names[s] for s in table["lit"][i]),
         table["rev"][g][i], namer(table["rev_at"][g][i]), table["di_dvf"][g][i],
         spec.curve.assumed) for i, spec in enumerate(specs))
 

@@ -158,3 +158,29 @@ def test_groups_of_the_same_shape_batch_and_keep_their_own_values() -> None:
     for result, ohms in zip(results, values):
         # Ohm's law with Vf near 2 V (lower at a few mA): each group keeps its own current
         assert result.leds[0].current.nom == pytest.approx(3.0 / ohms, rel=0.08)
+
+
+def test_scenario_names_are_each_groups_own() -> None:
+    # two bicolour LEDs on different pins: same structure, scenarios named after their own pins
+    # (expected: the scenario names given to each group here)
+    parts = [("U1", "mcu", {"VDD": "V5", "VSS": "GND", "PA4": "PA", "PA5": "PB",
+                            "PA6": "PC", "PA7": "PD"}, None)]
+    groups = []
+    for n, (a, b, na, nb) in enumerate((("PA4", "PA5", "PA", "PB"), ("PA6", "PA7", "PC", "PD"))):
+        r, d1, d2, m = f"R{n}", f"D{2 * n}", f"D{2 * n + 1}", f"M{n}"
+        parts += [(r, "resistor", {"1": na, "2": m}, 220.0),
+                  (d1, "led", {"A": m, "K": nb}, None), (d2, "led", {"A": nb, "K": m}, None)]
+        up, down = f"U1.{a}", f"U1.{b}"
+        groups.append(Group(
+            f"G-{d1}", "pin-bicolour", (d1, d2), ((d1,), (d2,)), ("U1", r, d1, d2),
+            (na, m, nb), (), r, (PinDrive("U1", a, na), PinDrive("U1", b, nb)),
+            (Scenario(f"{up} high", {up: "high", down: "low"}, (d1,)),
+             Scenario(f"{down} high", {up: "low", down: "high"}, (d2,)))))
+    data = {**{f"D{i}": RED for i in range(4)},
+            "U1": McuData(output_resistance=25.0, supply_pins=("VDD",))}
+    rails = {"V5": Rail("V5", 5.0, 4.75, 5.25), "GND": GND}
+    for memoise in (True, False):
+        first, second = analyse(groups, circuit(parts), data, rails, memoise=memoise)
+        assert first.led("D0").lit_scenarios == ("U1.PA4 high",)
+        assert second.led("D2").lit_scenarios == ("U1.PA6 high",)
+        assert second.led("D3").lit_scenarios == ("U1.PA7 high",)
