@@ -98,12 +98,12 @@ def _circuit(doc: Document) -> Circuit:
     refs = _part_refs(flat.leaves, doc)
     net_names, chosen = _net_names(flat, doc)
     ordered = sorted(chosen.items(), key=lambda item: item[1].order)
-    forms = [leaf.instance.form for leaf in flat.leaves]
-    places = _locations(doc, forms + [wire.net.form for _, wire in ordered])  # one pass
     design = edif.design.name.display if edif.design is not None else ""
     leaves, flat.leaves = flat.leaves, []
     _release_instances(edif)
-    del edif, forms
+    del edif
+    places = _locations(doc, [leaf.instance.form for leaf in leaves] +
+                        [wire.form for _, wire in ordered])  # one pass
     parts = _parts(leaves, refs, places, flat, net_names, doc)
     nets = _nets(parts, chosen, net_names, flat, doc, ordered, places[len(refs):])
     return Circuit(source=source, format="edif", parts=parts, nets=nets, design=design)
@@ -122,27 +122,33 @@ def _parts(leaves: list[Leaf], refs: list[str], places: list[SourceLocation], fl
 
 def _release_instances(edif: EdifFile) -> None:
     """Let go of the instance records everywhere but in the leaves, so that each goes as soon
-    as its part is made (a 100,000-part design holds tens of MB of them). Positions stay
-    known: a record's form is an offset or a list the document keeps in its index."""
+    as its part is made, and of the net records (the placed wires keep what is still needed):
+    a 100,000-part design holds tens of MB of them. Positions stay known: a record's form is
+    an offset or a list the document keeps in its index."""
     edif.doc.root = None
     for library in edif.libraries.values():
         for cell in library.cells.values():
             for view in cell.views.values():
-                if view.instances:
-                    view.instances = {}
+                if view.instances or view.nets:
+                    view.instances, view.nets = {}, []
                     contents = _child(view.form, "contents")
                     if contents is not None:
                         contents.clear()
 
 
 def _locations(doc: Document, forms: list[list | int]) -> list[SourceLocation]:
-    """Where each form starts, found in one pass over the document; one object a place."""
+    """Where each form starts, found in one sweep through the text; one object a place (a
+    sheet placed many times has its forms many times)."""
     source = doc.source
     offsets = doc.offsets_of(forms)
-    distinct = list(dict.fromkeys(offsets))  # a sheet placed twice: one location
-    known = {offset: SourceLocation(source, line, column)
-             for offset, (line, column) in zip(distinct, doc.positions(distinct))}
-    return [known[offset] for offset in offsets]
+    order = sorted(range(len(offsets)), key=offsets.__getitem__)
+    places: list[SourceLocation] = [None] * len(offsets)  # type: ignore[list-item]
+    previous, place = -1, None
+    for index, (line, column) in zip(order, doc.sweep(offsets[index] for index in order)):
+        if offsets[index] != previous:
+            previous, place = offsets[index], SourceLocation(source, line, column)
+        places[index] = place  # type: ignore[assignment]
+    return places
 
 
 def _reference(leaf: Leaf) -> str | None:
@@ -183,8 +189,8 @@ def _net_names(flat: FlatDesign, doc: Document) -> tuple[dict[int, str], dict[in
     for root, wire in sorted(chosen.items(), key=lambda item: item[1].order):
         name = wire.display if counts[wire.display] == 1 else wire.full_name
         if name in taken:
-            line, column = doc.position_of(taken[name].net.form)
-            raise doc.error(wire.net.form, f"two nets are both named '{name}' (the other at "
+            line, column = doc.position_of(taken[name].form)
+            raise doc.error(wire.form, f"two nets are both named '{name}' (the other at "
                                            f"{line}:{column})")
         taken[name] = wire
         names[root] = name
@@ -312,7 +318,7 @@ def _nets(parts: dict[str, Part], chosen: dict[int, NetWire], names: dict[int, s
         pins = joined[name]
         if len(pins) + outside[name] < 2:
             what = f"only one pin ({pins[0][0]}.{pins[0][1]})" if pins else "no pin"
-            raise doc.error(wire.net.form, f"net '{name}' joins {what}; a net must join "
+            raise doc.error(wire.form, f"net '{name}' joins {what}; a net must join "
                                            "at least two pins")
         nets[name] = Net(name, tuple(pins), place,
                          tuple(aliases.get(root, ())))

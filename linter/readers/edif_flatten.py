@@ -48,14 +48,15 @@ class Leaf:
 
 @dataclass(frozen=True, slots=True)
 class NetWire:
-    """One wire of a net as placed: its depth and order decide which name a merged net takes."""
+    """One wire of a net as placed: its depth and order decide which name a merged net takes;
+    ``form`` is the net's form (a list, or an offset), where messages and locations point."""
 
     node: int
     depth: int
     order: int
     display: str
     path_names: tuple[str, ...]
-    net: Net
+    form: list | int
 
     @property
     def full_name(self) -> str:
@@ -189,21 +190,22 @@ class _Flattener:
             for key, target in targets.items():
                 offsets[key] = at
                 at += self.pin_count(target.view)
-            links = self.links(cell, view, targets, offsets)
+            wires, pins = self.links(cell, view, targets, offsets)
             found = _Layout(sum(net.name.width for net in view.nets), tuple(offsets.values()),
-                            at, array("q", links[0::2]), array("q", links[1::2]))
+                            at, wires, pins)
             self.layouts[id(view)] = found
         return found
 
     def links(self, cell: Cell, view: View, targets: dict[str, _Target],
-              offsets: dict[str, int]) -> list[int]:
-        """Wire, pin, wire, pin... of :class:`_Layout`, in the order of the nets and their references.
+              offsets: dict[str, int]) -> tuple[array, array]:
+        """Wires and pins of :class:`_Layout`, in the order of the nets and their references.
 
         The common reference, one scalar port of an instance on a scalar net, is matched with
         plain lookups; anything else (and every reference that names something missing) takes
         :meth:`entry_pins`, which checks and refuses with a located message.
         """
-        links: list[int] = []
+        wires, pins = array("q"), array("q")
+        link_wire, link_pin = wires.append, pins.append
         folded: dict[str, str] = {}  # port names repeat on every instance of a cell
         first_wire = 0
         for net in view.nets:
@@ -217,9 +219,10 @@ class _Flattener:
                         number = target.ports.get(folded.get(port) or
                                                   folded.setdefault(port, port.casefold()))
                         if number is not None:
-                            links += (first_wire, offsets[key] + number)
+                            link_wire(first_wire)
+                            link_pin(offsets[key] + number)
                             continue
-                self.add_links(links, first_wire, PortRef(port, None, instance, net.form),
+                self.add_links(wires, pins, first_wire, PortRef(port, None, instance, net.form),
                                net, cell, view, targets, offsets)  # type: ignore[arg-type]
             for entry in net.joined:
                 if scalar and type(entry) is PortRef and entry.member is None \
@@ -229,19 +232,20 @@ class _Flattener:
                     if target is not None:
                         number = target.ports.get(entry.port.casefold())
                         if number is not None:
-                            links += (first_wire, offsets[key] + number)
+                            link_wire(first_wire)
+                            link_pin(offsets[key] + number)
                             continue
-                self.add_links(links, first_wire, entry, net, cell, view, targets, offsets)
+                self.add_links(wires, pins, first_wire, entry, net, cell, view, targets, offsets)
             first_wire += net.name.width
-        return links
+        return wires, pins
 
-    def add_links(self, links: list[int], first_wire: int, entry: PortRef | tuple[PortRef, ...],
-                  net: Net, cell: Cell, view: View, targets: dict[str, _Target],
-                  offsets: dict[str, int]) -> None:
-        """Wire, pin... of one reference (checked: a missing name is refused, located)."""
-        pins = self.entry_pins(entry, net, cell, view, targets)
-        for wire, (inst, port, pin) in enumerate(pins):
-            links += (first_wire + wire, self.pin_number(inst, port, pin, view, targets, offsets))
+    def add_links(self, wires: array, pins: array, first_wire: int,
+                  entry: PortRef | tuple[PortRef, ...], net: Net, cell: Cell, view: View,
+                  targets: dict[str, _Target], offsets: dict[str, int]) -> None:
+        """Wires and pins of one reference (checked: a missing name is refused, located)."""
+        for wire, (inst, port, pin) in enumerate(self.entry_pins(entry, net, cell, view, targets)):
+            wires.append(first_wire + wire)
+            pins.append(self.pin_number(inst, port, pin, view, targets, offsets))
 
     def offsets_of(self, view: View) -> dict[str, int]:
         found = self.port_offsets.get(id(view))
@@ -363,7 +367,7 @@ class _Flattener:
             name = net.name
             for wire in range(name.width):
                 display = name.display if not name.dims else member_display(name, wire)
-                wires.append(NetWire(node, depth, len(wires), display, names, net))
+                wires.append(NetWire(node, depth, len(wires), display, names, net.form))
                 node += 1
         self.allocate(node - first)
         return first

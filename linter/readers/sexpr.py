@@ -188,22 +188,28 @@ class Document:
         return line, offset - self._line_starts[line - 1] + 1
 
     def positions(self, offsets: Sequence[int]) -> list[tuple[int, int]]:
-        """:meth:`position` of many offsets: a sweep through the text in offset order that
-        counts line ends between them, when every line ends with LF (else one by one)."""
+        """:meth:`position` of many offsets, in one :meth:`sweep`."""
+        order = sorted(range(len(offsets)), key=offsets.__getitem__)
+        found: list[tuple[int, int]] = [(0, 0)] * len(offsets)
+        for index, place in zip(order, self.sweep(offsets[index] for index in order)):
+            found[index] = place
+        return found
+
+    def sweep(self, ascending: Iterable[int]) -> Iterator[tuple[int, int]]:
+        """:meth:`position` of offsets given in ascending order: when every line ends with LF,
+        one pass that counts the line ends between two offsets (else one lookup each)."""
         text = self.text
         if "\n" not in text and "\r" in text:  # old-Mac line ends: CRs outside strings
-            return [self.position(offset) for offset in offsets]
-        found: list[tuple[int, int]] = [(0, 0)] * len(offsets)
+            yield from map(self.position, ascending)
+            return
         line, at, start, count, last = 1, 0, 0, text.count, text.rfind
-        for index in sorted(range(len(offsets)), key=offsets.__getitem__):
-            offset = offsets[index]
+        for offset in ascending:
             ends = count("\n", at, offset)
             if ends:  # (only the text between two offsets is looked at)
                 line += ends
                 start = last("\n", at, offset) + 1
             at = offset
-            found[index] = (line, offset - start + 1)
-        return found
+            yield line, offset - start + 1
 
     def position_of(self, node: list | int) -> tuple[int, int]:
         """1-based (line, column) of the ``(`` that opens ``node``."""
