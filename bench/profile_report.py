@@ -62,7 +62,8 @@ def _write_report(reporter, result, to: str) -> int:
 
     with tempfile.TemporaryDirectory() as folder:
         path = Path(folder) / "report.out"
-        write_atomically(path, report_chunks(reporter, [result]))
+        pieces = report_chunks(reporter, [result])
+        write_atomically(path, pieces if not isinstance(pieces, list) else "".join(pieces))
         return path.stat().st_size
 
 
@@ -74,6 +75,7 @@ def main(argv: Sequence[str] | None = None) -> int:
     parser.add_argument("--verbose", action="store_true", help="text: a table per group")
     parser.add_argument("--to", default="file", choices=("file", "null"))
     parser.add_argument("--profile", type=int, default=0, metavar="N")
+    parser.add_argument("--sort", default="cumulative", help="pstats sort key (tottime, ...)")
     args = parser.parse_args(argv)
 
     from linter.engine import CheckRequest, run_check
@@ -101,7 +103,7 @@ def main(argv: Sequence[str] | None = None) -> int:
     print(f"peak        before {before:8.1f} MiB  after {after:8.1f} MiB  "
           f"(+{after - before:.1f} MiB)")
     if profiler is not None:
-        pstats.Stats(profiler).sort_stats("cumulative").print_stats(args.profile)
+        pstats.Stats(profiler).sort_stats(args.sort).print_stats(args.profile)
     return 0
 
 

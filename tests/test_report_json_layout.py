@@ -222,3 +222,19 @@ def test_combined_report_holds_the_plain_data(monkeypatch: pytest.MonkeyPatch) -
     group_lines = [line for line in text.splitlines() if line.startswith('        {"id": "G-')]
     assert len(group_lines) == sum(len(outcome.result.groups) for outcome in outcomes
                                    if outcome.readable) > 0
+
+
+_raw_scalars = st.one_of(_scalars, st.floats(), st.builds(np.float64, st.floats()),
+                         st.builds(np.int64, st.integers(-2**62, 2**62)),
+                         st.builds(np.bool_, st.booleans()))
+_raw = st.recursive(_raw_scalars, lambda inner: st.one_of(
+    st.lists(inner, max_size=4), st.lists(inner, max_size=4).map(tuple),
+    st.dictionaries(st.text(), inner, max_size=4)), max_leaves=30)
+
+
+@given(_raw)
+def test_plain_json_is_the_plain_path(data) -> None:
+    from linter.report.json_layout import plain_json
+
+    # expected: the plain path, plain_data then the standard library's encoder
+    assert plain_json(data) == compact_json(plain_data(data))

@@ -24,7 +24,7 @@ from linter.gc_pause import paused_gc
 from linter.report.common import (finding_location, ordered_findings, plain_data,
                                   severity_counts, sorted_groups, sorted_records)
 from linter.report.json_groups import group_line
-from linter.report.json_layout import Lines, compact_json, layered_chunks
+from linter.report.json_layout import Lines, layered_chunks, plain_json
 from linter.report.stream import StreamingReporter
 
 if TYPE_CHECKING:
@@ -112,7 +112,7 @@ def _group_lines(groups: Iterable[Any]) -> Iterator[str]:
 
 def _finding_lines(result: "CheckResult") -> Iterator[str]:
     for finding in ordered_findings(result.findings):
-        yield compact_json(plain_data(_finding_dict(finding, result.circuit)))
+        yield plain_json(_finding_dict(finding, result.circuit))
 
 
 def report_layout(result: "CheckResult",

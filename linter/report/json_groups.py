@@ -60,8 +60,11 @@ def _mapping(mapping: Any) -> str:
 
 
 def _span(span: Span) -> str:
-    return ('{"nom": ' + _value(span.nom) + ', "min": ' + _value(span.min)
-            + ', "max": ' + _value(span.max) + "}")
+    nom, low, high = span.nom, span.min, span.max
+    if (type(nom) is float and type(low) is float and type(high) is float
+            and _ISFINITE(nom + low + high)):  # all three finite (a huge sum only goes slow)
+        return f'{{"nom": {nom!r}, "min": {low!r}, "max": {high!r}}}'
+    return '{"nom": ' + _value(nom) + ', "min": ' + _value(low) + ', "max": ' + _value(high) + "}"
 
 
 class CornerTexts:

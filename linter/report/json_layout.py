@@ -19,7 +19,7 @@ import math
 from dataclasses import dataclass
 from typing import Any, Iterable, Iterator
 
-__all__ = ["Lines", "INDENT", "layered_chunks", "compact_json"]
+__all__ = ["Lines", "INDENT", "layered_chunks", "compact_json", "plain_json"]
 
 INDENT = "  "
 """One level of indentation."""
@@ -31,6 +31,28 @@ def compact_json(data: Any) -> str:
     """Plain data as one line: the C encoder (``json.dumps`` without indent), default
     separators ``", "`` and ``": "``, non-ASCII kept, NaN and infinity refused."""
     return json.dumps(data, ensure_ascii=False, allow_nan=False)
+
+
+def _plain_default(value: Any) -> Any:
+    from linter.report.common import plain_data
+
+    return plain_data(value)
+
+
+_RAW_ENCODER = json.JSONEncoder(ensure_ascii=False, allow_nan=False, default=_plain_default)
+
+
+def plain_json(data: Any) -> str:
+    """``compact_json(plain_data(data))`` without copying ``data`` first: the C encoder
+    writes tuples as lists and asks :func:`~linter.report.common.plain_data` for any other
+    type; a number that is not finite (null in plain data) sends the record the plain way.
+    For records whose keys are text (plain data turns other keys into text)."""
+    try:
+        return _RAW_ENCODER.encode(data)
+    except ValueError:
+        from linter.report.common import plain_data
+
+        return compact_json(plain_data(data))
 
 
 @dataclass(frozen=True)
