@@ -234,12 +234,14 @@ class _PartMaker:
         self.values: dict[tuple[str, str | None], tuple[float | None, str]] = {}
         self.pins: dict[tuple[str, str | None], Pin] = {}
         self.names: dict[int, tuple[str, ...]] = {}
+        self.kept: list[object] = []  # what the ids above name, kept alive: ids stay unique
 
     def part(self, leaf: Leaf, ref: str, location: SourceLocation) -> Part:
         key = (id(leaf.cell), id(leaf.view), id(leaf.instance.properties))
         fields = self.fields.get(key)
-        if fields is None:  # the objects stay alive as long as the leaves: ids are stable
+        if fields is None:
             fields = self.fields[key] = _fields(leaf)
+            self.kept += (leaf.cell, leaf.view, leaf.instance.properties)
         value, cell = fields.value, leaf.cell.name.display
         kind = infer_kind(ref, value, fields.part_number, fields.description, fields.package,
                           cell)
@@ -257,6 +259,7 @@ class _PartMaker:
         names = self.names.get(id(leaf.view))
         if names is None:
             names = self.names[id(leaf.view)] = tuple(name for _, _, name in pin_names(leaf.view))
+            self.kept.append(leaf.view)
         parent, net_names, known = self.flat.parent, self.net_names, self.pins
         pins = []
         for node, name in enumerate(names, leaf.pins):
