@@ -22,7 +22,7 @@ from typing import Any, Callable, Iterator, Mapping, Sequence
 from linter.netbuild import ModelGap, build_model
 from linter.results import GroupResult
 
-__all__ = ["Overlay", "solve_variants", "solve_resistor_values", "SeriesWalk",
+__all__ = ["Overlay", "solve_variants", "solve_circuits", "solve_resistor_values", "SeriesWalk",
            "FIRST_WINDOW", "MAX_WINDOW"]
 
 FIRST_WINDOW = (4, 24)
@@ -86,23 +86,64 @@ def solve_variants(context: Any, result: GroupResult, variants: Sequence[Variant
     a model that cannot be built is ``unsolved`` with the reason, as the analysis reports it.
     """
     answers: list[GroupResult | None] = [None] * len(variants)
-    buckets: dict[tuple, list[tuple[int, Any]]] = {}
+    models: list[tuple[int, Any]] = []
     group = result.group
     for index, (data, rails) in enumerate(variants):
         rail_map = dict(context.rails)
         rail_map.update(rails)
         try:
-            model = build_model(group, context.circuit, Overlay(context.part_data, data),
-                                rail_map)
+            models.append((index, build_model(group, context.circuit,
+                                              Overlay(context.part_data, data), rail_map)))
         except ModelGap as exc:
             answers[index] = GroupResult(group, "unsolved", reason=str(exc))
-            continue
+    _solve_buckets(models, answers, context.settings.ambient)
+    return [answer for answer in answers if answer is not None]
+
+
+def _solve_buckets(models: list[tuple[int, Any]], answers: list, ambient: Any) -> None:
+    """``answers[i]`` for each (i, model): same-structure models solved in one batch each."""
+    buckets: dict[tuple, list[tuple[int, Any]]] = {}
+    for index, model in models:
         buckets.setdefault(model.signature, []).append((index, model))
     for members in buckets.values():
-        solved = _solve_models([model for _, model in members], context.settings.ambient)
+        solved = _solve_models([model for _, model in members], ambient)
         for (index, _), answer in zip(members, solved):
             answers[index] = answer
-    return [answer for answer in answers if answer is not None]
+
+
+def solve_circuits(context: Any, problems: Sequence[tuple[Any, Mapping[str, Any]]]
+                   ) -> list[tuple[GroupResult, ...]]:
+    """The LED groups of each edited (sub-)circuit found and solved, as
+    :func:`linter.fix_search.resolve_circuit` gives them one circuit at a time; the models
+    of every circuit are solved together, one batch per structure.
+
+    ``problems`` holds (circuit, part data changes by reference) pairs.
+    """
+    from linter.topology import find_groups
+
+    known = context.part_data
+    rails = dict(context.rails)
+    found: list[tuple[int, int]] = []      # (problem, group) of each answer slot
+    answers: list[GroupResult | None] = []
+    models: list[tuple[int, Any]] = []
+    for number, (circuit, changes) in enumerate(problems):
+        data = {ref: known[ref] for ref in circuit.parts if ref in known}
+        data.update(changes)
+        for group in find_groups(circuit, context.rails, data):
+            slot = len(answers)
+            found.append((number, slot))
+            answers.append(None)
+            try:
+                models.append((slot, build_model(group, circuit, data, rails)))
+            except ModelGap as exc:
+                answers[slot] = GroupResult(group, "unsolved", reason=str(exc))
+    _solve_buckets(models, answers, context.settings.ambient)
+    grouped: list[list[GroupResult]] = [[] for _ in problems]
+    for number, slot in found:
+        answer = answers[slot]
+        if answer is not None:
+            grouped[number].append(answer)
+    return [tuple(answers_of) for answers_of in grouped]
 
 
 def solve_resistor_values(context: Any, result: GroupResult, ref: str,

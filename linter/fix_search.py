@@ -26,7 +26,8 @@ from linter.results import GroupResult
 __all__ = ["DEFAULT_TOLERANCE", "resolve", "with_resistor", "led_currents",
            "resistor_for_max", "resistor_for_min", "rail_for_min", "sub_circuit",
            "resolve_circuit", "resistor_record", "tolerance_of", "split_resistor",
-           "signature", "remembered", "resistor_walk", "forget_board"]
+           "signature", "remembered", "resistor_walk", "forget_board", "is_remembered",
+           "remember", "ASK"]
 
 DEFAULT_TOLERANCE = 0.05
 """Resistor tolerance (fraction) when the part data gives none (DESIGN.md: else 5 %)."""
@@ -322,21 +323,39 @@ def signature(context: Any, result: GroupResult, question: Any) -> bytes | None:
     return hashlib.sha256(f"{text}|{ranks}".encode("utf-8", "surrogatepass")).digest()
 
 
+ASK = object()
+"""Default of :func:`remembered`'s ``key``: work the signature out."""
+
+
 def remembered(context: Any, result: GroupResult, question: Any,
-               search: Callable[[], Any]) -> Any:
+               search: Callable[[], Any], key: Any = ASK) -> Any:
     """``search()``, or its answer to the same :func:`signature` asked before.
 
     The answer must hold no names (numbers, a ResistorChoice): it is handed to every
     identical channel. An exception is not remembered (the search runs again next time).
+    ``key`` is the signature when the caller has it already (None: not to be remembered).
     """
-    key = signature(context, result, question)
+    if key is ASK:
+        key = signature(context, result, question)
     if key is None:
         return search()
     if key in _ANSWERS:
         _ANSWERS.move_to_end(key)
         return _ANSWERS[key]
     answer = search()
+    remember(key, answer)
+    return answer
+
+
+def is_remembered(key: bytes | None) -> bool:
+    """True when an answer to the :func:`signature` ``key`` is kept."""
+    return key is not None and key in _ANSWERS
+
+
+def remember(key: bytes, answer: Any) -> None:
+    """Keep ``answer`` (no names in it) for the :func:`signature` ``key``; the caller found
+    it as the search itself would (e.g. solved in one batch with other searches')."""
     _ANSWERS[key] = answer
+    _ANSWERS.move_to_end(key)
     if len(_ANSWERS) > _MEMO_SIZE:
         _ANSWERS.popitem(last=False)
-    return answer

@@ -5,6 +5,7 @@ from __future__ import annotations
 from typing import Any, Iterable
 
 from linter import eseries, fix_search
+from linter.fix_batch import solve_circuits
 from linter.findings import Finding
 from linter.fixes import per_led_resistors
 from linter.refs import natural_key, natural_sorted
@@ -61,11 +62,14 @@ class SharedBallast(Rule):
     default_severity = "error"
 
     def check(self, context: Any) -> Iterable[Finding]:
-        for result in solved_groups(context):
-            if result.group.topology == "parallel" and len(result.group.strings) > 1:
-                yield self._finding(context, result)
+        results = [result for result in solved_groups(context)
+                   if result.group.topology == "parallel" and len(result.group.strings) > 1]
+        keys = _solve_first_splits(context, results)
+        for result in results:
+            yield self._finding(context, result, keys.get(id(result), fix_search.ASK))
 
-    def _finding(self, context: Any, result: GroupResult) -> Finding:
+    def _finding(self, context: Any, result: GroupResult, key: Any = fix_search.ASK) -> Finding:
+        """``key``: the fix search's signature for the first resistor tried, when known."""
         group = result.group
         # natural order first, currents compared to the nanoampere: among equal LEDs the
         # lowest reference is quoted, whatever the order of the netlist
@@ -73,8 +77,7 @@ class SharedBallast(Rule):
                       key=lambda x: round(x.current.max * 1e9))
         shared = group.setter or "one part"
         count = len(group.strings)
-        share = sum(x.current.nom for x in result.leds if x.ref in
-                    {s[0] for s in group.strings}) / count
+        share = _share(result)
         values = {"count": float(count), "share_nom_a": share,
                   "hottest_current_max_a": hottest.current.max}
         where = at_corner(hottest.current.at_max, result, (hottest.ref,))
@@ -87,7 +90,7 @@ class SharedBallast(Rule):
             text += f", {hottest.current.max / data.if_max:.1f}× its {amps(data.if_max)} maximum"
         text += f"; {amps(share)} each nominal"
         text += self._shared_part(result, shared, values)
-        fix = self._fix(context, result, share, values)
+        fix = self._fix(context, result, share, values, key)
         return Finding(rule=self.id, severity=context.severity(self), message=text,
                        parts=(shared, *leds) if group.setter else leds,
                        group=result.id, values=values, fix=fix)
@@ -107,34 +110,28 @@ class SharedBallast(Rule):
         return (f"; {shared} carries up to {amps(current.max)} and dissipates up to "
                 f"{watts(power.max)}")
 
-    def _fix(self, context: Any, result: GroupResult, share: float, values: dict) -> str | None:
+    def _fix(self, context: Any, result: GroupResult, share: float, values: dict,
+             key: Any = fix_search.ASK) -> str | None:
         shared = result.group.setter
         if shared is None:
             return None
         if shared in {r.ref for r in result.resistors}:
-            return self._per_led(context, result, shared, share, values)
+            return self._per_led(context, result, shared, share, values, key)
         return self._per_string_sink(result, shared, share)
 
     def _per_led(self, context: Any, result: GroupResult, shared: str, share: float,
-                 values: dict) -> str | None:
+                 values: dict, key: Any = fix_search.ASK) -> str | None:
         """One resistor per string: nominal current near the share, worst case under the
         LED's limit, confirmed by solving the split circuit."""
-        rail = group_rail(context, result)
-        string = result.group.strings[0]
-        leds = [result.led(ref) for ref in string]
-        tolerance = fix_search.tolerance_of(context, shared)
-        series = eseries.series_for_tolerance(tolerance)
-        if rail is None or share <= 0:
+        first = _first_split(context, result, shared, share)
+        if first is None:
             return None
-        start = per_led_resistors(len(result.group.strings), rail.nom,
-                                  sum(x.vf.nom for x in leds), share, series, 0.0)
-        if start is None:
-            return None
+        ohms_each, tolerance, series = first
         limits = [t for t in (target_current(context, x.ref) for x in result.leds) if t]
         limit = min(limits) if limits else None
-        ohms_each = start.choice.ohms
         for _ in range(MAX_FIX_STEPS):
-            currents = self._split_currents(context, result, shared, ohms_each, tolerance)
+            currents = self._split_currents(context, result, shared, ohms_each, tolerance, key)
+            key = fix_search.ASK  # the signature known ahead is the first value's only
             if currents is None:
                 return None
             if limit is None or currents[2] <= limit:
@@ -149,26 +146,99 @@ class SharedBallast(Rule):
 
     @staticmethod
     def _split_currents(context: Any, result: GroupResult, shared: str, ohms_each: float,
-                        tolerance: float) -> tuple[float, float, float] | None:
+                        tolerance: float, key: Any = fix_search.ASK
+                        ) -> tuple[float, float, float] | None:
         return fix_search.remembered(
-            context, result, ("shared-ballast split", shared, ohms_each, tolerance),
-            lambda: SharedBallast._solve_split(context, result, shared, ohms_each))
+            context, result, _split_question(shared, ohms_each, tolerance),
+            lambda: SharedBallast._solve_split(context, result, shared, ohms_each), key)
 
     @staticmethod
     def _solve_split(context: Any, result: GroupResult, shared: str, ohms_each: float
                      ) -> tuple[float, float, float] | None:
-        circuit, names = fix_search.split_resistor(context.circuit, result.group, shared,
-                                                   ohms_each)
-        data = {name: fix_search.resistor_record(context, shared, ohms_each)
-                for name in names.values()}
-        solved = fix_search.resolve_circuit(context, circuit, data)
-        if not solved or any(g.status != "solved" for g in solved):
-            return None
-        leds = [led for g in solved for led in g.leds]
-        return (max(x.current.nom for x in leds), min(x.current.min for x in leds),
-                max(x.current.max for x in leds))
+        circuit, data = _split_problem(context, result, shared, ohms_each)
+        return _split_figures(fix_search.resolve_circuit(context, circuit, data))
 
     @staticmethod
     def _per_string_sink(result: GroupResult, shared: str, share: float) -> str:
         return (f"give each of the {len(result.group.strings)} strings its own sink "
                 f"set to {amps(share)} in place of the shared {shared}")
+
+
+def _share(result: GroupResult) -> float:
+    """Each string's nominal share (A): the mean nominal current of the strings' first LEDs."""
+    group = result.group
+    firsts = {s[0] for s in group.strings}
+    return sum(x.current.nom for x in result.leds if x.ref in firsts) / len(group.strings)
+
+
+def _first_split(context: Any, result: GroupResult, shared: str, share: float
+                 ) -> tuple[float, float, str] | None:
+    """(first resistor each, Ω; tolerance; series) of the per-string search, or None when
+    there is no rail, no share or no value."""
+    rail = group_rail(context, result)
+    leds = [result.led(ref) for ref in result.group.strings[0]]
+    tolerance = fix_search.tolerance_of(context, shared)
+    series = eseries.series_for_tolerance(tolerance)
+    if rail is None or share <= 0:
+        return None
+    start = per_led_resistors(len(result.group.strings), rail.nom,
+                              sum(x.vf.nom for x in leds), share, series, 0.0)
+    return None if start is None else (start.choice.ohms, tolerance, series)
+
+
+def _split_question(shared: str, ohms_each: float, tolerance: float) -> tuple:
+    return ("shared-ballast split", shared, ohms_each, tolerance)
+
+
+def _split_problem(context: Any, result: GroupResult, shared: str, ohms_each: float
+                   ) -> tuple[Any, dict]:
+    """The split sub-circuit and the new resistors' part data."""
+    circuit, names = fix_search.split_resistor(context.circuit, result.group, shared, ohms_each)
+    return circuit, {name: fix_search.resistor_record(context, shared, ohms_each)
+                     for name in names.values()}
+
+
+def _split_figures(solved: tuple[GroupResult, ...]) -> tuple[float, float, float] | None:
+    """(highest nominal, lowest minimum, highest maximum) LED current (A) of the split
+    circuit, or None when a part of it is not solved."""
+    if not solved or any(g.status != "solved" for g in solved):
+        return None
+    leds = [led for g in solved for led in g.leds]
+    return (max(x.current.nom for x in leds), min(x.current.min for x in leds),
+            max(x.current.max for x in leds))
+
+
+def _solve_first_splits(context: Any, results: list[GroupResult]) -> dict[int, Any]:
+    """The first split of every group's search solved ahead, all in one batch per structure
+    (:func:`linter.fix_batch.solve_circuits`) and remembered as the search would remember
+    it; returns each group's signature for that first question, by ``id(result)``.
+
+    Only questions not remembered yet are solved, each once. Should any fail, nothing is
+    kept: the searches then solve one by one as before.
+    """
+    keys: dict[int, Any] = {}
+    pending: dict[bytes, tuple[GroupResult, str, float]] = {}
+    for result in results:
+        shared = result.group.setter
+        if shared is None or shared not in {r.ref for r in result.resistors}:
+            continue
+        first = _first_split(context, result, shared, _share(result))
+        if first is None:
+            continue
+        ohms_each, tolerance, _ = first
+        key = fix_search.signature(context, result, _split_question(shared, ohms_each,
+                                                                    tolerance))
+        keys[id(result)] = key
+        if key is not None and key not in pending and not fix_search.is_remembered(key):
+            pending[key] = (result, shared, ohms_each)
+    if len(pending) < 2:  # one alone gains nothing from a batch
+        return keys
+    try:
+        problems = [_split_problem(context, result, shared, ohms_each)
+                    for result, shared, ohms_each in pending.values()]
+        solved = solve_circuits(context, problems)
+    except Exception:  # noqa: BLE001 - the plain searches meet (and report) it themselves
+        return keys
+    for key, groups in zip(pending, solved):
+        fix_search.remember(key, _split_figures(groups))
+    return keys

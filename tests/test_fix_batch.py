@@ -8,6 +8,7 @@ demo board (EDIF and SPICE) and of the rule fixtures that carry a resistor.
 
 from __future__ import annotations
 
+import sys
 from dataclasses import replace
 from pathlib import Path
 
@@ -156,3 +157,70 @@ def test_a_failing_value_solved_ahead_does_not_fail_the_value_asked():
 
     with pytest.raises(FloatingPointError):  # the value asked fails alone too: as before
         SeriesWalk(never, up=lambda r: r * 2, down=lambda r: r / 2)(5.0)
+
+
+def _parallel_cases():
+    cases = []
+    for netlist, bom in BOARDS:
+        if not netlist.exists():
+            continue
+        context = _context(netlist, bom)
+        for result in solved_groups(context):
+            if (result.group.topology == "parallel" and len(result.group.strings) > 1
+                    and result.group.setter in {r.ref for r in result.resistors}):
+                cases.append((context, result))
+    return cases
+
+
+def test_split_circuits_solved_together_equal_one_at_a_time():
+    from linter.fix_batch import solve_circuits
+    from linter.rules.shared_ballast import _split_problem
+
+    cases = _parallel_cases()
+    assert cases
+    problems, plain = [], []
+    for context, result in cases:
+        ohms = result.resistor(result.group.setter).ohms
+        for each in (ohms, ohms * 3.9, ohms * 4.7):
+            circuit, data = _split_problem(context, result, result.group.setter, each)
+            problems.append((context, circuit, data))
+            plain.append(fix_search.resolve_circuit(context, circuit, data))
+    for context in {id(c): c for c, _, _ in problems}.values():
+        mine = [(i, p) for i, p in enumerate(problems) if p[0] is context]
+        together = solve_circuits(context, [(circuit, data) for _, circuit, data in
+                                            (p for _, p in mine)])
+        assert [repr(t) for t in together] == [repr(plain[i]) for i, _ in mine]
+
+
+@pytest.fixture(scope="module")
+def generated_board(tmp_path_factory):
+    """A 600-part generated board (bench/gen_board.py): several kinds of parallel channels,
+    each placed at least twice, so that the first splits are solved together."""
+    if str(ROOT) not in sys.path:
+        sys.path.insert(0, str(ROOT))
+    from bench.gen_board import generate, write_all
+
+    folder = tmp_path_factory.mktemp("board")
+    write_all(generate(600, 3), folder)
+    return _context(folder / "board.cir", folder / "bom.csv")
+
+
+def test_shared_ballast_findings_same_with_and_without_splits_solved_ahead(
+        monkeypatch, generated_board):
+    import linter.rules.shared_ballast as rule_module
+    from linter.rules import all_rules
+
+    context = generated_board
+    rule = all_rules()["shared-ballast"]()
+    batches: list[int] = []
+    solve = rule_module.solve_circuits
+    monkeypatch.setattr(rule_module, "solve_circuits",
+                        lambda c, problems: batches.append(len(problems)) or solve(c, problems))
+    fix_search._ANSWERS.clear()
+    ahead = [repr(f) for f in rule.check(context)]
+    assert batches and batches[0] >= 2  # several distinct first splits, solved in one call
+    fix_search._ANSWERS.clear()
+    monkeypatch.setattr(rule_module, "_solve_first_splits", lambda *args: {})
+    plain = [repr(f) for f in rule.check(context)]
+    assert ahead == plain
+    assert any("own resistor" in text for text in ahead)
