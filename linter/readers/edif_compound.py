@@ -21,6 +21,7 @@ the tree where its list would have been and is located by the offset of its ``(`
 from __future__ import annotations
 
 import re
+from itertools import chain
 
 from linter.readers.edif_syntax import Instance, Name, Net, PortRef, decode_string
 
@@ -123,9 +124,9 @@ class EdifCompounds:
             name = Name(ident.casefold(), ident[1:] if ident.startswith("&") else ident)
         else:
             name = Name(match.group(11).casefold(), decode_string(match.group(12)))
-        share = self._atoms.setdefault  # findall gives "" for a missing instance: None
-        pairs = tuple(share(text, text) or None
-                      for pair in _PAIR.findall(match.group(13)) for text in pair)
+        texts = list(chain.from_iterable(_PAIR.findall(match.group(13))))
+        share = self._atoms.setdefault  # one object for equal names (no Python call a name)
+        pairs = tuple(map(share, texts, texts))
         return Net(name, (), match.start(9), pairs)
 
     def _instance(self, match: re.Match[str]) -> Instance:

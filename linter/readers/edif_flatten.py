@@ -210,9 +210,9 @@ class _Flattener:
         first_wire = 0
         for net in view.nets:
             scalar = net.name.width == 1
-            pairs = iter(net.pairs)  # a net read whole: (port, instance) pairs
+            pairs = iter(net.pairs)  # a net read whole: (port, instance or '') pairs
             for port, instance in zip(pairs, pairs):
-                if instance is not None:
+                if instance:
                     key = instance.casefold()
                     target = targets.get(key)
                     if target is not None:
@@ -222,7 +222,7 @@ class _Flattener:
                             link_wire(first_wire)
                             link_pin(offsets[key] + number)
                             continue
-                self.add_links(wires, pins, first_wire, PortRef(port, None, instance, net.form),
+                self.add_links(wires, pins, first_wire, PortRef(port, None, instance or None, net.form),
                                net, cell, view, targets, offsets)  # type: ignore[arg-type]
             for entry in net.joined:
                 if scalar and type(entry) is PortRef and entry.member is None \

@@ -68,14 +68,14 @@ class Net:
     """A net (or net array); ``joined`` entries are port references or port lists.
 
     A net read whole (:mod:`linter.readers.edif_compound`) has its plain port references in
-    ``pairs`` instead, port and instance (None for a port of the cell itself) in turn, and
+    ``pairs`` instead, port and instance ('' for a port of the cell itself) in turn, and
     ``form`` is the offset of its ``(``.
     """
 
     name: Name
     joined: tuple[PortRef | tuple[PortRef, ...], ...]
-    form: list | int = field(repr=False)
-    pairs: tuple[str | None, ...] = ()
+    form: list | int = field(repr=False)  # the list, or the offset of a compound form
+    pairs: tuple[str, ...] = ()
 
 
 @dataclass(frozen=True, slots=True)
