@@ -90,8 +90,11 @@ def _solved_values(context: Any, result: GroupResult, ref: str) -> dict:
 
 
 def forget_board() -> None:
-    """Drop the solved values kept for the last groups searched (they hold their board)."""
+    """Drop the solved values kept for the last groups searched and the record texts of
+    the signatures (they hold their board)."""
     _WALKS.clear()
+    _TEXTS.clear()
+    _BOARD[:] = [None, None, ""]
 
 
 def resistor_walk(context: Any, result: GroupResult, ref: str, series: str) -> SeriesWalk:
@@ -287,6 +290,40 @@ def _data_record(ref: str, data: Any) -> Any:
     return data
 
 
+_TEXTS_KEPT = 4096
+"""Record texts kept (by the record's identity; records are frozen)."""
+
+_TEXTS: dict[int, tuple[Any, str]] = {}
+
+
+def _record_text(record: Any) -> str:
+    """``repr(record)``, written once per record object (part data is often shared)."""
+    if record is None:
+        return "None"
+    entry = _TEXTS.get(id(record))
+    if entry is not None and entry[0] is record:
+        return entry[1]
+    text = repr(record)
+    if len(_TEXTS) >= _TEXTS_KEPT:
+        _TEXTS.clear()
+    _TEXTS[id(record)] = (record, text)
+    return text
+
+
+def _board_text(context: Any) -> str:
+    """``repr(sorted rails), repr(ambient)`` of the board, written once per board."""
+    rails, settings, text = _BOARD
+    if rails is context.rails and settings is context.settings:
+        return text
+    text = f"{sorted(context.rails.items())!r}, {context.settings.ambient!r}"
+    _BOARD[:] = [context.rails, context.settings, text]
+    return text
+
+
+_BOARD: list = [None, None, ""]
+"""(rails, settings, their text) of the board last asked about."""
+
+
 def signature(context: Any, result: GroupResult, question: Any) -> bytes | None:
     """A digest of everything a fix search on ``result``'s group reads, names made neutral.
 
@@ -307,9 +344,12 @@ def signature(context: Any, result: GroupResult, question: Any) -> bytes | None:
     if any("'" in n or "\\" in n or "\n" in n for n in names):
         return None
     parts = [_part_record(context.circuit.parts[r]) for r in refs if r in context.circuit.parts]
-    data = [(r, _data_record(r, context.part_data.get(r))) for r in sorted(names)]
-    text = repr((replace(group, id=""), parts, question, data,
-                 sorted(context.rails.items()), context.settings.ambient))
+    data = ", ".join(f"({r!r}, {_record_text(_data_record(r, context.part_data.get(r)))})"
+                     for r in sorted(names))
+    # the text of repr((group, parts, question, data, rails, ambient)), records shared by
+    # many parts (and the board's rails) written once
+    text = (f"({replace(group, id='')!r}, {parts!r}, {question!r}, [{data}], "
+            f"{_board_text(context)})")
     order: dict[str, int] = {}
     pieces = _QUOTED.split(text)  # text, quoted name, text, quoted name, …, text
     for index in range(1, len(pieces), 2):
