@@ -151,18 +151,34 @@ def _locations(doc: Document, forms: list[list | int]) -> list[SourceLocation]:
     return places
 
 
-def _reference(leaf: Leaf) -> str | None:
-    if leaf.instance.designator:
-        return leaf.instance.designator
-    for name, value in leaf.instance.properties.items():
+def _property_reference(properties: dict[str, str]) -> str | None:
+    """The first non-blank property named like a reference designator, stripped."""
+    for name, value in properties.items():
         if _normal(name) in REFERENCE_KEYS and value.strip():
             return value.strip()
     return None
 
 
+def _candidates(leaves: list[Leaf]) -> list[str]:
+    """Each leaf's designator, else its reference property, else its instance name; the
+    properties are looked at once per distinct table (tables are shared between instances)."""
+    by_table: dict[int, str | None] = {}  # the leaves keep the tables alive: ids are unique
+    found = []
+    for leaf in leaves:
+        instance = leaf.instance
+        ref = instance.designator
+        if not ref:
+            table = instance.properties
+            ref = by_table.get(id(table), "")
+            if ref == "":
+                ref = by_table[id(table)] = _property_reference(table)
+        found.append(ref or instance.name.display)
+    return found
+
+
 def _part_refs(leaves: list[Leaf], doc: Document) -> list[str]:
     """References in leaf order: designator or leaf name where unique, else the instance path."""
-    candidates = [_reference(leaf) or leaf.names[-1] for leaf in leaves]
+    candidates = _candidates(leaves)
     counts = Counter(candidates)
     refs = [c if counts[c] == 1 else "/".join(leaf.names) for c, leaf in zip(candidates, leaves)]
     seen: dict[str, Leaf] = {}

@@ -108,15 +108,10 @@ class EdifCompounds:
         if which == 9:
             return self._net(match)
         instance = match.group(16)
-        return PortRef(self._atom(match.group(15)), None,
-                       instance if instance is None else self._atom(instance), match.start(14))
-
-    def _atom(self, text: str) -> str:
-        """One object for equal identifiers (port, cell, instance names repeat)."""
-        found = self._atoms.get(text)
-        if found is None:
-            found = self._atoms[text] = text
-        return found
+        port, share = match.group(15), self._atoms.setdefault
+        return PortRef(share(port, port), None,
+                       instance if instance is None else share(instance, instance),
+                       match.start(14))
 
     def _net(self, match: re.Match[str]) -> Net:
         ident = match.group(10)
@@ -130,16 +125,16 @@ class EdifCompounds:
         return Net(name, (), match.start(9), pairs)
 
     def _instance(self, match: re.Match[str]) -> Instance:
-        ident = match.group(2)
+        ident, share = match.group(2), self._atoms.setdefault
         if ident is not None:
-            ident = self._atom(ident)
+            ident = share(ident, ident)
             name = Name(ident.casefold(), ident[1:] if ident.startswith("&") else ident)
         else:
             name = Name(match.group(3).casefold(), decode_string(match.group(4)))
         designator, properties = self._properties(match.group(8))
-        library, atom = match.group(7), self._atom
-        return Instance(name, library if library is None else atom(library),
-                        atom(match.group(6)), atom(match.group(5)), designator, properties,
+        library, cell, view = match.group(7, 6, 5)
+        return Instance(name, library if library is None else share(library, library),
+                        share(cell, cell), share(view, view), designator, properties,
                         match.start(1))
 
     def _properties(self, items: str) -> tuple[str | None, dict[str, str]]:
