@@ -130,8 +130,15 @@ def corner_phrase(corner: Corner | None, rails: Iterable[str] | None = None,
     if corner is None:
         return "an unknown corner"
     wanted = None if rails is None else set(rails)
-    parts = [f"{name} {level} ({v:g} V)" for name, (level, v) in corner.rails.items()
-             if wanted is None or name in wanted]
+    return _phrase([(name, level_v) for name, level_v in corner.rails.items()
+                    if wanted is None or name in wanted], corner, focus)
+
+
+def _phrase(rails: list[tuple[str, tuple[str, float]]], corner: Corner,
+            focus: Iterable[str]) -> str:
+    """The words of ``rails`` (name, (level, V)) in order, then ``corner``'s LED bins and
+    ambient."""
+    parts = [f"{name} {level} ({v:g} V)" for name, (level, v) in rails]
     vf = _vf_phrase(dict(corner.vf), focus)
     if vf:
         parts.append(vf)
@@ -146,11 +153,10 @@ def at_corner(corner: Corner | None, result: Any, focus: Iterable[str] = ()) -> 
     if corner is None:
         return corner_phrase(None)
     rail = getattr(result, "rail", None)
-    names = [rail] if rail in corner.rails else []
-    names += [n for n, (level, _) in corner.rails.items() if n != rail and level != "nom"]
-    ordered = Corner(corner.scenario, {n: corner.rails[n] for n in names}, corner.ambient_c,
-                     corner.vf)
-    return corner_phrase(ordered, None, focus)
+    rails = corner.rails
+    ordered = [(rail, rails[rail])] if rail in rails else []
+    ordered += [(n, level_v) for n, level_v in rails.items() if n != rail and level_v[0] != "nom"]
+    return _phrase(ordered, corner, focus)
 
 
 def say(ref: str, text: str) -> str:
