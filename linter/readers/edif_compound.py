@@ -1,21 +1,25 @@
-"""The two most frequent EDIF forms read whole, in one regex match each.
+"""The most frequent EDIF forms read whole, in one regex match each.
 
-A 100,000-part netlist is mostly ``instance`` forms (about 40 tokens each) and ``portRef``
-forms (six tokens each). :class:`EdifCompounds` gives :func:`linter.readers.sexpr.parse` a
-token pattern that matches the plain spelling of each of them as a single token and turns
-it straight into the record :mod:`linter.readers.edif_forms` would have made from its list:
+A 100,000-part netlist is mostly ``instance`` forms (about 40 tokens each) and ``net`` forms
+of ``portRef``s (six tokens each). :class:`EdifCompounds` gives
+:func:`linter.readers.sexpr.parse` a token pattern that matches the plain spelling of each of
+them as a single token and turns it straight into the record :mod:`linter.readers.edif_forms`
+would have made from its list, so that their lists never exist:
 
 * ``(instance NAME (viewRef V (cellRef C [(libraryRef L)])) ITEM...)`` where NAME is an
   identifier or ``(rename identifier "text")`` and each ITEM is
   ``(property NAME (string "text"))`` or ``(designator "text")``;
-* ``(portRef P [(instanceRef I)])``.
+* ``(net NAME (joined PORTREF...))``, its port references kept as name pairs
+  (:attr:`linter.readers.edif_syntax.Net.pairs`), not as records;
+* ``PORTREF``, that is ``(portRef P [(instanceRef I)])``, anywhere else.
 
 Any other spelling (a member, an array, a typed value other than one string, a comment, an
 unusual layout such as no space after a keyword) is not matched and is read token by token
-as before, so the records are the same either way; only what is matched is faster. Keywords
-match in any ASCII letter case, as the form reader's ``keyword`` does; identifiers are atoms
-that can only read as symbols (not starting with a digit, sign or point). A record stands in
-the tree where its list would have been and is located by the offset of its ``(``.
+as before, so the records are the same either way; only what is matched is faster and
+smaller. Keywords match in any ASCII letter case, as the form reader's ``keyword`` does;
+identifiers are atoms that can only read as symbols (not starting with a digit, sign or
+point). A record stands in the tree where its list would have been and is located by the
+offset of its ``(``.
 """
 
 from __future__ import annotations
@@ -62,6 +66,8 @@ _INSTANCE = _ws_form(
     rf"((?:(?:{_PROPERTY}|{_DESIGNATOR}){_W}*+)*+)")
 """Groups: 1 the form, 2 a plain name, 3 and 4 a renamed name and its text, 5 view, 6 cell,
 7 library (or None), 8 the properties and designators, as written."""
+
+
 def _port_ref(group: str) -> str:
     """(portRef P [(instanceRef I)]); ``group`` is "(" to capture P and I, or "(?:"."""
     return _ws_form(_kw("portRef"), f"{group}{_IDENT})",
