@@ -78,6 +78,13 @@ def find_groups(circuit: Circuit, rails: Mapping[str, Rail],
 def _groups(circuit: Circuit, rails: Mapping[str, Rail],
             part_data: Mapping[str, PartData]) -> tuple[Group, ...]:
     index = CircuitIndex(circuit, rails, part_data)
+    try:
+        return _groups_with(index, circuit)
+    finally:
+        index.release()  # (its caches would otherwise outlive it until a collection)
+
+
+def _groups_with(index: CircuitIndex, circuit: Circuit) -> tuple[Group, ...]:
     leds = [part.ref for part in circuit.leds()]
     order = {ref: position for position, ref in enumerate(leds)}  # netlist order of the LEDs
     placed: set[str] = set()

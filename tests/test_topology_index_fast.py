@@ -109,3 +109,16 @@ def test_kind_with_part_data_of_each_sort() -> None:
     assert {ref: index.role(ref) for ref in parts} == {
         "Q1": "transistor", "Q2": "transistor", "U1": "mcu", "U2": "mcu", "C1": "open",
         "R1": "series", "X1": "mcu"}
+
+
+def test_release_drops_every_cached_answer() -> None:
+    path = DEMO / "dust_extractor_panel.cir"
+    settings_ = load_settings(path, None, ())
+    circuit, part_data = resolve_part_data(read_netlist(path), settings_)
+    index = CircuitIndex(circuit, resolve_rails(circuit, settings_), part_data)
+    net = next(iter(circuit.nets))
+    index.pins_on(net), index.split(net), index.sort_key(net)
+    memos = [index.sort_key.__self__, index.pins_on.__self__, index.split.__self__]
+    assert all(memos)
+    index.release()
+    assert not any(memos)  # emptied at once, not left to the garbage collector
