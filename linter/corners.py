@@ -32,12 +32,13 @@ from __future__ import annotations
 
 import itertools
 from dataclasses import dataclass, field
+from collections.abc import ItemsView
 from typing import Literal, Mapping
 
 import numpy as np
 
 __all__ = ["AxisKind", "Axis", "FULL_PRODUCT_AXES", "NO_CHANGE_REL", "NO_CHANGE_ABS",
-           "LEVEL_NAMES", "Corner", "vertex_codes", "probe_codes", "worst_case_codes",
+           "LEVEL_NAMES", "Levels", "Corner", "vertex_codes", "probe_codes", "worst_case_codes",
            "distinct_codes"]
 
 AxisKind = Literal["rail", "resistor", "vf", "ambient", "beta"]
@@ -168,6 +169,56 @@ def distinct_codes(codes: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     keys = np.concatenate([np.full((g, 1), nominal, np.int64), picked], axis=1)
     out = (keys[..., None] // weights) % 3 - 1
     return out.astype(np.int8), counts + 1
+
+
+class Levels(Mapping[str, str]):
+    """A read-only mapping of names to level names (``{"D1": "vf_min"}``), in order.
+
+    What a solved corner's ``vf``, ``beta`` and ``resistors`` hold: the names (a group's
+    axes, the same for all its corners) and the levels are two tuples, shared between the
+    corners of a group, so that a large board's corners cost little memory. It compares,
+    prints and pickles as the dict it stands for.
+
+    >>> levels = Levels(("D1", "D2"), ("vf_min", "vf_max"))
+    >>> levels["D2"], dict(levels) == {"D1": "vf_min", "D2": "vf_max"}, levels
+    ('vf_max', True, {'D1': 'vf_min', 'D2': 'vf_max'})
+    """
+
+    __slots__ = ("names", "levels")
+
+    def __init__(self, names: tuple[str, ...], levels: tuple[str, ...]) -> None:
+        self.names = names
+        self.levels = levels
+
+    def __getitem__(self, name: str) -> str:
+        for known, level in zip(self.names, self.levels):
+            if known == name:
+                return level
+        raise KeyError(name)
+
+    def __iter__(self):
+        return iter(self.names)
+
+    def __len__(self) -> int:
+        return len(self.names)
+
+    def items(self):  # type: ignore[override]
+        """(name, level) pairs in order (a view, as a dict's)."""
+        return _LevelItems(self)
+
+    def __repr__(self) -> str:
+        return repr(dict(zip(self.names, self.levels)))
+
+    def __reduce__(self):
+        return Levels, (self.names, self.levels)
+
+
+class _LevelItems(ItemsView):
+    """A :class:`Levels` mapping's items, iterated in one pass."""
+
+    def __iter__(self):
+        mapping = self._mapping
+        return zip(mapping.names, mapping.levels)
 
 
 @dataclass(frozen=True, slots=True)

@@ -13,10 +13,11 @@ nominal — then the Vf-sensitivity row, then the headroom copies of the corners
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
 
-from linter.corners import LEVEL_NAMES, Corner
+from linter.corners import LEVEL_NAMES, Corner, Levels
 from linter.netbuild import GroupModel
 from linter.partdata import Ambient
 from linter.reduce import _rails_by_name, _top_rail
@@ -62,19 +63,24 @@ def _spans(values: np.ndarray, mask: np.ndarray, nominal: np.ndarray | None = No
 
 
 class _Namer:
-    """Describes one group's corners, each (scenario, row) once; equal mappings of the
-    group's corners (rails, vf bins, β levels, resistor levels) are one shared dict (corners
-    are read-only records)."""
+    """Describes one group's corners, each (scenario, row) once. The corners' level
+    mappings are :class:`~linter.corners.Levels` over one names tuple per axis kind, each
+    distinct one made once; equal rail mappings are one dict (corners are read-only)."""
 
     def __init__(self, model: GroupModel, codes: np.ndarray, corners: int,
                  ambient: Ambient) -> None:
         self.codes, self.corners, self.ambient = codes, corners, ambient
         self.scenarios = [s.name for s in model.group.scenarios]
         rails = _rails_by_name(model)
-        self.axes = [(i, a.kind, a.name, rails.get(a.name) if a.kind == "rail" else None)
-                     for i, a in enumerate(model.axes)]
+        self.rails = [(i, a.name, rails.get(a.name)) for i, a in enumerate(model.axes)
+                      if a.kind == "rail"]
+        self.ambient_axis = next((i for i, a in enumerate(model.axes) if a.kind == "ambient"),
+                                 None)
+        self.kinds = {kind: ([i for i, a in enumerate(model.axes) if a.kind == kind],
+                             tuple(a.name for a in model.axes if a.kind == kind),
+                             LEVEL_NAMES[kind]) for kind in ("vf", "beta", "resistor")}
         self.known: dict[int, Corner] = {}
-        self.mappings: dict[tuple, dict] = {}
+        self.shared: dict[tuple, Any] = {}
 
     def __call__(self, flat_index: int) -> Corner:
         found = self.known.get(flat_index)
@@ -84,22 +90,24 @@ class _Namer:
         return found
 
     def describe(self, s: int, c: int) -> Corner:
-        out: dict[str, dict] = {"rail": {}, "vf": {}, "beta": {}, "resistor": {}}
-        temp = self.ambient.reference
         row = self.codes[c].tolist()
-        for i, kind, name, rail in self.axes:
-            code = row[i]
-            if kind == "ambient":
-                temp = (self.ambient.min, self.ambient.reference, self.ambient.max)[code + 1]
-            elif kind == "rail":
-                volts = (rail.min, rail.nom, rail.max)[code + 1] if rail else _NAN
-                out["rail"][name] = (LEVEL_NAMES["rail"][code], volts)
-            else:
-                out[kind][name] = LEVEL_NAMES[kind][code]
-        shared = self.mappings
-        rails, vf, beta, resistors = (shared.setdefault(tuple(m.items()), m) for m in (
-            out["rail"], out["vf"], out["beta"], out["resistor"]))
-        return Corner(self.scenarios[s], rails, temp, vf, beta, resistors)
+        ambient = self.ambient
+        temp = ambient.reference
+        if self.ambient_axis is not None:
+            temp = (ambient.min, ambient.reference, ambient.max)[row[self.ambient_axis] + 1]
+        rails = {name: (LEVEL_NAMES["rail"][row[i]],
+                        (rail.min, rail.nom, rail.max)[row[i] + 1] if rail else _NAN)
+                 for i, name, rail in self.rails}
+        shared = self.shared
+        rails = shared.setdefault(("rail",) + tuple(rails.items()), rails)
+        levels = []
+        for kind, (indices, names, words) in self.kinds.items():
+            key = (kind,) + tuple(words[row[i]] for i in indices)
+            found = shared.get(key)
+            if found is None:
+                found = shared[key] = Levels(names, key[1:])
+            levels.append(found)
+        return Corner(self.scenarios[s], rails, temp, *levels)
 
 
 def _span(spans: _Spans, g: int, k: int, namer: _Namer) -> Span:

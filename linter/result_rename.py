@@ -12,7 +12,7 @@ from __future__ import annotations
 
 from typing import Mapping
 
-from linter.corners import Corner
+from linter.corners import Corner, Levels
 from linter.groups import Group
 from linter.results import GroupResult, LedResult, PinResult, ResistorResult, Span, TransistorResult
 
@@ -44,6 +44,7 @@ class _Renamer:
         self.refs = refs
         self.corners: dict[int, Corner] = {}
         self.mappings: dict[int, Mapping[str, str]] = {}
+        self.names: dict[int, tuple[str, ...]] = {}
 
     def corner(self, corner: Corner | None) -> Corner | None:
         if corner is None:
@@ -56,15 +57,22 @@ class _Renamer:
                 mapping(corner.beta), mapping(corner.resistors))
         return found
 
-    def mapping(self, names: Mapping[str, str]) -> Mapping[str, str]:
-        """``names`` with its keys renamed; shared where the template's are (and the
-        template's own where it names nothing)."""
-        if not names:
-            return names
-        found = self.mappings.get(id(names))
+    def mapping(self, levels: Mapping[str, str]) -> Mapping[str, str]:
+        """``levels`` with its names renamed; one per template mapping (the template's own
+        where it names nothing), names tuples renamed once."""
+        if not levels:
+            return levels
+        found = self.mappings.get(id(levels))
         if found is None:
             refs = self.refs
-            found = self.mappings[id(names)] = {refs[k]: v for k, v in names.items()}
+            if isinstance(levels, Levels):
+                names = self.names.get(id(levels.names))
+                if names is None:
+                    names = self.names[id(levels.names)] = tuple(refs[k] for k in levels.names)
+                found = Levels(names, levels.levels)
+            else:
+                found = {refs[k]: v for k, v in levels.items()}
+            self.mappings[id(levels)] = found
         return found
 
     def span(self, span: Span | None) -> Span | None:

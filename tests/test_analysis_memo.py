@@ -265,3 +265,21 @@ def test_clone_is_dataclasses_replace() -> None:
         assert _clone(record, {}) == record
         assert _clone(record, {field: value}) == replace(record, **{field: value})
         assert type(_clone(record, {})) is type(record)
+
+
+def test_levels_behave_as_the_dict_they_stand_for() -> None:
+    # the plain reference: a dict of the same items (Python's own mapping behaviour)
+    import pickle
+
+    from linter.corners import Levels
+    plain = {"D1": "vf_min", "D2": "vf_max"}
+    levels = Levels(("D1", "D2"), ("vf_min", "vf_max"))
+    assert levels == plain and plain == levels and dict(levels) == plain
+    assert list(levels.items()) == list(plain.items()) and list(levels) == list(plain)
+    assert list(levels.values()) == list(plain.values()) and len(levels) == 2
+    assert repr(levels) == repr(plain) and pickle.loads(pickle.dumps(levels)) == plain
+    assert levels["D2"] == "vf_max" and "D3" not in levels and levels.get("D3") is None
+    with pytest.raises(KeyError):
+        levels["D3"]
+    assert Levels((), ()) == {} and not Levels((), ())
+    assert levels != {"D1": "vf_min", "D2": "vf_typ"}
