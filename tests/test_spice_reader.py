@@ -67,6 +67,16 @@ def test_spice_numbers_refuse_what_is_not_a_number(text: str) -> None:
         read_spice_number(text)
 
 
+def test_exponents_of_thousands_of_digits() -> None:
+    # 10 to a power of 5,000 digits is beyond any double (IEEE 754): refused like 1e999;
+    # 10 to minus that power underflows to 0; leading zeros do not count (0...05 is 5)
+    with pytest.raises(SpiceNumberError):
+        read_spice_number("1e" + "9" * 5000)
+    assert read_spice_number("1e-" + "9" * 5000) == 0.0
+    assert read_spice_number("2e" + "0" * 5000 + "3k") == 2e6
+    assert error_of("t\nR1 a 0 1e" + "9" * 5000 + "\n.end\n").startswith("deck.cir:2:8: ")
+
+
 _SUFFIXES = {"t": 1e12, "g": 1e9, "meg": 1e6, "k": 1e3, "m": 1e-3, "u": 1e-6, "n": 1e-9,
              "p": 1e-12, "f": 1e-15, "mil": 25.4e-6}
 """SPICE3 scale suffixes (SPICE3 and ngspice manuals)."""

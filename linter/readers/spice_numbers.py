@@ -53,6 +53,24 @@ def _suffix(rest: str) -> tuple[str, str]:
     return "", rest
 
 
+_SATURATED_EXPONENT = 10**10
+"""A decimal exponent beyond any float (IEEE 754 doubles end near 1e308 and 1e-324); a
+longer written exponent is read as this, keeping its sign (the value is then infinite, or
+0)."""
+
+
+def _exponent(text: str | None) -> int:
+    """The written exponent as an int, without converting thousands of digits (Python
+    refuses to: a located error, not a crash)."""
+    if not text:
+        return 0
+    digits = text.lstrip("+-").lstrip("0") or "0"
+    sign = -1 if text.startswith("-") else 1
+    if len(digits) > 10:
+        return sign * _SATURATED_EXPONENT
+    return sign * int(digits)
+
+
 def read_spice_number(text: str) -> float:
     """Read ``text`` as SPICE does and return the value as a float.
 
@@ -70,7 +88,7 @@ def read_spice_number(text: str) -> float:
     suffix, tail = _suffix(text[match.end():])
     if tail and not tail.isalnum():
         raise SpiceNumberError(text)
-    exponent = int(match["exponent"] or 0)
+    exponent = _exponent(match["exponent"])
     if suffix == "mil":
         value = float(f"{match['mantissa']}e{exponent}") * SPICE_SCALES["mil"]
     else:  # shift the decimal exponent so that 10u is exactly float("1e-5")
