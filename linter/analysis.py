@@ -274,7 +274,10 @@ def _build(groups: tuple[Group, ...], circuit: Circuit, part_data: PartDataMap,
         key: tuple | None = None
         if memoise:
             key, names = group_key(group, circuit, part_data, rails, data_keys)
-            template = first.get(key, ())
+            try:
+                template = first.get(key, ())
+            except TypeError:   # a figure that cannot be hashed: built on its own
+                key, template = None, ()
             if template:
                 work.followers.append((index, template[0], names))
                 continue

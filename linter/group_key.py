@@ -84,7 +84,11 @@ class DataKeys:
         found = self.by_id.get(id(data), _MISSING)
         if found is _MISSING:
             made = _data_key(data)
-            found = self.by_id[id(data)] = self.interned.setdefault(made, made)
+            try:
+                made = self.interned.setdefault(made, made)
+            except TypeError:   # an unhashable figure: the group key will not be hashed
+                pass
+            found = self.by_id[id(data)] = made
             self.kept.append(data)
         return found
 

@@ -283,3 +283,17 @@ def test_levels_behave_as_the_dict_they_stand_for() -> None:
         levels["D3"]
     assert Levels((), ()) == {} and not Levels((), ())
     assert levels != {"D1": "vf_min", "D2": "vf_typ"}
+
+
+def test_unhashable_part_data_is_solved_without_the_memo(monkeypatch) -> None:
+    # a record holding a list cannot key a memo: each group is built and solved on its own,
+    # with the plain path's results (the reference)
+    @dataclasses.dataclass(frozen=True)
+    class Listed(ResistorData):
+        extra: list = dataclasses.field(default_factory=list, hash=False)
+
+    groups, c, data, rails = _channels(2)
+    data = {**data, **{f"R{i}": Listed(150.0, 0.01, 0.1, "0603") for i in range(2)}}
+    memo, plain, builds = _both_paths(monkeypatch, groups, c, data, rails, analysis.Ambient())
+    assert builds == 2
+    assert [_plain(r) for r in memo] == [_plain(r) for r in plain]
