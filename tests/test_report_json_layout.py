@@ -238,3 +238,16 @@ def test_plain_json_is_the_plain_path(data) -> None:
 
     # expected: the plain path, plain_data then the standard library's encoder
     assert plain_json(data) == compact_json(plain_data(data))
+
+
+def test_remembered_float_texts_keep_signed_zeros_and_unknowns_apart(monkeypatch) -> None:
+    from linter.report import json_groups
+
+    monkeypatch.setattr(json_groups, "_FLOAT_TEXTS", {})
+    monkeypatch.setattr(json_groups, "FLOAT_TEXTS_MAX", 3)
+    # expected: json.dumps of plain_data for each value (the plain path), in any order
+    values = [0.0, -0.0, 0.0, 0.1, -0.1, math.nan, math.inf, -math.inf, 0.1, 1e300, 2.5, -0.0]
+    for _ in range(2):
+        for value in values:
+            assert json_groups._value(value) == compact_json(plain_data(value))
+    assert len(json_groups._FLOAT_TEXTS) <= 3  # the memory starts again past its size
