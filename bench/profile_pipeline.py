@@ -2,10 +2,11 @@
 
 Runs in this process, stage by stage, what :func:`linter.engine.run_check` and the JSON reporter
 do: ``settings``, ``read`` (the netlist), ``bom`` (reading it), ``bom join``, ``part data``,
-``rails``, ``topology``, ``analyse``, ``rules``, ``waivers`` and ``report`` (JSON text).
-``--profile N`` adds a cProfile listing of the stages named by ``--stages`` (all by default);
-Each stage shows wall-clock and process CPU seconds. ``--stop-after STAGE`` ends early. The peak resident memory (``ru_maxrss``) is printed
-after each stage and after the run, whole and per part.
+``rails``, ``topology``, ``analyse``, ``rules``, ``waivers`` and ``report`` (the JSON report
+written piece by piece to /dev/null, as the CLI writes it). ``--profile N`` adds a cProfile
+listing of the stages named by ``--stages`` (all by default). Each stage shows wall-clock and
+process CPU seconds. ``--stop-after STAGE`` ends early. The peak resident memory
+(``ru_maxrss``) is printed after each stage and after the run, whole and per part.
 
 Usage::
 
@@ -67,6 +68,15 @@ class _Stages:
         return result
 
 
+def _drain(chunks) -> int:
+    """Write ``chunks`` to /dev/null as the CLI writes a report (piece by piece); their length."""
+    written = 0
+    with open("/dev/null", "w", encoding="utf-8") as sink:
+        for chunk in chunks:
+            written += sink.write(chunk)
+    return written
+
+
 def _pipeline(netlist: Path, bom_path: Path | None, stages: _Stages) -> None:
     """Every stage of a check, in order (``stages.parts`` gets the circuit's part count)."""
     from linter import limits
@@ -105,6 +115,7 @@ def _analyse(context, stages: _Stages, registry, request, result_type, run_rules
 
     from linter.analysis import analyse
     from linter.report import ReportFormat
+    from linter.report.stream import report_chunks
     from linter.topology import find_groups
     from linter.waivers import STALE_WAIVER, apply_waivers
 
@@ -123,7 +134,7 @@ def _analyse(context, stages: _Stages, registry, request, result_type, run_rules
                          bom_discrepancies=context.bom_discrepancies, waived=waived,
                          context=context)
     reporter = ReportFormat("json").reporter(verbose=False, quiet=False, color=False)
-    stages.run("report", lambda: reporter.render(result))
+    stages.run("report", lambda: _drain(report_chunks(reporter, [result])))
 
 
 def main(argv: Sequence[str] | None = None) -> int:

@@ -1,8 +1,9 @@
 """Reporters: one module per output format behind one small interface.
 
-A reporter turns a :class:`linter.engine.CheckResult` into the whole text of one report
-(:meth:`Reporter.render`); it never prints and never touches files (the CLI writes the text
-to standard output or, whole, to ``--output``). :class:`ReportFormat` maps each ``--format``
+A reporter turns a :class:`linter.engine.CheckResult` into the text of one report
+(:meth:`Reporter.render`; a :class:`linter.report.stream.StreamingReporter` also gives it in
+pieces); it never prints and never touches files (the CLI writes the pieces to standard output
+or to ``--output``, which is replaced whole or not at all). :class:`ReportFormat` maps each ``--format``
 choice to its class. To add a format: write ``linter/report/<name>.py`` with a
 :class:`Reporter` subclass, add a member here and a branch in
 :meth:`ReportFormat.reporter_class`; the type checker's ``assert_never`` and the test that
