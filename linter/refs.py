@@ -20,6 +20,7 @@ MIN_RUN = 3
 """The shortest run of consecutive designators that is folded into a range."""
 
 _CHUNKS = re.compile(r"(\d+)")
+_LETTERS_NUMBER = re.compile(r"(\D*)(\d+)").fullmatch
 _TRAILING_NUMBER = re.compile(r"^(?P<prefix>.*?)(?P<number>[1-9]\d*|0)$")
 
 
@@ -27,19 +28,28 @@ def natural_key(ref: str) -> tuple[tuple[str | tuple[int, str], ...], str]:
     """Sort key reading digit runs as numbers, letters without case; the text breaks ties.
 
     A digit run is compared by its length without leading zeros, then its digits: the order
-    of the numbers, without converting them (a run of thousands of digits is no error).
+    of the numbers, without converting them (a run of thousands of digits is no error). The
+    common designator (letters, then one number) is read with one match; any other name in
+    one loop over its chunks.
 
     >>> sorted(["D10", "D2", "d1", "R1"], key=natural_key)
     ['d1', 'D2', 'D10', 'R1']
     """
-    chunks = _CHUNKS.split(ref)
-    return tuple(_number_key(chunk) if index % 2 else chunk.casefold()
-                 for index, chunk in enumerate(chunks)), ref
-
-
-def _number_key(digits: str) -> tuple[int, str]:
-    significant = digits.lstrip("0")
-    return len(significant), significant
+    simple = _LETTERS_NUMBER(ref)
+    if simple is not None:
+        prefix, digits = simple.groups()
+        significant = digits.lstrip("0")
+        return (prefix.casefold(), (len(significant), significant), ""), ref
+    out: list[str | tuple[int, str]] = []
+    number = False
+    for chunk in _CHUNKS.split(ref):
+        if number:
+            significant = chunk.lstrip("0")
+            out.append((len(significant), significant))
+        else:
+            out.append(chunk.casefold())
+        number = not number
+    return tuple(out), ref
 
 
 def natural_sorted(refs: Iterable[str]) -> list[str]:

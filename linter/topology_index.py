@@ -172,7 +172,7 @@ class CircuitIndex:
         self._roles = self._all_roles()
         self.kind = self._kinds.__getitem__
         self.role = self._roles.__getitem__
-        self.sort_key = _Memo(_natural_key).__getitem__
+        self.sort_key = _Memo(natural_key).__getitem__
         self.pins_on = _Memo(self._pins_on).__getitem__
         self.split = _Memo(self._split).__getitem__
         self._led_pins = _Memo(self._find_led_pins).__getitem__

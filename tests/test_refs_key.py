@@ -1,0 +1,55 @@
+"""linter.refs.natural_key (one match for the common designator, one loop otherwise) gives the
+keys of its plain definition, written out here as the reference (our own former code: split on
+digit runs, each run keyed by its length without leading zeros and its digits, each text
+casefolded). Nothing is pasted from the tool's output.
+"""
+
+from __future__ import annotations
+
+import re
+
+from hypothesis import example, given
+from hypothesis import strategies as st
+
+from linter.model import Circuit
+from linter.refs import natural_key
+from linter.topology_index import CircuitIndex
+
+_DIGIT_RUNS = re.compile(r"(\d+)")
+
+
+def _plain_key(ref: str) -> tuple[tuple[str | tuple[int, str], ...], str]:
+    def number(digits: str) -> tuple[int, str]:
+        significant = digits.lstrip("0")
+        return len(significant), significant
+    chunks = _DIGIT_RUNS.split(ref)
+    return tuple(number(chunk) if index % 2 else chunk.casefold()
+                 for index, chunk in enumerate(chunks)), ref
+
+
+_NAMEISH = st.text(alphabet=st.sampled_from("DRQdrS/_-.0123456789\u0661\u00df\u0130 "), max_size=12)
+
+
+@given(st.text(max_size=16) | _NAMEISH)
+@example("")
+@example("D10")
+@example("007")
+@example("S2/R07")
+@example("\u0661\u0662")  # Arabic-Indic digits: \d in both regexes
+@example("Stra\u00dfe1")  # casefold changes the length
+@example("R1a")
+def test_natural_key_is_the_plain_key(name: str) -> None:
+    assert natural_key(name) == _plain_key(name)
+
+
+@given(st.lists(_NAMEISH, max_size=20))
+def test_natural_key_sorts_as_the_plain_key(names: list[str]) -> None:
+    assert sorted(names, key=natural_key) == sorted(names, key=_plain_key)
+
+
+def test_topology_index_sorts_with_the_refs_key() -> None:
+    # The index's cached sort key is this very function behind its memo.
+    circuit = Circuit("x.cir", "spice", {}, {})
+    index = CircuitIndex(circuit, {}, {})
+    assert index.sort_key.__self__.compute is natural_key  # type: ignore[attr-defined]
+    assert index.sort_key("R010") == _plain_key("R010")
