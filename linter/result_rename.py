@@ -51,28 +51,30 @@ class _Renamer:
             return None
         found = self.corners.get(id(corner))
         if found is None:
-            mapping = self.mapping
+            known = self.mappings.get
+            vf, beta, resistors = corner.vf, corner.beta, corner.resistors
+            new_vf, new_beta, new_resistors = known(id(vf)), known(id(beta)), known(id(resistors))
             found = self.corners[id(corner)] = Corner(
-                corner.scenario, corner.rails, corner.ambient_c, mapping(corner.vf),
-                mapping(corner.beta), mapping(corner.resistors))
+                corner.scenario, corner.rails, corner.ambient_c,
+                self.mapping(vf) if new_vf is None else new_vf,
+                self.mapping(beta) if new_beta is None else new_beta,
+                self.mapping(resistors) if new_resistors is None else new_resistors)
         return found
 
     def mapping(self, levels: Mapping[str, str]) -> Mapping[str, str]:
-        """``levels`` with its names renamed; one per template mapping (the template's own
-        where it names nothing), names tuples renamed once."""
-        if not levels:
-            return levels
-        found = self.mappings.get(id(levels))
-        if found is None:
-            refs = self.refs
-            if isinstance(levels, Levels):
+        """``levels`` with its names renamed, remembered by the template mapping's identity
+        (the template's own where it names nothing); names tuples renamed once."""
+        refs = self.refs
+        if type(levels) is Levels:
+            found: Mapping[str, str] = levels
+            if levels.names:
                 names = self.names.get(id(levels.names))
                 if names is None:
                     names = self.names[id(levels.names)] = tuple(refs[k] for k in levels.names)
                 found = Levels(names, levels.levels)
-            else:
-                found = {refs[k]: v for k, v in levels.items()}
-            self.mappings[id(levels)] = found
+        else:
+            found = {refs[k]: v for k, v in levels.items()} if levels else levels
+        self.mappings[id(levels)] = found
         return found
 
     def span(self, span: Span | None) -> Span | None:
