@@ -87,16 +87,20 @@ def _groups(circuit: Circuit, rails: Mapping[str, Rail],
 def _groups_with(index: CircuitIndex, circuit: Circuit) -> tuple[Group, ...]:
     leds = [part.ref for part in circuit.leds()]
     order = {ref: position for position, ref in enumerate(leds)}  # netlist order of the LEDs
+    ranked = sorted(leds, key=natural_key)  # (keys made here and let go of: not cached)
+    index.led_rank = {ref: position for position, ref in enumerate(ranked)}
     placed: set[str] = set()
     groups: list[Group] = []
-    for led in sorted(leds, key=index.sort_key):
+    for led in ranked:
         if led in placed:
             continue
         cluster = grow_cluster(index, led)
         group = _classify(index, cluster, order, placed)
         placed.update(group.leds)
         groups.append(group)
-    return tuple(sorted(groups, key=lambda group: index.sort_key(group.id[2:])))
+    # Already in the order of their ids: ``led`` is the first unplaced LED in natural order,
+    # it is in its own cluster, and a group's LEDs are unplaced ones, so its id is ``G-led``.
+    return tuple(groups)
 
 
 def _cluster_leds(index: CircuitIndex, cluster: Cluster, order: Mapping[str, int],

@@ -8,6 +8,7 @@ strings by their first LED).
 from __future__ import annotations
 
 from linter.groups import Group, PinDrive, Scenario
+from linter.refs import natural_key
 from linter.topology_index import CircuitIndex
 from linter.topology_shape import Bank, Strand
 from linter.topology_walk import Cluster
@@ -34,14 +35,16 @@ class Draft:
             found = [(led,) for led in self.leds]
         if len(found) == 1:
             return (found[0],)
-        key = self.index.sort_key
-        return tuple(sorted(found, key=lambda leds: key(leds[0])))
+        rank = self.index.led_rank
+        return tuple(sorted(found, key=lambda leds: rank[leds[0]]))
 
     def pins(self) -> tuple[PinDrive, ...]:
         if not self.cluster.pins and not self.extra_pins:
             return ()
         found = dict.fromkeys(self.cluster.pins + self.extra_pins)
-        return tuple(sorted(found, key=lambda pin: self.index.sort_key(pin.id)))
+        if len(found) == 1:
+            return tuple(found)
+        return tuple(sorted(found, key=lambda pin: natural_key(pin.id)))
 
     def group(self, topology: str, setter: str | None = None,
               scenarios: tuple[Scenario, ...] | None = None, reason: str | None = None,
@@ -56,12 +59,12 @@ class Draft:
         if pins:
             parts.update(p.part for p in pins)
             nets.update(p.supply for p in pins if p.supply in all_rails)
-        key = self.index.sort_key
-        sorted_nets = sorted(nets, key=key)
-        first = min(self.leds, key=key) if len(self.leds) > 1 else self.leds[0]
+        sorted_nets = self.index.natural_sorted(nets)
+        first = min(self.leds, key=self.index.led_rank.__getitem__) if len(self.leds) > 1 \
+            else self.leds[0]
         return Group(
             id=f"G-{first}", topology=topology, leds=self.leds, strings=self.strings(),
-            parts=tuple(sorted(parts, key=key)),
+            parts=tuple(self.index.natural_sorted(parts)),
             nets=tuple(sorted_nets),
             rails=tuple([net for net in sorted_nets if net in all_rails]), setter=setter,
             pins=pins,

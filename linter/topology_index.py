@@ -176,6 +176,18 @@ class CircuitIndex:
         self.pins_on = _Memo(self._pins_on).__getitem__
         self.split = _Memo(self._split).__getitem__
         self._led_pins = _Memo(self._find_led_pins).__getitem__
+        self.led_rank: dict[str, int] = {}  # LED → its place in natural order (set by topology)
+        self._rail_keys = {net: natural_key(net) for net in rails}
+
+    def natural_sorted(self, names: set[str] | list[str]) -> list[str]:
+        """``names`` (no repeats) in natural order, as ``sorted(names, key=natural_key)``.
+
+        The keys end with the name itself, so sorting the keys sorts the names; only the
+        rails' keys are kept (a rail is in most groups, any other name in one or two: keeping
+        every key would hold tens of MiB on a large board for little gain).
+        """
+        rail_keys, key = self._rail_keys, natural_key
+        return [pair[1] for pair in sorted([rail_keys.get(name) or key(name) for name in names])]
 
     def release(self) -> None:
         """Drop every remembered answer.
@@ -190,6 +202,7 @@ class CircuitIndex:
             memo.compute = None
         self._kinds.clear()
         self._roles.clear()
+        self.led_rank = {}
         self._terminals.clear()
         self._from_parts = None
 
