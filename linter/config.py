@@ -17,7 +17,6 @@ the rule registry by :func:`check_rule_settings` (the engine calls it).
 from __future__ import annotations
 
 from dataclasses import dataclass, field, replace
-from importlib import resources
 from pathlib import Path
 from typing import Any, Iterable, Mapping, Sequence
 
@@ -131,7 +130,9 @@ def _read_doc(path: Path, source: str, error: type[InputError]) -> TomlDoc:
 
 
 def _defaults_layer() -> Layer:
-    text = resources.files("linter").joinpath("data", _DEFAULTS).read_text(encoding="utf-8")
+    # the package's own data folder, read as a plain file (importlib.resources would load
+    # about 18 modules, zipfile and tempfile among them, on every run)
+    text = (Path(__file__).parent / "data" / _DEFAULTS).read_text(encoding="utf-8")
     source = f"<ledlint>/data/{_DEFAULTS}"
     doc = TomlDoc(load_toml(text, source, ConfigError), source, KeyLocator(text), ConfigError)
     return read_layer(doc)

@@ -9,7 +9,6 @@ did you mean 'vf_typ'?``.
 
 from __future__ import annotations
 
-import difflib
 import math
 import re
 from dataclasses import dataclass
@@ -44,6 +43,8 @@ def table_name(path: KeyPath) -> str:
 
 def suggestion(word: str, choices: Iterable[str]) -> str:
     """``"; did you mean 'vf_typ'?"`` for the closest choice, or an empty string."""
+    import difflib  # only a bad settings file needs it; not loaded on every run
+
     close = difflib.get_close_matches(word, list(choices), n=1, cutoff=0.6)
     return f"; did you mean {close[0]!r}?" if close else ""
 
