@@ -11,14 +11,27 @@ from __future__ import annotations
 
 import os
 import sys
-import threading
+from contextlib import AbstractContextManager, nullcontext
 from types import TracebackType
-from typing import IO, Any
+from typing import IO, TYPE_CHECKING, Any
+
+if TYPE_CHECKING:
+    import threading
 
 __all__ = ["SHOW_AFTER_S", "Progress"]
 
 SHOW_AFTER_S: float = 0.5
 """Seconds a run lasts before the bar appears."""
+
+
+def _lock(enabled: bool) -> AbstractContextManager[Any]:
+    """A lock between the timer's thread and the run; none is needed when no timer starts
+    (threading is then not even imported: most runs write to a pipe or a file)."""
+    if not enabled:
+        return nullcontext()
+    import threading
+
+    return threading.Lock()
 
 
 def _is_terminal(stream: IO[str]) -> bool:
@@ -47,7 +60,7 @@ class Progress:
         self.stream = stream if stream is not None else sys.stderr
         self.delay = delay
         self.enabled = _is_terminal(self.stream) and os.environ.get("TERM") != "dumb"
-        self._lock = threading.Lock()
+        self._lock = _lock(self.enabled)
         self._timer: threading.Timer | None = None
         self._bar: Any = None
         self._task: Any = None
@@ -57,6 +70,8 @@ class Progress:
 
     def __enter__(self) -> "Progress":
         if self.enabled:
+            import threading
+
             self._timer = threading.Timer(self.delay, self._show)
             self._timer.daemon = True
             self._timer.start()

@@ -23,11 +23,13 @@ DEMO = ROOT / "fixtures" / "demo"
 # report only; networkx, pint, scipy, matplotlib, schemdraw and jinja2 are not used by the
 # check at all (some may not even be installed, which this test does not mind).
 HEAVY = ("rich", "networkx", "pint", "scipy", "matplotlib", "schemdraw", "jinja2")
-# Standard-library modules only an error or another command needs: importlib.resources (the
-# defaults file is read as a plain file), difflib (suggestions in a bad settings file),
-# tempfile (atomic report files, --output), linter's batch and many-board modules.
-NOT_ON_ONE_BOARD = ("importlib.resources", "difflib", "tempfile", "linter.cli_many",
-                    "linter.batch")
+# Standard-library modules only an error, an option or another command needs:
+# importlib.resources (the defaults file is read as a plain file), difflib (suggestions in a
+# bad settings file), tempfile (atomic report files, --output), threading (the progress bar's
+# timer, on a terminal only), decimal (EDIF (e m x) numbers; the demo has none); linter's
+# batch and many-board modules.
+NOT_ON_ONE_BOARD = ("importlib.resources", "difflib", "tempfile", "threading", "decimal",
+                    "linter.cli_many", "linter.batch")
 
 _PROBE = """
 import io, json, sys

@@ -17,7 +17,6 @@ from __future__ import annotations
 
 import re
 from dataclasses import dataclass, field
-from decimal import Decimal
 from math import prod
 
 from linter.readers.sexpr import Document, Symbol
@@ -257,6 +256,8 @@ class FormReader:
             exponent = self.integer(self.arg(token, 2, "an exponent"), token)  # type: ignore[arg-type]
             if abs(exponent) > 400:
                 self.fail(token, f"number exponent {exponent} is out of range")  # type: ignore[arg-type]
+            from decimal import Decimal  # only (e m x) numbers need it; not loaded on every run
+
             return format(Decimal(mantissa).scaleb(exponent), "f")
         return str(self.integer(token, form))
 
