@@ -7,10 +7,11 @@ keep that wording the same across rules. Pure functions; all values SI floats.
 
 from __future__ import annotations
 
+import struct
 from collections import OrderedDict
 from typing import Any, Callable, Iterable, Iterator
 
-from linter.corners import Corner
+from linter.corners import Corner, Levels
 from linter.partdata import BjtData, LedData, Rail, ResistorData
 from linter.units import format_si
 
@@ -54,6 +55,7 @@ def forget_board() -> None:
     """Drop what the helpers keep of the board last checked (the engine calls it after the
     rules, so that a run over several boards holds one board at a time)."""
     _SOLVED[:] = [None, ()]
+    _PHRASES.clear()
     from linter import fix_search
     fix_search.forget_board()
 
@@ -154,9 +156,47 @@ def at_corner(corner: Corner | None, result: Any, focus: Iterable[str] = ()) -> 
         return corner_phrase(None)
     rail = getattr(result, "rail", None)
     rails = corner.rails
+    key = _phrase_key(corner, rail)
+    if key is not None:
+        entry = _PHRASES.get(key)
+        if entry is not None and entry[0] is rails:
+            return entry[1]
     ordered = [(rail, rails[rail])] if rail in rails else []
     ordered += [(n, level_v) for n, level_v in rails.items() if n != rail and level_v[0] != "nom"]
-    return _phrase(ordered, corner, focus)
+    text = _phrase(ordered, corner, focus)
+    if key is not None:
+        if len(_PHRASES) >= _PHRASES_KEPT:
+            _PHRASES.clear()
+        _PHRASES[key] = (rails, text)
+    return text
+
+
+def _phrase_key(corner: Corner, rail: Any) -> tuple | None:
+    """What :func:`at_corner`'s words depend on when the corner's LEDs share one bin (then
+    no LED is named, whatever ``focus``): the rail's name, the corner's rail mapping (by
+    identity: corners are read-only and the entry keeps the mapping alive), the bin, and the
+    ambient (its bits: ``-0.0`` prints apart from ``0.0``). None otherwise (not remembered)."""
+    vf = corner.vf
+    if type(vf) is not Levels or type(rail) is not str:
+        return None
+    levels = vf.levels
+    if not levels:
+        bin_name = None
+    else:
+        bin_name = levels[0]
+        if levels.count(bin_name) != len(levels):
+            return None
+    try:
+        ambient = _PACK_FLOAT(corner.ambient_c)
+    except (struct.error, TypeError):
+        return None
+    return (rail, id(corner.rails), bin_name, ambient)
+
+
+_PACK_FLOAT = struct.Struct("<d").pack
+_PHRASES_KEPT = 4096
+"""Corner phrases kept (all dropped when full)."""
+_PHRASES: dict[tuple, tuple[Any, str]] = {}
 
 
 def say(ref: str, text: str) -> str:

@@ -3,6 +3,8 @@
 from __future__ import annotations
 
 import math
+import struct
+from dataclasses import dataclass
 from typing import Any, Iterable
 
 from linter.config import RuleOption
@@ -88,15 +90,17 @@ class StringHeadroom(Rule):
                 yield finding
 
     def _group_finding(self, context: Any, result: GroupResult, limit: float) -> Finding | None:
-        swinging = [led for led in result.leds if led.lit_scenarios and _ratio(led) > limit]
+        ratios = {id(led): _ratio(led) for led in result.leds if led.lit_scenarios}
+        swinging = [led for led in result.leds if ratios.get(id(led), -math.inf) > limit]
         if not swinging:
             return None
-        worst = max(swinging, key=_ratio)
+        worst = max(swinging, key=lambda led: ratios[id(led)])
+        ratio = ratios[id(worst)]
         string = next(s for s in result.group.strings if worst.ref in s)
         leds = [result.led(ref) for ref in string]
         rail = group_rail(context, result)
         values = {"current_min_a": worst.current.min, "current_max_a": worst.current.max,
-                  "current_nom_a": worst.current.nom, "ratio": _ratio(worst), "limit": limit}
+                  "current_nom_a": worst.current.nom, "ratio": ratio, "limit": limit}
         if worst.di_dvf is not None:
             values["di_dvf_a_per_v"] = worst.di_dvf
         head = ""
@@ -110,7 +114,7 @@ class StringHeadroom(Rule):
         label = worst.ref if len(string) == 1 else f"{string[0]}–{string[-1]}"
         text = (f"{amps(worst.current.min)} ({at_corner(worst.current.at_min, result)}) to "
                 f"{amps(worst.current.max)} ({at_corner(worst.current.at_max, result)}), "
-                f"{_ratio_text(_ratio(worst), limit)}× (limit {limit:g}×) on {result.group.setter}"
+                f"{_ratio_text(ratio, limit)}× (limit {limit:g}×) on {result.group.setter}"
                 f"{head}{slope}")
         fix = None if rail is None else self._fix(context, result, leds, rail, limit, values)
         return Finding(rule=self.id, severity=context.severity(self), message=say(label, text),
@@ -119,31 +123,124 @@ class StringHeadroom(Rule):
 
     def _fix(self, context: Any, result: GroupResult, leds: list[LedResult], rail: Rail,
              limit: float, values: dict) -> str:
+        """The fix sentence (and its figures added to ``values``), worked out once per
+        distinct question: :func:`fix_answer` of the same numbers and names is the same."""
         setter = result.group.setter
         tolerance = fix_search.tolerance_of(context, setter)
         vf_min = sum(x.vf.min for x in leds)
         vf_max = sum(x.vf.max for x in leds)
         reference = reference_rail(context, rail)
-        design = sink_design(rail.min, vf_max, leds[0].current.nom, reference.nom,
-                             v_rail_max=rail.max, vf_string_min=vf_min,
-                             reference_name=reference.name,
-                             reference_tolerance=(reference.max - reference.min) / 2 / reference.nom,
-                             resistor_tolerance=tolerance)
-        plain = rail_for_resistor(vf_min, vf_max, limit, rail_min_ratio=rail.min / rail.nom,
-                                  rail_max_ratio=rail.max / rail.nom, resistor_tolerance=tolerance)
-        parts = []
-        if design is not None:
-            parts.append(_sink_text(design, setter, result.rail, rail, values))
-        if plain is not None:
-            values["rail_for_resistor_v"] = plain
-            parts.append(f"a plain resistor holds {limit:g}× only from a {volts(plain)} nominal "
-                         f"{result.rail} (same tolerance)")
-        if design is not None and not design.regulates:
-            fewer = _leds_that_fit(leds, rail, design)
-            if 0 < fewer < len(leds):
-                values["fix_leds_per_string"] = float(fewer)
-                parts.append(f"or {fewer} LED{'s' if fewer > 1 else ''} per string")
-        return "; ".join(parts) if parts else "no computed fix"
+        question = FixQuestion(result.rail, rail.min, rail.nom, rail.max, reference.name,
+                               reference.min, reference.nom, reference.max, tolerance,
+                               vf_min, vf_max, max(x.vf.max for x in leds),
+                               leds[0].current.nom, len(leds), limit)
+        key = question.key()
+        answer = None if key is None else _ANSWERS.get(key)
+        if answer is None:
+            answer = fix_answer(question)
+            if key is not None:
+                if len(_ANSWERS) >= _ANSWERS_KEPT:
+                    _ANSWERS.clear()
+                _ANSWERS[key] = answer
+        values.update(answer.values)
+        return answer.text(setter)
+
+
+@dataclass(frozen=True, slots=True)
+class FixQuestion:
+    """Everything :func:`fix_answer` reads: the group's rail (name, V), the sink's
+    reference rail (name, V), the setter's tolerance, the string's ΣVf (min, max) and
+    largest Vf(max) in V, the first LED's nominal current in A, the LEDs in the string and
+    the ratio limit. The setter's name is not in it (the answer leaves a place for it)."""
+
+    rail_name: str
+    rail_min: float
+    rail_nom: float
+    rail_max: float
+    reference_name: str
+    reference_min: float
+    reference_nom: float
+    reference_max: float
+    tolerance: float
+    vf_min: float
+    vf_max: float
+    vf_max_each: float
+    current_nom: float
+    leds: int
+    limit: float
+
+    def key(self) -> tuple | None:
+        """A dict key telling every float apart bit for bit (``-0.0`` from ``0.0``), or
+        None when a figure is no float."""
+        try:
+            numbers = _PACK(self.rail_min, self.rail_nom, self.rail_max, self.reference_min,
+                            self.reference_nom, self.reference_max, self.tolerance, self.vf_min,
+                            self.vf_max, self.vf_max_each, self.current_nom, self.limit)
+        except (struct.error, TypeError):
+            return None
+        if type(self.rail_name) is not str or type(self.reference_name) is not str \
+                or type(self.leds) is not int:
+            return None
+        return (numbers, self.rail_name, self.reference_name, self.leds)
+
+
+@dataclass(frozen=True, slots=True)
+class FixAnswer:
+    """A fix sentence with the setter's place left open (``before`` + setter + ``after``;
+    ``before`` None: the sentence names no setter) and the figures it adds to a finding's
+    values, in order."""
+
+    before: str | None
+    after: str
+    values: tuple[tuple[str, float], ...]
+
+    def text(self, setter: str) -> str:
+        """The sentence for the setter named ``setter``."""
+        return self.after if self.before is None else f"{self.before}{setter}{self.after}"
+
+
+_PACK = struct.Struct("<12d").pack
+_ANSWERS_KEPT = 4096
+"""Fix answers kept (by their question's key), all dropped when full."""
+_ANSWERS: dict[tuple, FixAnswer] = {}
+
+_SETTER = "\0setter\0"
+"""Stands in for the setter's name while an answer is written."""
+
+
+def fix_answer(question: FixQuestion) -> FixAnswer:
+    """The sink, plain-resistor rail and fewer-LEDs fixes for ``question``.
+
+    The plain path of :meth:`StringHeadroom._fix` (tests compare the two)."""
+    q = question
+    rail = Rail(q.rail_name, q.rail_nom, q.rail_min, q.rail_max)
+    limit = q.limit
+    values: dict = {}
+    design = sink_design(q.rail_min, q.vf_max, q.current_nom, q.reference_nom,
+                         v_rail_max=q.rail_max, vf_string_min=q.vf_min,
+                         reference_name=q.reference_name,
+                         reference_tolerance=(q.reference_max - q.reference_min) / 2
+                         / q.reference_nom,
+                         resistor_tolerance=q.tolerance)
+    plain = rail_for_resistor(q.vf_min, q.vf_max, limit, rail_min_ratio=q.rail_min / q.rail_nom,
+                              rail_max_ratio=q.rail_max / q.rail_nom,
+                              resistor_tolerance=q.tolerance)
+    parts = []
+    if design is not None:
+        parts.append(_sink_text(design, _SETTER, q.rail_name, rail, values))
+    if plain is not None:
+        values["rail_for_resistor_v"] = plain
+        parts.append(f"a plain resistor holds {limit:g}× only from a {volts(plain)} nominal "
+                     f"{q.rail_name} (same tolerance)")
+    if design is not None and not design.regulates:
+        fewer = _leds_that_fit(q.vf_max_each, q.vf_max, rail, design)
+        if 0 < fewer < q.leds:
+            values["fix_leds_per_string"] = float(fewer)
+            parts.append(f"or {fewer} LED{'s' if fewer > 1 else ''} per string")
+    text = "; ".join(parts) if parts else "no computed fix"
+    before, marked, after = text.partition(_SETTER)
+    return FixAnswer(before if marked else None, after if marked else text,
+                     tuple(values.items()))
 
 
 def _ratio_text(ratio: float, limit: float) -> str:
@@ -174,8 +271,8 @@ def _sink_text(design: SinkDesign, setter: str, rail_name: str, rail: Rail, valu
     return text
 
 
-def _leds_that_fit(leds: list[LedResult], rail: Rail, design: SinkDesign) -> int:
-    """How many of these LEDs (at their highest Vf) a sink can regulate at the rail minimum."""
-    each = max(x.vf.max for x in leds)
-    spare = rail.min - (design.rail_min_v - sum(x.vf.max for x in leds))
+def _leds_that_fit(each: float, vf_max: float, rail: Rail, design: SinkDesign) -> int:
+    """How many LEDs (each at most ``each`` V at its highest Vf; the string's ΣVf(max) is
+    ``vf_max``) a sink can regulate at the rail minimum."""
+    spare = rail.min - (design.rail_min_v - vf_max)
     return max(0, int(spare // each))
