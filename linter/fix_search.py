@@ -341,7 +341,8 @@ def signature(context: Any, result: GroupResult, question: Any) -> bytes | None:
     group = result.group
     refs = list(group.parts) + [d.part for d in group.pins if d.part not in group.parts]
     names = set(refs) | set(group.nets)
-    if any("'" in n or "\\" in n or "\n" in n for n in names):
+    joined = "".join(names)  # one look for the three characters that cannot be made neutral
+    if "'" in joined or "\\" in joined or "\n" in joined:
         return None
     parts = [_part_record(context.circuit.parts[r]) for r in refs if r in context.circuit.parts]
     data = ", ".join(f"({r!r}, {_record_text(_data_record(r, context.part_data.get(r)))})"

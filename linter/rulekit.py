@@ -175,7 +175,8 @@ def _phrase_key(corner: Corner, rail: Any) -> tuple | None:
     """What :func:`at_corner`'s words depend on when the corner's LEDs share one bin (then
     no LED is named, whatever ``focus``): the rail's name, the corner's rail mapping (by
     identity: corners are read-only and the entry keeps the mapping alive), the bin, and the
-    ambient (its bits: ``-0.0`` prints apart from ``0.0``). None otherwise (not remembered)."""
+    ambient (a zero by its bits: ``-0.0`` prints apart from ``0.0``; a NaN finds no entry but
+    itself). None otherwise (not remembered)."""
     vf = corner.vf
     if type(vf) is not Levels or type(rail) is not str:
         return None
@@ -186,10 +187,11 @@ def _phrase_key(corner: Corner, rail: Any) -> tuple | None:
         bin_name = levels[0]
         if levels.count(bin_name) != len(levels):
             return None
-    try:
-        ambient = _PACK_FLOAT(corner.ambient_c)
-    except (struct.error, TypeError):
+    ambient = corner.ambient_c
+    if type(ambient) is not float:
         return None
+    if ambient == 0.0:  # 0.0 and -0.0 are equal keys but print apart
+        ambient = _PACK_FLOAT(ambient)
     return (rail, id(corner.rails), bin_name, ambient)
 
 

@@ -9,7 +9,7 @@ from linter.fix_batch import solve_circuits
 from linter.findings import Finding
 from linter.fixes import per_led_resistors
 from linter.refs import natural_key, natural_sorted
-from linter.results import GroupResult
+from linter.results import GroupResult, LedResult
 from linter.rulekit import amps, at_corner, group_rail, led_data, ohms, solved_groups, watts
 from linter.rules import Rule, register
 from linter.rules.led_overcurrent import target_current
@@ -21,6 +21,10 @@ MAX_FIX_STEPS = 40
 def fold(refs: tuple[str, ...]) -> str:
     """``"D7–D10"`` for a run listed in order, else the references joined by commas."""
     return f"{refs[0]}–{refs[-1]}" if len(refs) > 2 else ", ".join(refs)
+
+
+ASK = object()
+"""Default of a ``first`` argument: work :func:`_first_split` out."""
 
 
 @register
@@ -65,16 +69,17 @@ class SharedBallast(Rule):
         results = [result for result in solved_groups(context)
                    if result.group.topology == "parallel" and len(result.group.strings) > 1]
         keys = _solve_first_splits(context, results)
+        severity = context.severity(self)  # the same for every finding of the board
         for result in results:
-            yield self._finding(context, result, keys.get(id(result), fix_search.ASK))
+            yield self._finding(context, result, *keys.get(id(result), (fix_search.ASK, ASK)),
+                                severity=severity)
 
-    def _finding(self, context: Any, result: GroupResult, key: Any = fix_search.ASK) -> Finding:
-        """``key``: the fix search's signature for the first resistor tried, when known."""
+    def _finding(self, context: Any, result: GroupResult, key: Any = fix_search.ASK,
+                 first: Any = ASK, severity: str | None = None) -> Finding:
+        """``key``: the fix search's signature for the first resistor tried, when known;
+        ``first``: :func:`_first_split` of the group, when known."""
         group = result.group
-        # natural order first, currents compared to the nanoampere: among equal LEDs the
-        # lowest reference is quoted, whatever the order of the netlist
-        hottest = max(sorted(result.leds, key=lambda x: natural_key(x.ref)),
-                      key=lambda x: round(x.current.max * 1e9))
+        hottest = _hottest(result.leds)
         shared = group.setter or "one part"
         count = len(group.strings)
         share = _share(result)
@@ -90,8 +95,10 @@ class SharedBallast(Rule):
             text += f", {hottest.current.max / data.if_max:.1f}× its {amps(data.if_max)} maximum"
         text += f"; {amps(share)} each nominal"
         text += self._shared_part(result, shared, values)
-        fix = self._fix(context, result, share, values, key)
-        return Finding(rule=self.id, severity=context.severity(self), message=text,
+        fix = self._fix(context, result, share, values, key, first)
+        if severity is None:
+            severity = context.severity(self)
+        return Finding(rule=self.id, severity=severity, message=text,
                        parts=(shared, *leds) if group.setter else leds,
                        group=result.id, values=values, fix=fix)
 
@@ -111,19 +118,20 @@ class SharedBallast(Rule):
                 f"{watts(power.max)}")
 
     def _fix(self, context: Any, result: GroupResult, share: float, values: dict,
-             key: Any = fix_search.ASK) -> str | None:
+             key: Any = fix_search.ASK, first: Any = ASK) -> str | None:
         shared = result.group.setter
         if shared is None:
             return None
         if shared in {r.ref for r in result.resistors}:
-            return self._per_led(context, result, shared, share, values, key)
+            return self._per_led(context, result, shared, share, values, key, first)
         return self._per_string_sink(result, shared, share)
 
     def _per_led(self, context: Any, result: GroupResult, shared: str, share: float,
-                 values: dict, key: Any = fix_search.ASK) -> str | None:
+                 values: dict, key: Any = fix_search.ASK, first: Any = ASK) -> str | None:
         """One resistor per string: nominal current near the share, worst case under the
         LED's limit, confirmed by solving the split circuit."""
-        first = _first_split(context, result, shared, share)
+        if first is ASK:
+            first = _first_split(context, result, shared, share)
         if first is None:
             return None
         ohms_each, tolerance, series = first
@@ -162,6 +170,20 @@ class SharedBallast(Rule):
     def _per_string_sink(result: GroupResult, shared: str, share: float) -> str:
         return (f"give each of the {len(result.group.strings)} strings its own sink "
                 f"set to {amps(share)} in place of the shared {shared}")
+
+
+def _hottest(leds: Iterable[LedResult]) -> LedResult:
+    """The LED of the highest maximum current, compared to the nanoampere; among equal LEDs
+    the lowest reference in natural order (the first in the netlist on equal keys), whatever
+    the order of the netlist. The same LED as ``max(sorted(leds, key=natural_key of ref),
+    key=rounded current)``; the names are sorted only when currents tie."""
+    leds = list(leds)
+    rounded = [round(x.current.max * 1e9) for x in leds]
+    top = max(rounded)
+    tied = [x for x, r in zip(leds, rounded) if r == top]
+    if len(tied) == 1:
+        return tied[0]
+    return min(tied, key=lambda x: natural_key(x.ref))
 
 
 def _share(result: GroupResult) -> float:
@@ -208,10 +230,11 @@ def _split_figures(solved: tuple[GroupResult, ...]) -> tuple[float, float, float
             max(x.current.max for x in leds))
 
 
-def _solve_first_splits(context: Any, results: list[GroupResult]) -> dict[int, Any]:
+def _solve_first_splits(context: Any, results: list[GroupResult]) -> dict[int, tuple]:
     """The first split of every group's search solved ahead, all in one batch per structure
     (:func:`linter.fix_batch.solve_circuits`) and remembered as the search would remember
-    it; returns each group's signature for that first question, by ``id(result)``.
+    it; returns each group's (signature for that first question, :func:`_first_split`) by
+    ``id(result)``, for the groups whose shared part is a resistor.
 
     Only questions not remembered yet are solved, each once. Should any fail, nothing is
     kept: the searches then solve one by one as before.
@@ -224,11 +247,12 @@ def _solve_first_splits(context: Any, results: list[GroupResult]) -> dict[int, A
             continue
         first = _first_split(context, result, shared, _share(result))
         if first is None:
+            keys[id(result)] = (fix_search.ASK, None)
             continue
         ohms_each, tolerance, _ = first
         key = fix_search.signature(context, result, _split_question(shared, ohms_each,
                                                                     tolerance))
-        keys[id(result)] = key
+        keys[id(result)] = (key, first)
         if key is not None and key not in pending and not fix_search.is_remembered(key):
             pending[key] = (result, shared, ohms_each)
     if len(pending) < 2:  # one alone gains nothing from a batch

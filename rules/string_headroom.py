@@ -35,6 +35,23 @@ def reference_rail(context: Any, fallback: Rail) -> Rail:
     return min(usable, key=lambda r: (spread(r), r.nom), default=fallback)
 
 
+def _reference_rail(context: Any, fallback: Rail) -> Rail:
+    """:func:`reference_rail`, worked out once per rail of the board's rails (the rails
+    mapping and ``fallback`` by identity; the entries keep both alive)."""
+    rails = context.rails
+    entry = _REFERENCES.get(id(fallback))
+    if entry is not None and entry[0] is rails and entry[1] is fallback:
+        return entry[2]
+    found = reference_rail(context, fallback)
+    if len(_REFERENCES) >= 64:
+        _REFERENCES.clear()
+    _REFERENCES[id(fallback)] = (rails, fallback, found)
+    return found
+
+
+_REFERENCES: dict[int, tuple[Any, Rail, Rail]] = {}
+
+
 @register
 class StringHeadroom(Rule):
     """LEDs on a resistor whose current swings by more than ``ratio`` across the corners.
@@ -81,15 +98,18 @@ class StringHeadroom(Rule):
 
     def check(self, context: Any) -> Iterable[Finding]:
         ratio = float(context.option(self, "ratio"))
+        severity = context.severity(self)  # the same for every finding of the board
+        _REFERENCES.clear()  # the board's rails are read afresh for each check
         for result in solved_groups(context):
-            names = {r.ref for r in result.resistors}
-            if result.group.setter not in names or result.group.topology in SKIPPED:
+            setter = result.group.setter
+            if result.group.topology in SKIPPED or all(r.ref != setter for r in result.resistors):
                 continue
-            finding = self._group_finding(context, result, ratio)
+            finding = self._group_finding(context, result, ratio, severity)
             if finding is not None:
                 yield finding
 
-    def _group_finding(self, context: Any, result: GroupResult, limit: float) -> Finding | None:
+    def _group_finding(self, context: Any, result: GroupResult, limit: float,
+                       severity: str | None = None) -> Finding | None:
         ratios = {id(led): _ratio(led) for led in result.leds if led.lit_scenarios}
         swinging = [led for led in result.leds if ratios.get(id(led), -math.inf) > limit]
         if not swinging:
@@ -117,7 +137,9 @@ class StringHeadroom(Rule):
                 f"{_ratio_text(ratio, limit)}× (limit {limit:g}×) on {result.group.setter}"
                 f"{head}{slope}")
         fix = None if rail is None else self._fix(context, result, leds, rail, limit, values)
-        return Finding(rule=self.id, severity=context.severity(self), message=say(label, text),
+        if severity is None:
+            severity = context.severity(self)
+        return Finding(rule=self.id, severity=severity, message=say(label, text),
                        parts=(*(x.ref for x in swinging), result.group.setter),
                        group=result.id, values=values, fix=fix)
 
@@ -129,15 +151,14 @@ class StringHeadroom(Rule):
         tolerance = fix_search.tolerance_of(context, setter)
         vf_min = sum(x.vf.min for x in leds)
         vf_max = sum(x.vf.max for x in leds)
-        reference = reference_rail(context, rail)
-        question = FixQuestion(result.rail, rail.min, rail.nom, rail.max, reference.name,
-                               reference.min, reference.nom, reference.max, tolerance,
-                               vf_min, vf_max, max(x.vf.max for x in leds),
-                               leds[0].current.nom, len(leds), limit)
-        key = question.key()
+        reference = _reference_rail(context, rail)
+        fields = (result.rail, rail.min, rail.nom, rail.max, reference.name, reference.min,
+                  reference.nom, reference.max, tolerance, vf_min, vf_max,
+                  max(x.vf.max for x in leds), leds[0].current.nom, len(leds), limit)
+        key = _question_key(fields)
         answer = None if key is None else _ANSWERS.get(key)
         if answer is None:
-            answer = fix_answer(question)
+            answer = fix_answer(FixQuestion(*fields))
             if key is not None:
                 if len(_ANSWERS) >= _ANSWERS_KEPT:
                     _ANSWERS.clear()
@@ -172,16 +193,25 @@ class FixQuestion:
     def key(self) -> tuple | None:
         """A dict key telling every float apart bit for bit (``-0.0`` from ``0.0``), or
         None when a figure is no float."""
-        try:
-            numbers = _PACK(self.rail_min, self.rail_nom, self.rail_max, self.reference_min,
-                            self.reference_nom, self.reference_max, self.tolerance, self.vf_min,
-                            self.vf_max, self.vf_max_each, self.current_nom, self.limit)
-        except (struct.error, TypeError):
-            return None
-        if type(self.rail_name) is not str or type(self.reference_name) is not str \
-                or type(self.leds) is not int:
-            return None
-        return (numbers, self.rail_name, self.reference_name, self.leds)
+        return _question_key((self.rail_name, self.rail_min, self.rail_nom, self.rail_max,
+                              self.reference_name, self.reference_min, self.reference_nom,
+                              self.reference_max, self.tolerance, self.vf_min, self.vf_max,
+                              self.vf_max_each, self.current_nom, self.leds, self.limit))
+
+
+def _question_key(fields: tuple) -> tuple | None:
+    """:meth:`FixQuestion.key` of the question with these fields, in order."""
+    (rail_name, rail_min, rail_nom, rail_max, reference_name, reference_min, reference_nom,
+     reference_max, tolerance, vf_min, vf_max, vf_max_each, current_nom, leds, limit) = fields
+    if type(rail_name) is not str or type(reference_name) is not str or type(leds) is not int:
+        return None
+    try:
+        numbers = _PACK(rail_min, rail_nom, rail_max, reference_min, reference_nom,
+                        reference_max, tolerance, vf_min, vf_max, vf_max_each, current_nom,
+                        limit)
+    except (struct.error, TypeError):
+        return None
+    return (numbers, rail_name, reference_name, leds)
 
 
 @dataclass(frozen=True, slots=True)

@@ -96,3 +96,26 @@ def test_at_corner_memo_matches_the_plain_phrase():
                     assert rulekit.at_corner(corner, result, focus) == \
                         _plain_phrase(corner, result.rail, focus)
     assert rulekit.at_corner(corners[3], group) != rulekit.at_corner(corners[4], group)
+
+
+def test_shared_ballast_hottest_is_the_plain_sorted_maximum():
+    from types import SimpleNamespace
+
+    from linter.refs import natural_key
+
+    hottest = sys.modules["linter.rules.shared_ballast"]._hottest
+
+    def led(ref, amps):
+        return SimpleNamespace(ref=ref, current=SimpleNamespace(max=amps))
+
+    def plain(leds):  # the definition the rule used before: natural order, then max
+        return max(sorted(leds, key=lambda x: natural_key(x.ref)),
+                   key=lambda x: round(x.current.max * 1e9))
+
+    # currents in A (invented); ties within a nanoampere, names out of natural order
+    cases = [[led("D10", 0.02), led("D9", 0.02), led("D2", 0.0199999999)],
+             [led("D3", 0.01), led("D1", 0.03), led("D2", 0.02)],
+             [led("D7", 0.02)],
+             [led("LED2", 0.02), led("D2", 0.02), led("D02", 0.02)]]
+    for leds in cases:
+        assert hottest(leds) is plain(leds)
