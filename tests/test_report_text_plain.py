@@ -19,6 +19,7 @@ from linter.engine import CheckRequest, run_check
 from linter.report import ReportOptions
 from linter.report import text as text_report
 from linter.report.text import REPORT_WIDTH, TextReporter, _Lines
+from linter.report.text_line import CONTROL_CODES, Line
 
 
 def _plain_console(buffer: io.StringIO) -> Console:
@@ -32,17 +33,51 @@ _ODD = list("ab -:\n\r\t\x00\x07\x08\x0b\x0c\x1b\x7f\u0085\u2028\u200b\u0301\u03
 _pieces = st.one_of(st.text(max_size=150), st.text(alphabet=st.sampled_from(_ODD), max_size=40))
 
 
+def _same(built: Text, expected: Text) -> bool:
+    """Equal as rich prints them: text, base style, styled spans, end (Text's own == leaves
+    out the base style)."""
+    return (built.plain, built.style, built.spans, built.end) == (
+        expected.plain, expected.style, expected.spans, expected.end)
+
+
 @settings(max_examples=400)
 @given(st.lists(st.tuples(_pieces, st.sampled_from([None, "bold", "bold red", "cyan"])),
                 max_size=4))
 def test_shortcut_writes_what_rich_prints(pieces) -> None:
-    line = Text()
+    """A Line written by the shortcut against the rich Text of the same pieces printed by
+    rich; and the Line's own rich Text is that Text."""
+    line, text = Line(), Text()
     for piece, style in pieces:
         line.append(piece, style=style)
+        text.append(piece, style=style)
     fast, slow = _Lines(color=False), io.StringIO()
     fast.print(line)
-    _plain_console(slow).print(line)
+    _plain_console(slow).print(text)
     assert fast.take() == slow.getvalue()
+    assert line.plain == text.plain
+    assert _same(line.rich_text(), text)
+
+
+@settings(max_examples=200)
+@given(_pieces, st.sampled_from(["", "bold", "yellow"]),
+       st.lists(st.tuples(_pieces, st.sampled_from([None, "bold", "cyan"])), max_size=3))
+def test_line_is_the_rich_text_of_its_pieces(first, style, pieces) -> None:
+    """Line(text, style) then appends: the same plain text and Text as rich's own."""
+    line, text = Line(first, style=style), Text(first, style=style)
+    for piece, piece_style in pieces:
+        line.append(piece, style=piece_style)
+        text.append(piece, style=piece_style)
+    assert line.plain == text.plain
+    assert _same(line.rich_text(), text)
+
+
+def test_control_codes_are_the_ones_rich_strips() -> None:
+    """CONTROL_CODES against rich.control.strip_control_codes over the first 0x3000 code
+    points (every control and format character of Latin and general punctuation)."""
+    from rich.control import strip_control_codes
+
+    every = "".join(map(chr, range(0x3000)))
+    assert every.translate(CONTROL_CODES) == strip_control_codes(every)
 
 
 def test_blank_line_as_rich_prints_it() -> None:
@@ -92,7 +127,7 @@ _cells = st.lists(st.sampled_from(_CELL_CHARS), max_size=6).map("".join)
 def _rich_table(headings, right, rows) -> str:
     from rich.table import Table
 
-    table = Table(box=text_report._PLAIN_BOX, show_edge=False, pad_edge=False,
+    table = Table(box=text_report._plain_box(), show_edge=False, pad_edge=False,
                   header_style="bold")
     for heading, flush_right in zip(headings, right):
         table.add_column(heading, justify="right" if flush_right else "left")

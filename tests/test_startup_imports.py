@@ -70,8 +70,9 @@ def test_probe_sees_a_module_the_check_does_load() -> None:
     assert probe["loaded"] == ["linter.engine", "numpy"]
 
 
-def test_text_report_loads_rich() -> None:
-    """The text report is drawn with rich (linter.report.text), so it does load it: the
-    absence above is the format's doing, not an accident of the probe."""
+def test_plain_text_report_loads_no_rich() -> None:
+    """Without colour (stdout is not a terminal here) and without --verbose, every line of the
+    text report is plain text (linter.report.text_line): rich stays unloaded."""
     probe = _loaded_after_check("text", ("rich",))
-    assert probe["loaded"] == ["rich"]
+    assert probe["status"] == 1 and probe["written"] > 0
+    assert probe["loaded"] == []

@@ -14,11 +14,6 @@ from __future__ import annotations
 import io
 from typing import TYPE_CHECKING, Any, Iterator, Mapping
 
-from rich import box
-from rich.console import Console
-from rich.table import Table
-from rich.text import Text
-
 from linter.findings import SEVERITIES, Finding
 from linter.gc_pause import paused_gc
 from linter.refs import fold_refs
@@ -26,10 +21,15 @@ from linter.results import GroupResult
 from linter.report.common import (finding_location, group_entry, ordered_findings,
                                   plain_data, severity_counts, sorted_records)
 from linter.report.stream import StreamingReporter
+from linter.report.text_line import Line
 from linter.report.text_tables import plain_table
 from linter.units import format_si
 
 if TYPE_CHECKING:
+    from rich import box
+    from rich.console import Console
+    from rich.table import Table
+
     from linter.engine import CheckResult
 
 __all__ = ["TextReporter", "REPORT_WIDTH", "UNKNOWN", "PIECE_CHARS", "shown_entry"]
@@ -39,8 +39,15 @@ REPORT_WIDTH = 100
 UNKNOWN = "?"
 """Shown in a table cell whose figure is unknown."""
 
-_PLAIN_BOX = box.Box("    \n    \n -  \n    \n    \n -  \n    \n    \n", ascii=True)
-"""No frame and no column rules: dashes under the header only (reads well in a pipe)."""
+
+
+def _plain_box() -> "box.Box":
+    """No frame and no column rules: dashes under the header only (reads well in a pipe)."""
+    from rich import box
+
+    return box.Box("    \n    \n -  \n    \n    \n -  \n    \n    \n", ascii=True)
+
+
 _STYLE = {"error": "bold red", "warning": "yellow", "info": "cyan"}
 
 
@@ -53,11 +60,11 @@ def _count_of(count: int, severity: str) -> str:
     return f"{count} info" if severity == "info" else _plural(count, severity)
 
 
-def _summary(result: "CheckResult") -> Text:
+def _summary(result: "CheckResult") -> Line:
     circuit = result.circuit
     counts = severity_counts(result.findings)
     found = ", ".join(_count_of(counts[severity], severity) for severity in SEVERITIES)
-    text = Text(f"{circuit.source}", style="bold")
+    text = Line(f"{circuit.source}", style="bold")
     text.append(f" ({circuit.format.upper()}): {_plural(len(circuit.parts), 'part')}, "
                 f"{_plural(len(circuit.nets), 'net')}, {_plural(len(circuit.leds()), 'LED')} "
                 f"in {_plural(len(result.groups), 'LED group')}; findings: {found}")
@@ -68,9 +75,9 @@ def _summary(result: "CheckResult") -> Text:
     return text
 
 
-def _finding_line(finding: Finding, result: "CheckResult") -> Text:
+def _finding_line(finding: Finding, result: "CheckResult") -> Line:
     where = finding_location(finding, result.circuit)
-    line = Text(f"{where}: " if where is not None else "")
+    line = Line(f"{where}: " if where is not None else "")
     line.append(finding.severity, style=_STYLE[finding.severity])
     line.append(" ")
     line.append(finding.rule, style="bold")
@@ -151,7 +158,9 @@ def _left_justified(heading: str) -> bool:
     return heading in ("LED", "part", "resistor")
 
 
-def _table(headings: tuple[str, ...], rows: list[tuple[str, ...]], style: box.Box) -> Table:
+def _table(headings: tuple[str, ...], rows: list[tuple[str, ...]], style: "box.Box") -> "Table":
+    from rich.table import Table
+
     table = Table(box=style, show_edge=False, pad_edge=False, header_style="bold")
     for heading in headings:
         table.add_column(heading, justify="left" if _left_justified(heading) else "right")
@@ -160,8 +169,8 @@ def _table(headings: tuple[str, ...], rows: list[tuple[str, ...]], style: box.Bo
     return table
 
 
-def _group_heading(group: Mapping[str, Any]) -> Text:
-    heading = Text(str(group.get("id", "")), style="bold")
+def _group_heading(group: Mapping[str, Any]) -> Line:
+    heading = Line(str(group.get("id", "")), style="bold")
     heading.append(f": {group.get('topology', UNKNOWN)}")
     heading.append(f" from {group['rail']}" if group.get("rail") else ", rail unknown")
     if group.get("setter"):
@@ -175,9 +184,9 @@ GROUP_LINES_MAX = 40
 """Groups listed one line each without ``--verbose``; past this the rest are counted."""
 
 
-def _group_line(group: Mapping[str, Any]) -> Text:
+def _group_line(group: Mapping[str, Any]) -> Line:
     """``G-D7 parallel from +5V, set by R6: D7–D10 18.5 mA nom (4.39 µA–75.1 mA)``."""
-    line = Text(f"  {group.get('id', '')} {group.get('topology', UNKNOWN)}")
+    line = Line(f"  {group.get('id', '')} {group.get('topology', UNKNOWN)}")
     line.append(f" from {group['rail']}" if group.get("rail") else ", rail unknown")
     if group.get("setter"):
         line.append(f", set by {group['setter']}")
@@ -207,25 +216,38 @@ PIECE_CHARS = 1 << 16
 class _Lines:
     """The report's lines as they are printed, kept until taken (:meth:`take`).
 
-    Without colour, rich prints a :class:`Text` line as its plain text and a newline (control
-    codes are already stripped from ``Text.plain``); only tabs are expanded on the way, so a
-    plain line is kept as it is, while a line with a tab, a table, and everything in colour
-    go through rich. The tests hold the shortcut to rich's own output.
+    Without colour, rich prints a Text line as its plain text and a newline (control codes
+    are already stripped from ``Text.plain``, and from :attr:`Line.plain` alike); only tabs
+    are expanded on the way, so a plain :class:`~linter.report.text_line.Line` is kept as it
+    is, while a line with a tab, a table, and everything in colour go through rich (loaded,
+    and the console made, only then). The tests hold the shortcut to rich's own output.
     """
 
     def __init__(self, color: bool) -> None:
         self.buffer = io.StringIO()
-        self.console = Console(file=self.buffer, force_terminal=color, no_color=not color,
-                               color_system="standard" if color else None,
-                               legacy_windows=False, width=REPORT_WIDTH, highlight=False,
-                               soft_wrap=True, emoji=False, markup=False)
+        self.color = color
+        self._console: "Console | None" = None
         self.plain = not color
         self.pending: list[str] = []
         self.size = 0
 
+    @property
+    def console(self) -> "Console":
+        """The rich console the lines rich must print go through (made on first use)."""
+        if self._console is None:
+            from rich.console import Console
+
+            color = self.color
+            self._console = Console(file=self.buffer, force_terminal=color, no_color=not color,
+                                    color_system="standard" if color else None,
+                                    legacy_windows=False, width=REPORT_WIDTH,
+                                    highlight=False, soft_wrap=True, emoji=False, markup=False)
+        return self._console
+
     def print(self, renderable: Any = None, **options: Any) -> None:
-        """Print one renderable (a blank line when None) as ``Console.print`` would."""
-        if self.plain and (renderable is None or (type(renderable) is Text and not options)):
+        """Print one renderable (a blank line when None) as ``Console.print`` would; a
+        :class:`Line` prints as the rich Text it stands for."""
+        if self.plain and (renderable is None or (type(renderable) is Line and not options)):
             line = "" if renderable is None else renderable.plain
             if "\t" not in line:
                 self.keep(line + "\n")
@@ -233,6 +255,8 @@ class _Lines:
         if renderable is None:
             self.console.print()
         else:
+            if type(renderable) is Line:
+                renderable = renderable.rich_text()
             self.console.print(renderable, **options)
         self.keep(self.buffer.getvalue())
         self.buffer.seek(0)
@@ -277,7 +301,7 @@ class TextReporter(StreamingReporter):
         yield from self._print_findings(lines, result)
 
     def _print_groups(self, lines: _Lines, result: "CheckResult") -> Iterator[None]:
-        style = box.SIMPLE_HEAD if self.options.color else _PLAIN_BOX
+        style: "box.Box | None" = None  # rich's box, only when a table goes through rich
         for record in sorted_records(result.groups):
             group = shown_entry(record)
             lines.print()
@@ -288,15 +312,21 @@ class TextReporter(StreamingReporter):
                 if text is not None:
                     lines.keep(text)  # what rich prints for it (linter.report.text_tables)
                 else:
+                    style = style or self._box()
                     lines.print(_table(headings, rows, style), soft_wrap=False)
             yield
+
+    def _box(self) -> "box.Box":
+        from rich import box
+
+        return box.SIMPLE_HEAD if self.options.color else _plain_box()
 
     def _print_group_lines(self, lines: _Lines, result: "CheckResult") -> None:
         records = sorted_records(result.groups)
         for record in records[:GROUP_LINES_MAX]:
             lines.print(_group_line(shown_entry(record)))
         if len(records) > GROUP_LINES_MAX:
-            lines.print(Text(f"  … and {len(records) - GROUP_LINES_MAX} more groups "
+            lines.print(Line(f"  … and {len(records) - GROUP_LINES_MAX} more groups "
                              "(--verbose lists them all)"))
 
     def _print_findings(self, lines: _Lines, result: "CheckResult") -> Iterator[None]:
@@ -307,10 +337,10 @@ class TextReporter(StreamingReporter):
                 continue
             if not self.options.quiet:
                 lines.print()
-                lines.print(Text(_count_of(len(these), severity).upper(),
+                lines.print(Line(_count_of(len(these), severity).upper(),
                                  style=_STYLE[severity]))
             for finding in these:
                 lines.print(_finding_line(finding, result))
                 if finding.fix:
-                    lines.print(Text(f"    fix: {finding.fix}"))
+                    lines.print(Line(f"    fix: {finding.fix}"))
                 yield
