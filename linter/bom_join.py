@@ -91,8 +91,9 @@ def apply_bom(circuit: Circuit, bom: Bom) -> tuple[Circuit, tuple[BomDiscrepancy
             same_value = matches.get(key)  # type: ignore[assignment]
             if same_value is None:
                 same_value = matches[key] = _value_matches(part, line)
-        if (not same_value and not line.dnp) or (part.part_number and line.part_number):
-            problems.extend(_compare(part, line, same_value))
+        if (not same_value and not line.dnp) or (part.part_number and line.part_number
+                                                 and part.part_number != line.part_number):
+            problems.extend(_compare(part, line, same_value))  # (equal texts agree: no call)
         properties = part.properties
         key = (id(line), same_value, id(properties) if properties else 0)
         joined = enriched.get(key)

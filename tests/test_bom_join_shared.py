@@ -9,7 +9,9 @@ from __future__ import annotations
 
 from dataclasses import fields, replace
 
-from linter.bom_join import _changed, apply_bom
+from hypothesis import given, strategies as st
+
+from linter.bom_join import _changed, _compare, _value_matches, apply_bom
 from linter.model import Circuit, DeviceModel, Part, Pin, SourceLocation
 from linter.readers.bom import parse_bom
 
@@ -74,3 +76,30 @@ def test_changed_keeps_every_other_field() -> None:
     for item in fields(Part):
         if item.name not in ("properties", "part_number"):
             assert getattr(new, item.name) is getattr(part, item.name)
+
+
+_NUMBERS = st.sampled_from([None, "", "LX-1", "lx-1", "LX-2", "M1"])
+
+
+@given(st.lists(st.tuples(_NUMBERS, _NUMBERS, st.booleans(), st.sampled_from(["1k", "2k"])),
+                min_size=1, max_size=6))
+def test_discrepancies_as_plain(cases) -> None:
+    # Reference: our own plain path, _compare asked for every joined part (the join only
+    # skips parts whose part numbers are equal texts and whose values agree).
+    parts, rows = {}, ["Ref,Value,Part Number"]
+    for index, (netlist_number, bom_number, has_model, value) in enumerate(cases):
+        ref = f"R{index + 1}"
+        model = DeviceModel("M1", "R") if has_model else None
+        parts[ref] = Part(ref, "resistor", value, PINS, HERE, part_number=netlist_number,
+                          model=model)
+        rows.append(f"{ref},1k,{bom_number or ''}")
+    circuit = Circuit("t.edif", "edif", parts, {})
+    bom = parse_bom("\n".join(rows) + "\n", "b.csv")
+    _, problems = apply_bom(circuit, bom)
+    expected = []
+    for line in bom.lines:
+        for ref in line.refs:
+            part = parts[ref]
+            same = _value_matches(part, line)
+            expected.extend(_compare(part, line, same))
+    assert [p for p in problems if p.kind in ("value", "part-number")] == expected
