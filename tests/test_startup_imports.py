@@ -26,10 +26,11 @@ HEAVY = ("rich", "networkx", "pint", "scipy", "matplotlib", "schemdraw", "jinja2
 # Standard-library modules only an error, an option or another command needs:
 # importlib.resources (the defaults file is read as a plain file), difflib (suggestions in a
 # bad settings file), tempfile (atomic report files, --output), threading (the progress bar's
-# timer, on a terminal only), decimal (EDIF (e m x) numbers; the demo has none); linter's
-# batch and many-board modules.
+# timer, on a terminal only), decimal (EDIF (e m x) numbers; the demo has none), shutil (the
+# help formatter's width is found without it: linter.cli._terminal_columns); linter's batch
+# and many-board modules.
 NOT_ON_ONE_BOARD = ("importlib.resources", "difflib", "tempfile", "threading", "decimal",
-                    "linter.cli_many", "linter.batch")
+                    "shutil", "linter.cli_many", "linter.batch")
 
 _PROBE = """
 import io, json, sys
