@@ -167,6 +167,7 @@ class CircuitIndex:
         self.rails = rails
         self.part_data = part_data
         self._terminals: dict[str, dict[str, Pin] | None] = {}
+        self._supplies: dict[str, str | None] = {}
         self._from_parts: dict[str, list[tuple[str, str]]] | None = None
         self._kinds = self._all_kinds()
         self._roles = self._all_roles()
@@ -176,6 +177,7 @@ class CircuitIndex:
         self.pins_on = _Memo(self._pins_on).__getitem__
         self.split = _Memo(self._split).__getitem__
         self._led_pins = _Memo(self._find_led_pins).__getitem__
+        self.series_pins = _Memo(self._series_pins).__getitem__
         self.led_rank: dict[str, int] = {}  # LED → its place in natural order (set by topology)
         self._rail_keys = {net: natural_key(net) for net in rails}
 
@@ -196,7 +198,8 @@ class CircuitIndex:
         index and everything it remembered (tens of MiB on a large board) would wait for the
         garbage collector, which topology pauses, instead of going when the groups are made.
         """
-        for lookup in (self.sort_key, self.pins_on, self.split, self._led_pins):
+        for lookup in (self.sort_key, self.pins_on, self.split, self._led_pins,
+                       self.series_pins):
             memo = lookup.__self__  # type: ignore[attr-defined]
             memo.clear()
             memo.compute = None
@@ -204,6 +207,7 @@ class CircuitIndex:
         self._roles.clear()
         self.led_rank = {}
         self._terminals.clear()
+        self._supplies.clear()
         self._from_parts = None
 
     # -- parts -------------------------------------------------------------------------
@@ -237,7 +241,10 @@ class CircuitIndex:
         declared = self.circuit.nets.get(net)
         raw = declared.pins if declared is not None else self._pins_from_parts(net)
         roles = self._roles  # (a pin of a part the Circuit does not have is left out too)
-        return tuple([pair for pair in raw if roles.get(pair[0], "open") != "open"])
+        for pair in raw:
+            if roles.get(pair[0], "open") == "open":
+                return tuple([pair for pair in raw if roles.get(pair[0], "open") != "open"])
+        return raw  # (the net's own tuple when nothing is left out: no copy)
 
     def _pins_from_parts(self, net: str) -> tuple[tuple[str, str], ...]:
         """Fallback for a net a pin names but the Circuit does not list (built once)."""
@@ -265,7 +272,9 @@ class CircuitIndex:
                 rest.append(pair)
                 if role == "foreign":
                     foreign.append(pair)
-        return NetSplit(tuple(mcu), tuple(controls), tuple(rest), tuple(foreign))
+        pins = self.pins_on(net)
+        return NetSplit(tuple(mcu), tuple(controls),
+                        pins if len(rest) == len(pins) else tuple(rest), tuple(foreign))
 
     def _is_control(self, ref: str, pin_name: str) -> bool:
         terminals = self.transistor_pins(ref)
@@ -274,6 +283,18 @@ class CircuitIndex:
     def rail(self, net: str | None) -> Rail | None:
         """The rail on ``net``, or None."""
         return None if net is None else self.rails.get(net)
+
+    def _series_pins(self, net: str) -> tuple[tuple[str, str], tuple[str, str]] | None:
+        """The two (ref, pin) pairs of a series node (see :meth:`is_series_node`), else None."""
+        if net in self.rails:
+            return None
+        pins = self.pins_on(net)
+        if len(pins) != 2:
+            return None
+        roles = self._roles
+        if roles[pins[0][0]] == "series" and roles[pins[1][0]] == "series":
+            return pins  # type: ignore[return-value]
+        return None
 
     def is_series_node(self, net: str) -> bool:
         """True for a net that only joins two pins of two two-terminal parts."""
@@ -302,7 +323,7 @@ class CircuitIndex:
         first, second = pins
         one, other = first.name.casefold(), second.name.casefold()
         if one in LED_ANODE_NAMES and other in LED_CATHODE_NAMES:
-            return first, second
+            return pins  # (the part's own pair, already anode first: no new tuple)
         if other in LED_ANODE_NAMES and one in LED_CATHODE_NAMES:
             return second, first
         return None  # (the two name sets share no name)
@@ -334,7 +355,13 @@ class CircuitIndex:
         return kind if kind in ("npn", "pnp", "nmos", "pmos") else None  # type: ignore[return-value]
 
     def supply_net(self, ref: str) -> str | None:
-        """The net of a microcontroller's supply pin, when its data or a VDD/VCC name says."""
+        """The net of a microcontroller's supply pin, when its data or a VDD/VCC name says
+        (cached: a microcontroller drives many groups)."""
+        if ref not in self._supplies:
+            self._supplies[ref] = self._supply_net(ref)
+        return self._supplies[ref]
+
+    def _supply_net(self, ref: str) -> str | None:
         data = self.part_data.get(ref)
         wanted = data.supply_pins if isinstance(data, McuData) and data.supply_pins \
             else _SUPPLY_NAMES

@@ -83,18 +83,23 @@ def _led_direction(index: CircuitIndex, chain: Chain, position: int) -> int:
 def orient(index: CircuitIndex, chain: Chain) -> Strand:
     """The chain as a :class:`Strand`, turned so that its LEDs point along it."""
     kind = index.kind
-    directions = {ref: _led_direction(index, chain, i)
-                  for i, ref in enumerate(chain.parts) if kind(ref) == "led"}
-    if len(set(directions.values())) > 1:
-        forward = [ref for ref, way in directions.items() if way > 0]
-        backward = [ref for ref, way in directions.items() if way < 0]
-        raise NotABank(f"{', '.join(forward)} and {', '.join(backward)} face opposite ways "
-                       f"in one series path")
-    if directions and next(iter(directions.values())) < 0:
-        chain = Chain(tuple(reversed(chain.parts)), tuple(reversed(chain.nets)))
-    leds = tuple([ref for ref in chain.parts if ref in directions])
+    leds: list[str] = []
+    directions: list[int] = []
+    for position, ref in enumerate(chain.parts):
+        if kind(ref) == "led":
+            leds.append(ref)
+            directions.append(_led_direction(index, chain, position))
+    if leds:
+        if min(directions) != max(directions):
+            forward = [ref for ref, way in zip(leds, directions) if way > 0]
+            backward = [ref for ref, way in zip(leds, directions) if way < 0]
+            raise NotABank(f"{', '.join(forward)} and {', '.join(backward)} face opposite "
+                           f"ways in one series path")
+        if directions[0] < 0:
+            chain = Chain(chain.parts[::-1], chain.nets[::-1])
+            leds.reverse()
     resistors = tuple([ref for ref in chain.parts if kind(ref) == "resistor"])
-    return Strand(chain, leds, resistors)
+    return Strand(chain, tuple(leds), resistors)
 
 
 def _feed(net: str, others: list[Strand], terminals: set[str], used: list[Strand]) -> str:

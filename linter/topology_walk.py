@@ -85,13 +85,16 @@ def _extend(index: CircuitIndex, ref: str, pin: Pin, seen: set[str]) -> tuple[li
     """Parts and nets beyond ``ref``'s ``pin`` while the nets are series nodes."""
     parts: list[str] = []
     nets: list[str | None] = []
-    is_series_node, pins_on, other_pin = index.is_series_node, index.pins_on, index.other_pin
+    series_pins, all_parts = index.series_pins, index.circuit.parts
     while True:
         net = pin.net
         nets.append(net)
-        if net is None or not is_series_node(net):
+        if net is None:
             return parts, nets
-        (ref_a, pin_a), (ref_b, pin_b) = pins_on(net)
+        pair = series_pins(net)
+        if pair is None:
+            return parts, nets
+        (ref_a, pin_a), (ref_b, pin_b) = pair
         if ref_a == ref and pin_a == pin.name:
             following, following_pin = ref_b, pin_b
         else:
@@ -100,7 +103,8 @@ def _extend(index: CircuitIndex, ref: str, pin: Pin, seen: set[str]) -> tuple[li
             return parts, nets
         seen.add(following)
         parts.append(following)
-        ref, pin = following, other_pin(following, following_pin)
+        first, second = all_parts[following].pins  # (series parts have two pins)
+        ref, pin = following, (second if first.name == following_pin else first)
 
 
 def walk_chain(index: CircuitIndex, start: str) -> Chain:
@@ -110,7 +114,7 @@ def walk_chain(index: CircuitIndex, start: str) -> Chain:
     is ``Chain(parts=("R1", "D1"), nets=("+5V", "A1", "GND"))`` (or its reverse, depending on
     the pin order of ``start``).
     """
-    first, second = index.part(start).pins
+    first, second = index.circuit.parts[start].pins
     seen = {start}
     ahead_parts, ahead_nets = _extend(index, start, second, seen)
     back_parts, back_nets = _extend(index, start, first, seen)
@@ -227,25 +231,24 @@ def grow_cluster(index: CircuitIndex, led: str, limit: int = MAX_GROUP_PARTS) ->
         return _lone_led(index, cluster, led)
     queue: deque[str] = deque()
     _add_chain(index, cluster, walk_chain(index, led), queue)
-    visited: set[str] = set()
+    nets, rails, split = cluster.nets, index.rails, index.split  # (nets: those visited so far)
     while queue:
         net = queue.popleft()
-        if net in visited:
+        if net in nets:
             continue
-        visited.add(net)
-        cluster.nets.add(net)
-        if net in index.rails:
+        nets.add(net)
+        if net in rails:
             continue
-        pins = _mcu_pins(index, net)
-        if pins:
-            cluster.pins.extend(pins)
+        if split(net).mcu:
+            cluster.pins.extend(_mcu_pins(index, net))
             continue
         _visit_net(index, cluster, net, queue, limit)
         if len(cluster.seen) > limit:
             cluster.problems.append(f"the network around {led} has more than {limit} parts")
             break
     for chain in cluster.chains:
-        cluster.nets.update(net for net in chain.nets if net is not None)
+        nets.update(chain.nets)
+    nets.discard(None)  # (an unconnected end; no other None is ever added)
     return cluster
 
 
