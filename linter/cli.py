@@ -139,8 +139,11 @@ def _run_check(args: argparse.Namespace) -> int:
         from linter.cli_many import run_many
 
         return run_many(args)
-    from linter.engine import CheckRequest, run_check
-    from linter.findings import severity_rank
+    from linter.gc_pause import paused_gc
+
+    with paused_gc():  # imports make no garbage cycles to collect (engine.load_check_modules)
+        from linter.engine import CheckRequest, run_check
+        from linter.findings import severity_rank
 
     netlists = (args.netlist,)
     _refuse_output_over_input(args, netlists)

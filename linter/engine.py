@@ -85,6 +85,21 @@ def _rule_registry() -> dict[str, Any]:
     return all_rules()
 
 
+def load_check_modules() -> dict[str, Any]:
+    """The rule registry, every module a check runs imported first (the rules, topology,
+    analysis), with the cyclic collector paused meanwhile.
+
+    Importing allocates many long-lived objects (functions, classes, tables) and no garbage
+    cycles worth collecting; the collector would walk them again and again (about 50 young
+    collections on a demo check, a few percent of its start-up). Importing twice is free.
+    """
+    with paused_gc():
+        import linter.analysis  # noqa: F401
+        import linter.topology  # noqa: F401
+
+        return _rule_registry()
+
+
 def load_inputs(request: CheckRequest, registry: Mapping[str, Any] | None = None) -> AnalysisContext:
     """Read and enrich every input of ``request`` into an :class:`AnalysisContext` (no groups)."""
     registry = _rule_registry() if registry is None else registry
@@ -146,7 +161,7 @@ def run_rules(context: AnalysisContext, registry: Mapping[str, Any] | None = Non
 
 def run_check(request: CheckRequest) -> CheckResult:
     """Read, enrich, analyse and check the netlist named in ``request``."""
-    registry = _rule_registry()
+    registry = load_check_modules()
     context = analyse(load_inputs(request, registry))
     findings = run_rules(context, registry)
     today = request.today or dt.date.today()

@@ -77,3 +77,23 @@ def test_plain_text_report_loads_no_rich() -> None:
     probe = _loaded_after_check("text", ("rich",))
     assert probe["status"] == 1 and probe["written"] > 0
     assert probe["loaded"] == []
+
+
+def test_load_check_modules_gives_the_registry_and_restores_the_collector() -> None:
+    """engine.load_check_modules: the rule registry (the same as rules.all_rules), topology
+    and analysis imported, the collector on again afterwards (and left off when it was off)."""
+    import gc
+
+    from linter.engine import load_check_modules
+    from linter.rules import all_rules
+
+    assert gc.isenabled()
+    assert load_check_modules() == all_rules()
+    assert gc.isenabled()
+    assert "linter.analysis" in sys.modules and "linter.topology" in sys.modules
+    gc.disable()
+    try:
+        load_check_modules()
+        assert not gc.isenabled()
+    finally:
+        gc.enable()
