@@ -48,10 +48,11 @@ class FloatingLed(Rule):
                 continue
             reported.update(group.leds)
             yield self._finding(context, group.leds, reason, group.id)
+        nets = context.circuit.nets
         for part in context.circuit.leds():
             if part.ref in reported:
                 continue
-            open_pins = [pin.name for pin in part.pins if not _connected(context, pin.net)]
+            open_pins = [pin.name for pin in part.pins if not _joined(nets, pin.net)]
             if open_pins:
                 reason = f"{part.ref}: pin {', '.join(open_pins)} is not connected"
                 yield self._finding(context, (part.ref,), reason, None)
@@ -75,7 +76,12 @@ def _is_floating(reason: str) -> bool:
 
 def _connected(context: Any, net: str | None) -> bool:
     """True when the net exists and joins at least one other pin."""
+    return _joined(context.circuit.nets, net)
+
+
+def _joined(nets: Any, net: str | None) -> bool:
+    """:func:`_connected` with the circuit's nets mapping at hand."""
     if net is None:
         return False
-    found = context.circuit.nets.get(net)
+    found = nets.get(net)
     return found is None or len(found.pins) > 1

@@ -79,8 +79,15 @@ class LedOvercurrent(Rule):
     default_severity = "error"
 
     def check(self, context: Any) -> Iterable[Finding]:
+        # is_shared and is_pulsed, with the board's settings read once
+        shared_on = context.enabled(SHARED)
+        pulsed = context.settings.pulsed
+        pulsed_on = bool(pulsed) and context.enabled(PULSED)
         for result in solved_groups(context):
-            if is_shared(context, result) or is_pulsed(context, result):
+            group = result.group
+            if shared_on and group.topology == "parallel" and len(group.strings) > 1:
+                continue
+            if pulsed_on and any(net in pulsed for net in group.nets):
                 continue
             finding = self._group_finding(context, result)
             if finding is not None:

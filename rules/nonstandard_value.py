@@ -42,10 +42,12 @@ class NonstandardValue(Rule):
 
     def check(self, context: Any) -> Iterable[Finding]:
         severity = context.severity(self)
+        standard: dict[tuple[float, float], bool] = {}  # by (Ω, tolerance): board's values repeat
         for part in context.circuit.parts.values():
             if part.kind != "resistor":
                 continue
-            finding = _check_resistor(part, context.part_data.get(part.ref), self.id, severity)
+            finding = _check_resistor(part, context.part_data.get(part.ref), self.id, severity,
+                                      standard)
             if finding is not None:
                 yield finding
 
@@ -72,14 +74,24 @@ def _tighter_home(ohms: float, series: str) -> str | None:
     return None
 
 
-def _check_resistor(part: Part, data: Any, rule: str, severity: str) -> Finding | None:
-    """The finding for one resistor, or None when its value is standard or unknown."""
+def _check_resistor(part: Part, data: Any, rule: str, severity: str,
+                    standard: dict[tuple[float, float], bool] | None = None) -> Finding | None:
+    """The finding for one resistor, or None when its value is standard or unknown.
+    ``standard`` keeps the verdicts of (Ω, tolerance) pairs met before (both positive
+    floats, so each key stands for one value)."""
     ohms, tolerance, assumed = _ohms_and_tolerance(part, data)
     if ohms is None or ohms <= 0 or tolerance <= 0:
         return None  # a link, or a value nobody knows: other rules report those
-    accepted = eseries.accepted_series(tolerance)
-    if any(eseries.is_standard(ohms, series) for series in accepted):
+    key = (ohms, tolerance) if type(ohms) is float and type(tolerance) is float else None
+    known = None if standard is None or key is None else standard.get(key)
+    if known is None:
+        known = any(eseries.is_standard(ohms, series)
+                    for series in eseries.accepted_series(tolerance))
+        if standard is not None and key is not None:
+            standard[key] = known
+    if known:
         return None
+    accepted = eseries.accepted_series(tolerance)
     own = accepted[0]
     low, high = eseries.neighbours(ohms, own)
     names = " or ".join(accepted)

@@ -49,12 +49,13 @@ class ResistorOverload(Rule):
         ambient = context.settings.ambient.max
         share = context.settings.derating.resistor_power
         seen: set[str] = set()
+        allowances: dict[float, Allowance] = {}  # by rating: ambient and share are the board's
         for result in solved_groups(context):
             for resistor in result.resistors:
                 if resistor.ref in seen or resistor.rating_w is None:
                     continue
                 seen.add(resistor.ref)
-                allowance = resistor_allowance(resistor.rating_w, ambient, share)
+                allowance = _allowance(resistor.rating_w, ambient, share, allowances)
                 if over(resistor.power.max, allowance):
                     yield self._finding(context, result, resistor, allowance)
 
@@ -72,6 +73,19 @@ class ResistorOverload(Rule):
                        parts=(resistor.ref,), group=result.id, values=values,
                        fix=_fix(resistor.ref, power.max, allowance, values),
                        location=part_location(context, resistor.ref))
+
+
+def _allowance(rating_w: float, ambient_c: float, share: float,
+               known: dict[float, Allowance]) -> Allowance:
+    """``resistor_allowance(rating_w, ambient_c, share)``, kept in ``known`` by rating for
+    one board's ambient and share (a zero or a non-float rating is not kept: ``-0.0`` and
+    ``0.0`` are equal keys)."""
+    if type(rating_w) is not float or rating_w == 0.0:
+        return resistor_allowance(rating_w, ambient_c, share)
+    found = known.get(rating_w)
+    if found is None:
+        found = known[rating_w] = resistor_allowance(rating_w, ambient_c, share)
+    return found
 
 
 def _fix(ref: str, power_w: float, allowance: Allowance, values: dict) -> str:

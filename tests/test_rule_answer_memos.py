@@ -119,3 +119,32 @@ def test_shared_ballast_hottest_is_the_plain_sorted_maximum():
              [led("LED2", 0.02), led("D2", 0.02), led("D02", 0.02)]]
     for leds in cases:
         assert hottest(leds) is plain(leds)
+
+
+
+def test_nonstandard_verdicts_kept_by_value_match_the_plain_check():
+    from linter.model import Part, Pin
+    from linter.partdata import ResistorData
+
+    module = sys.modules["linter.rules.nonstandard_value"]
+    # values in Ω and tolerances invented; E24/E96 membership decided by eseries itself
+    cases = [(120.0, 0.05), (120.0, 0.01), (121.0, 0.01), (121.0, 0.05), (1234.0, 0.05),
+             (120.0, 0.05), (1234.0, 0.05), (4.7e3, 0.1), (4.75e3, 0.1), (4.75e3, 0.01)]
+    kept: dict = {}
+    for index, (ohms, tolerance) in enumerate(cases * 2):
+        part = Part(f"R{index}", "resistor", str(ohms), (Pin("1", "a"), Pin("2", "b")), ohms)
+        data = ResistorData(ohms=ohms, tolerance=tolerance)
+        assert module._check_resistor(part, data, "nonstandard-value", "info", kept) == \
+            module._check_resistor(part, data, "nonstandard-value", "info")
+    assert len(kept) == len(set(cases))
+
+
+def test_resistor_allowances_kept_by_rating_match_the_plain_allowance():
+    from linter.dissipation import resistor_allowance
+
+    module = sys.modules["linter.rules.resistor_overload"]
+    kept: dict = {}
+    # ratings in W, ambient 85 °C, share 0.6 (invented)
+    for rating in (0.1, 0.25, 0.1, 0.0, -0.0, 1, 0.25):
+        assert module._allowance(rating, 85.0, 0.6, kept) == resistor_allowance(rating, 85.0, 0.6)
+    assert sorted(kept) == [0.1, 0.25]
