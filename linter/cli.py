@@ -16,7 +16,7 @@ from typing import Any, NoReturn, Sequence
 
 from linter import __version__
 from linter.errors import LedlintError, UsageError, one_line
-from linter.report import ReportFormat
+from linter.gc_pause import paused_gc
 
 __all__ = ["main", "EXIT_CLEAN", "EXIT_FINDINGS", "EXIT_BAD_INPUT"]
 
@@ -68,6 +68,8 @@ class _Parser(argparse.ArgumentParser):
 
 
 def _build_parser() -> argparse.ArgumentParser:
+    from linter.report import ReportFormat
+
     parser = _Parser(prog="ledlint", description="Design-rule checker for LED drive circuits.")
     parser.add_argument("--version", action="version", version=f"ledlint {__version__}")
     commands = parser.add_subparsers(dest="command", required=True, parser_class=_Parser)
@@ -139,8 +141,6 @@ def _run_check(args: argparse.Namespace) -> int:
         from linter.cli_many import run_many
 
         return run_many(args)
-    from linter.gc_pause import paused_gc
-
     with paused_gc():  # imports make no garbage cycles to collect (engine.load_check_modules)
         from linter.engine import CheckRequest, run_check
         from linter.findings import severity_rank
@@ -159,9 +159,12 @@ def _run_check(args: argparse.Namespace) -> int:
                                                   baseline=args.baseline)))
         progress.step(f"writing the {args.format} report")
         to_terminal = args.output is None and sys.stdout.isatty() and "NO_COLOR" not in os.environ
-        reporter = ReportFormat(args.format).reporter(verbose=args.verbose, quiet=args.quiet,
-                                                      color=to_terminal)
-        from linter.report.stream import report_chunks
+        with paused_gc():  # the reporter's modules imported: no cycles to collect
+            from linter.report import ReportFormat
+            from linter.report.stream import report_chunks
+
+            reporter = ReportFormat(args.format).reporter(verbose=args.verbose,
+                                                          quiet=args.quiet, color=to_terminal)
 
         pieces = report_chunks(reporter, results)  # made as written: no whole report in memory
         if args.output is not None:
@@ -225,7 +228,9 @@ def _run_rules(args: argparse.Namespace) -> int:
 def main(argv: Sequence[str] | None = None) -> int:
     """Entry point of the ``ledlint`` console script; returns the exit code."""
     try:
-        args = _build_parser().parse_args(argv)
+        with paused_gc():  # the parser and the report module imported: no cycles to collect
+            parser = _build_parser()
+        args = parser.parse_args(argv)
         if args.command == "check":
             return _run_check(args)
         if args.command == "baseline":
