@@ -105,8 +105,11 @@ def _groups_with(index: CircuitIndex, circuit: Circuit) -> tuple[Group, ...]:
 
 def _cluster_leds(index: CircuitIndex, cluster: Cluster, order: Mapping[str, int],
                   placed: set[str]) -> tuple[str, ...]:
+    kind = index.kind
     found = [ref for chain in cluster.chains for ref in chain.parts
-             if index.kind(ref) == "led" and ref not in placed]
+             if kind(ref) == "led" and ref not in placed]
+    if len(found) == 1:
+        return (found[0],)
     return tuple(sorted(found, key=order.__getitem__))
 
 

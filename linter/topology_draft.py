@@ -51,25 +51,23 @@ class Draft:
               transistor: str | None = None, drive: str | None = None) -> Group:
         """The frozen Group; parts and nets gathered from the cluster and the extras."""
         pins = self.pins()
-        all_rails = self.index.rails
-        parts = {ref for chain in self.cluster.chains for ref in chain.parts}
-        parts.update(self.cluster.transistors, self.extra_parts)
-        nets = set(self.cluster.nets)
-        nets.update(self.extra_nets)
+        index, cluster = self.index, self.cluster
+        all_rails = index.rails
+        parts = set(self.extra_parts)
+        for chain in cluster.chains:
+            parts.update(chain.parts)
+        parts.update(cluster.transistors)
+        nets = cluster.nets.union(self.extra_nets)
         if pins:
-            parts.update(p.part for p in pins)
-            nets.update(p.supply for p in pins if p.supply in all_rails)
-        sorted_nets = self.index.natural_sorted(nets)
-        first = min(self.leds, key=self.index.led_rank.__getitem__) if len(self.leds) > 1 \
-            else self.leds[0]
+            parts.update([p.part for p in pins])
+            nets.update([p.supply for p in pins if p.supply in all_rails])
+        sorted_nets = index.natural_sorted(nets)
+        leds = self.leds
+        first = min(leds, key=index.led_rank.__getitem__) if len(leds) > 1 else leds[0]
         return Group(
-            id=f"G-{first}", topology=topology, leds=self.leds, strings=self.strings(),
-            parts=tuple(self.index.natural_sorted(parts)),
-            nets=tuple(sorted_nets),
-            rails=tuple([net for net in sorted_nets if net in all_rails]), setter=setter,
-            pins=pins,
-            scenarios=scenarios or (Scenario("on", {}, self.leds),), reason=reason,
-            transistor=transistor, drive=drive)
+            f"G-{first}", topology, leds, self.strings(), tuple(index.natural_sorted(parts)),
+            tuple(sorted_nets), tuple([net for net in sorted_nets if net in all_rails]),
+            setter, pins, scenarios or (Scenario("on", {}, leds),), reason, transistor, drive)
 
     def unrecognised(self, reason: str) -> Group:
         return self.group("unrecognised", reason=reason)
