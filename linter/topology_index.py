@@ -24,7 +24,6 @@ from __future__ import annotations
 
 import re
 from dataclasses import dataclass
-from functools import cached_property
 from typing import Any, Callable, Literal, Mapping
 
 from linter.model import Circuit, Part, Pin
@@ -71,25 +70,25 @@ _ROLE_BY_KIND: dict[str, Role] = {
 """The role of a part by its kind, for kinds outside :data:`SERIES_KINDS` (others: foreign)."""
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class NetSplit:
     """The pins of one net by what a walk does with them.
 
     ``mcu``: microcontroller pins; ``controls``: transistors whose base or gate is on the
     net; ``rest``: every other (reference, pin) pair; ``foreign``: those of ``rest`` whose
     part no walk passes through (connector, source, IC, plain diode…). A bias net shared by
-    thousands of sinks is split once, not once per sink.
+    thousands of sinks is split once, not once per sink. ``control_set`` is ``controls`` as
+    a set, for membership tests (made when the split is; slots, no per-split dict).
     """
 
     mcu: tuple[tuple[str, str], ...]
     controls: tuple[str, ...]
     rest: tuple[tuple[str, str], ...]
     foreign: tuple[tuple[str, str], ...] = ()
+    control_set: frozenset[str] = frozenset()
 
-    @cached_property
-    def control_set(self) -> frozenset[str]:
-        """``controls`` as a set, for membership tests."""
-        return frozenset(self.controls)
+
+_NO_CONTROLS: frozenset[str] = frozenset()
 
 
 def _natural_key(name: str) -> tuple[tuple[str | tuple[int, str], ...], str]:
@@ -176,8 +175,6 @@ class CircuitIndex:
         self.sort_key = _Memo(natural_key).__getitem__
         self.pins_on = _Memo(self._pins_on).__getitem__
         self.split = _Memo(self._split).__getitem__
-        self._led_pins = _Memo(self._find_led_pins).__getitem__
-        self.series_pins = _Memo(self._series_pins).__getitem__
         self.led_rank: dict[str, int] = {}  # LED → its place in natural order (set by topology)
         self._rail_keys = {net: natural_key(net) for net in rails}
 
@@ -198,8 +195,7 @@ class CircuitIndex:
         index and everything it remembered (tens of MiB on a large board) would wait for the
         garbage collector, which topology pauses, instead of going when the groups are made.
         """
-        for lookup in (self.sort_key, self.pins_on, self.split, self._led_pins,
-                       self.series_pins):
+        for lookup in (self.sort_key, self.pins_on, self.split):
             memo = lookup.__self__  # type: ignore[attr-defined]
             memo.clear()
             memo.compute = None
@@ -274,7 +270,8 @@ class CircuitIndex:
                     foreign.append(pair)
         pins = self.pins_on(net)
         return NetSplit(tuple(mcu), tuple(controls),
-                        pins if len(rest) == len(pins) else tuple(rest), tuple(foreign))
+                        pins if len(rest) == len(pins) else tuple(rest), tuple(foreign),
+                        frozenset(controls) if controls else _NO_CONTROLS)
 
     def _is_control(self, ref: str, pin_name: str) -> bool:
         terminals = self.transistor_pins(ref)
@@ -284,10 +281,20 @@ class CircuitIndex:
         """The rail on ``net``, or None."""
         return None if net is None else self.rails.get(net)
 
-    def _series_pins(self, net: str) -> tuple[tuple[str, str], tuple[str, str]] | None:
-        """The two (ref, pin) pairs of a series node (see :meth:`is_series_node`), else None."""
+    def series_pins(self, net: str) -> tuple[tuple[str, str], tuple[str, str]] | None:
+        """The two (ref, pin) pairs of a series node (see :meth:`is_series_node`), else None.
+
+        Not cached: a chain walk asks about each series node once, and the common node (a
+        net the Circuit lists with exactly two pins) is answered from the net itself.
+        """
         if net in self.rails:
             return None
+        declared = self.circuit.nets.get(net)
+        if declared is not None and len(declared.pins) == 2:
+            (ref_a, _), (ref_b, _) = pins = declared.pins
+            roles = self._roles
+            if roles.get(ref_a) == "series" and roles.get(ref_b) == "series":
+                return pins  # type: ignore[return-value]  # (what pins_on would give)
         pins = self.pins_on(net)
         if len(pins) != 2:
             return None
@@ -313,10 +320,8 @@ class CircuitIndex:
         return second if first.name == pin_name else first
 
     def led_pins(self, ref: str) -> tuple[Pin, Pin] | None:
-        """(anode, cathode) of an LED, or None when its pin names do not say (cached)."""
-        return self._led_pins(ref)
-
-    def _find_led_pins(self, ref: str) -> tuple[Pin, Pin] | None:
+        """(anode, cathode) of an LED, or None when its pin names do not say (not cached: an
+        LED is asked about once, when its group is labelled)."""
         pins = self.circuit.parts[ref].pins
         if len(pins) != 2:
             return None
