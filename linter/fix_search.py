@@ -324,6 +324,16 @@ _BOARD: list = [None, None, ""]
 """(rails, settings, their text) of the board last asked about."""
 
 
+def _group_text(group: Any) -> str:
+    """``repr(replace(group, id=''))``: the group's text with its id spliced out (no copy
+    of the group made), or the copy's text when the text does not open with the id."""
+    text = repr(group)
+    head = f"{type(group).__name__}(id={group.id!r}"
+    if isinstance(group.id, str) and text.startswith(head):
+        return f"{type(group).__name__}(id=''{text[len(head):]}"
+    return repr(replace(group, id=""))
+
+
 def signature(context: Any, result: GroupResult, question: Any) -> bytes | None:
     """A digest of everything a fix search on ``result``'s group reads, names made neutral.
 
@@ -349,7 +359,7 @@ def signature(context: Any, result: GroupResult, question: Any) -> bytes | None:
                      for r in sorted(names))
     # the text of repr((group, parts, question, data, rails, ambient)), records shared by
     # many parts (and the board's rails) written once
-    text = (f"({replace(group, id='')!r}, {parts!r}, {question!r}, [{data}], "
+    text = (f"({_group_text(group)}, {parts!r}, {question!r}, [{data}], "
             f"{_board_text(context)})")
     order: dict[str, int] = {}
     pieces = _QUOTED.split(text)  # text, quoted name, text, quoted name, …, text

@@ -148,3 +148,18 @@ def test_resistor_allowances_kept_by_rating_match_the_plain_allowance():
     for rating in (0.1, 0.25, 0.1, 0.0, -0.0, 1, 0.25):
         assert module._allowance(rating, 85.0, 0.6, kept) == resistor_allowance(rating, 85.0, 0.6)
     assert sorted(kept) == [0.1, 0.25]
+
+
+def test_fix_search_group_text_is_the_text_of_the_copy_without_id():
+    from linter import fix_search
+    from linter.engine import CheckRequest, analyse, load_inputs
+
+    root = RULES.parent
+    compared = 0
+    for netlist in [root / "demo" / "dust_extractor_panel.cir",
+                    *sorted(RULES.glob("*/*.cir"))[:30]]:
+        context = analyse(load_inputs(CheckRequest(netlist, None), all_rules()))
+        for result in context.groups:
+            assert fix_search._group_text(result.group) == repr(replace(result.group, id=""))
+            compared += 1
+    assert compared > 30
