@@ -3,7 +3,9 @@
 A command is run once untimed (the warm-up, which also checks that it works and keeps its
 standard output for inspection), then ``runs`` times with its standard output sent to
 /dev/null. Each run's wall-clock time is taken around the process; its peak resident memory
-is the ``ru_maxrss`` that :func:`os.wait4` returns for that one child (KiB on Linux).
+is the ``ru_maxrss`` that :func:`os.wait4` returns for that one child (KiB on Linux), both
+taken by ``bench/launch.py``, a small process the command is forked from (forked from this
+harness, a child would be charged with the harness's own resident memory).
 
 A measure that cannot run (exit status other than 0 or 1, a crash, a missing program) is
 recorded with its error and no number: never a guessed one.
@@ -15,10 +17,11 @@ import gc
 import os
 import statistics
 import subprocess
+import sys
 import tempfile
-import threading
 import time
 from dataclasses import dataclass, field
+from pathlib import Path
 from typing import Any, Callable, Sequence
 
 __all__ = ["Measure", "run_command", "time_call", "OK_EXIT_CODES"]
@@ -52,27 +55,34 @@ class Measure:
                 "peak_kb": self.peak_kb, "error": self.error}
 
 
+LAUNCHER = Path(__file__).with_name("launch.py")
+"""The small process each measured command is forked from (see its docstring)."""
+
+
 def _once(command: Sequence[str], keep_output: bool) -> tuple[float, int, int, str, str]:
     """Seconds, exit status, peak KiB, standard output (if kept) and error of one run.
 
-    A run still going after :data:`TIMEOUT` seconds is killed; its error text says so.
+    The command is started by :data:`LAUNCHER`, which times it and reads its own ``ru_maxrss``
+    (the time excludes the launcher's start). A run still going after :data:`TIMEOUT` seconds
+    is killed; its error text says so.
     """
-    with tempfile.TemporaryFile() as err, tempfile.TemporaryFile() as out:
-        started = time.perf_counter()
-        process = subprocess.Popen(command, stdin=subprocess.DEVNULL,
-                                   stdout=out if keep_output else subprocess.DEVNULL,
-                                   stderr=err)
-        timer = threading.Timer(TIMEOUT, process.kill)
-        timer.start()
-        _, status, usage = os.wait4(process.pid, 0)
-        elapsed = time.perf_counter() - started
-        timer.cancel()
+    with tempfile.TemporaryFile() as err, tempfile.TemporaryFile() as out, \
+            tempfile.TemporaryDirectory() as scratch:
+        result = Path(scratch) / "result"
+        subprocess.run([sys.executable, "-S", str(LAUNCHER), str(result), str(TIMEOUT),
+                        *command], stdin=subprocess.DEVNULL,
+                       stdout=out if keep_output else subprocess.DEVNULL, stderr=err,
+                       check=True)
+        recorded = result.read_text(encoding="utf-8")
+        if recorded.startswith("cannot-start "):
+            raise OSError(None, recorded.split(" ", 1)[1].strip())
+        seconds, status, peak = recorded.split()
+        elapsed = float(seconds)
         if elapsed >= TIMEOUT:
             err.write(f"timed out after {TIMEOUT:g} s\n".encode())
-        process.returncode = os.waitstatus_to_exitcode(status)
         err.seek(0)
         out.seek(0)
-        return (elapsed, process.returncode, usage.ru_maxrss,
+        return (elapsed, int(status), int(peak),
                 out.read().decode("utf-8", "replace") if keep_output else "",
                 err.read().decode("utf-8", "replace"))
 

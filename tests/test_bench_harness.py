@@ -95,3 +95,23 @@ def test_a_check_that_finds_every_group_passes_within_the_limit() -> None:
     rows = {row["target"]: row for row in evaluate(_size_with_report(groups), {})}
     assert rows["edif_vs_floor"]["verdict"] == "PASS"
     assert rows["memory_per_part"]["value"] == 1.0  # 100,000 KiB over 100k parts
+
+
+def test_peak_memory_is_the_commands_own_not_the_harness() -> None:
+    """A child forked from a big process is charged with that process's resident memory on
+    Linux (the kernel keeps the old memory map's high-water mark across exec). With 400 MiB
+    touched here, a bare Python run must still measure far below it (an interpreter is a few
+    tens of MiB, common practice)."""
+    ballast = bytearray(400 * 1024 * 1024)
+    ballast[:: 4096] = b"\x01" * len(ballast[:: 4096])  # touch every page: resident
+    measure = run_command("bare python", [sys.executable, "-c", "pass"], runs=1)
+    del ballast
+    assert measure.error is None
+    assert measure.peak_kb is not None and measure.peak_kb < 100 * 1024
+
+
+def test_a_missing_program_is_an_error_not_a_number() -> None:
+    """A command that cannot be started gives an error text and no measure."""
+    measure = run_command("nothing", ["/nonexistent/ledlint-bench-missing"], runs=1)
+    assert measure.error is not None and "cannot start" in measure.error
+    assert measure.peak_kb is None and measure.median is None
