@@ -22,7 +22,6 @@ Capacitors are open at DC: their pins are left out of every net.
 
 from __future__ import annotations
 
-import re
 from dataclasses import dataclass
 from typing import Any, Callable, Literal, Mapping
 
@@ -91,28 +90,6 @@ class NetSplit:
 _NO_CONTROLS: frozenset[str] = frozenset()
 
 
-def _natural_key(name: str) -> tuple[tuple[str | tuple[int, str], ...], str]:
-    """:func:`linter.refs.natural_key` of ``name`` (the same value, made in one loop without
-    a call per chunk; a board has a key made for most of its references and nets)."""
-    simple = _LETTERS_NUMBER(name)
-    if simple is not None:  # the common designator: letters, then one number
-        prefix, digits = simple.groups()
-        significant = digits.lstrip("0")
-        return (prefix.casefold(), (len(significant), significant), ""), name
-    out: list[str | tuple[int, str]] = []
-    number = False
-    for chunk in _CHUNKS.split(name):
-        if number:
-            significant = chunk.lstrip("0")
-            out.append((len(significant), significant))
-        else:
-            out.append(chunk.casefold())
-        number = not number
-    return tuple(out), name
-
-
-_LETTERS_NUMBER = re.compile(r"(\D*)(\d+)").fullmatch
-_CHUNKS = re.compile(r"(\d+)")
 """Digit runs (as :mod:`linter.refs` splits designators)."""
 
 

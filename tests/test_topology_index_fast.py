@@ -1,7 +1,7 @@
 """The topology index's quicker look-ups give what the plain definitions give.
 
-The expected values are the plain definitions themselves, written out here or taken from
-:func:`linter.refs.natural_key` (the fast code must not change a single key, kind or role).
+The expected values are the plain definitions themselves, written out here (the fast code
+must not change a single kind or role; the natural sort key is tested in test_refs_key.py).
 """
 
 from __future__ import annotations
@@ -9,7 +9,7 @@ from __future__ import annotations
 from pathlib import Path
 
 import pytest
-from hypothesis import given, settings
+from hypothesis import given
 from hypothesis import strategies as st
 
 from linter.config import load_settings
@@ -18,24 +18,11 @@ from linter.partdata import BjtData, McuData, MosfetData
 from linter.parts import resolve_part_data
 from linter.rails import resolve_rails
 from linter.readers import read_netlist
-from linter.refs import natural_key
 from linter.topology_index import DC_OPEN_KINDS, LED_ANODE_NAMES, LED_CATHODE_NAMES, \
-    SERIES_KINDS, CircuitIndex, _natural_key
+    SERIES_KINDS, CircuitIndex
 
 ROOT = Path(__file__).resolve().parents[1]
 DEMO = ROOT / "fixtures" / "demo"
-
-
-@settings(max_examples=500, deadline=None)
-@given(name=st.text(alphabet="aZ09_/.+-Dr7\u0661", max_size=12))
-def test_natural_key_is_the_refs_natural_key(name: str) -> None:
-    assert _natural_key(name) == natural_key(name)
-
-
-@pytest.mark.parametrize("name", ["D40", "R007", "0", "", "G19_N1", "S2/R7", "U1.PA4", "+12V",
-                                  "GND", "d1"])
-def test_natural_key_of_common_names(name: str) -> None:
-    assert _natural_key(name) == natural_key(name)
 
 
 def _plain_kind(index: CircuitIndex, ref: str) -> str:
