@@ -26,8 +26,8 @@ from linter.results import GroupResult
 __all__ = ["DEFAULT_TOLERANCE", "resolve", "with_resistor", "led_currents",
            "resistor_for_max", "resistor_for_min", "rail_for_min", "sub_circuit",
            "resolve_circuit", "resistor_record", "tolerance_of", "split_resistor",
-           "signature", "remembered", "resistor_walk", "forget_board", "is_remembered",
-           "remember", "ASK"]
+           "signature", "remembered", "resistor_walk", "solved_walk", "forget_board",
+           "is_remembered", "remember", "ASK"]
 
 DEFAULT_TOLERANCE = 0.05
 """Resistor tolerance (fraction) when the part data gives none (DESIGN.md: else 5 %)."""
@@ -107,14 +107,30 @@ def resistor_walk(context: Any, result: GroupResult, ref: str, series: str) -> S
                       known=_solved_values(context, result, ref))
 
 
-def _solver(context: Any, result: GroupResult, ref: str, leds: tuple[str, ...], series: str):
+def solved_walk(context: Any, result: GroupResult, ref: str,
+                series: str) -> Callable[[float], GroupResult]:
+    """:func:`resistor_walk`'s answer for each value asked, always a solved group.
+
+    Raises
+    ------
+    RuntimeError
+        When the group cannot be solved with the value asked (the search then has no answer).
+    """
     walk = resistor_walk(context, result, ref, series)
 
-    def current(ohms: float) -> tuple[float, float, float]:
+    def solved(ohms: float) -> GroupResult:
         again = walk(ohms)
         if again.status != "solved":
             raise RuntimeError(f"{result.id}: not solvable with {ref} = {ohms} Ω")
-        return led_currents(again, leds)
+        return again
+    return solved
+
+
+def _solver(context: Any, result: GroupResult, ref: str, leds: tuple[str, ...], series: str):
+    solved = solved_walk(context, result, ref, series)
+
+    def current(ohms: float) -> tuple[float, float, float]:
+        return led_currents(solved(ohms), leds)
     return current
 
 

@@ -111,12 +111,10 @@ def _resistor_for_power(context: Any, result: GroupResult, ref: str,
     def search():
         tolerance = fix_search.tolerance_of(context, ref)
         series = eseries.series_for_tolerance(tolerance)
-        walk = fix_search.resistor_walk(context, result, ref, series)
+        solved = fix_search.solved_walk(context, result, ref, series)
 
         def ratio(value: float) -> tuple[float, float, float]:
-            again = walk(value)
-            if again.status != "solved":
-                raise RuntimeError(f"{result.id}: not solvable with {ref} = {value} Ω")
+            again = solved(value)
             spans = [(again.led(r).power, allowed) for r, allowed in limits.items()]
             return (max(s.nom / a for s, a in spans), min(s.min / a for s, a in spans),
                     max(s.max / a for s, a in spans))

@@ -143,13 +143,10 @@ def _resistor_for_pin(context: Any, result: GroupResult, ref: str, pin: PinResul
     def search():
         tolerance = fix_search.tolerance_of(context, ref)
         series = eseries.series_for_tolerance(tolerance)
-        walk = fix_search.resistor_walk(context, result, ref, series)
+        solved = fix_search.solved_walk(context, result, ref, series)
 
         def current(value: float) -> tuple[float, float, float]:
-            again = walk(value)
-            if again.status != "solved":
-                raise RuntimeError(f"{result.id}: not solvable with {ref} = {value} Ω")
-            span = next(p for p in again.pins if p.id == pin.id).current
+            span = next(p for p in solved(value).pins if p.id == pin.id).current
             return span.nom, span.min, span.max
 
         return resistor_for_current_solved(current, pin.current_max, result.resistor(ref).ohms,
