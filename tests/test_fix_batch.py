@@ -32,18 +32,21 @@ def _context(netlist: Path, bom: Path | None):
     return analyse(load_inputs(CheckRequest(netlist=netlist, bom=bom)))
 
 
+def _solved_on_boards():
+    """(netlist, context, solved group) for every solved group of the boards that exist."""
+    for netlist, bom in BOARDS:
+        if netlist.exists():
+            context = _context(netlist, bom)
+            for result in solved_groups(context):
+                yield netlist, context, result
+
+
 def _resistor_groups():
     """(context, solved group, resistor) for every group and resistor of the boards."""
-    cases = []
-    for netlist, bom in BOARDS:
-        if not netlist.exists():
-            continue
-        context = _context(netlist, bom)
-        for result in solved_groups(context):
-            for resistor in result.resistors:
-                cases.append(pytest.param(context, result, resistor.ref,
-                                          id=f"{netlist.name}-{result.id}-{resistor.ref}"))
-    return cases
+    return [pytest.param(context, result, resistor.ref,
+                         id=f"{netlist.name}-{result.id}-{resistor.ref}")
+            for netlist, context, result in _solved_on_boards()
+            for resistor in result.resistors]
 
 
 CASES = _resistor_groups()
@@ -160,16 +163,9 @@ def test_a_failing_value_solved_ahead_does_not_fail_the_value_asked():
 
 
 def _parallel_cases():
-    cases = []
-    for netlist, bom in BOARDS:
-        if not netlist.exists():
-            continue
-        context = _context(netlist, bom)
-        for result in solved_groups(context):
+    return [(context, result) for _, context, result in _solved_on_boards()
             if (result.group.topology == "parallel" and len(result.group.strings) > 1
-                    and result.group.setter in {r.ref for r in result.resistors}):
-                cases.append((context, result))
-    return cases
+                and result.group.setter in {r.ref for r in result.resistors})]
 
 
 def test_split_circuits_solved_together_equal_one_at_a_time():
