@@ -118,4 +118,5 @@ def renamed(result: GroupResult, group: Group, refs: Mapping[str, str],
         "resistors": tuple(r.resistor(x) for x in result.resistors),
         "transistors": tuple(r.transistor(x) for x in result.transistors),
         "pins": tuple(r.pin(p, drive) for p, drive in zip(result.pins, group.pins)),
-        "not_converged": tuple(r.corner(c) for c in result.not_converged), "notes": notes})
+        "not_converged": tuple(r.corner(c) for c in result.not_converged), "notes": notes,
+        "origin": (result, refs)})

@@ -8,6 +8,7 @@ occurs, so that a rule can say "at +12V max (13.2 V)".
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from typing import Mapping
 
 from linter.corners import Corner
 from linter.groups import Group
@@ -158,6 +159,11 @@ class GroupResult:
     included), ``scheme`` names the corner scheme (``vertices`` or ``sensitivity``);
     ``not_converged`` lists corners where Newton's method failed (their figures are left
     out of the spans); ``notes`` names generic figures used.
+
+    ``origin`` (not compared, not reported): for a result made by renaming another group's
+    (:mod:`linter.result_rename`), that template result and the map from its part
+    references to this group's; None for a result solved on its own. Fast paths use it to
+    reuse work done for the template.
     """
 
     group: Group
@@ -172,6 +178,8 @@ class GroupResult:
     not_converged: tuple[Corner, ...] = ()
     notes: tuple[str, ...] = ()
     reason: str | None = None
+    origin: "tuple[GroupResult, Mapping[str, str]] | None" = field(
+        default=None, compare=False, repr=False)
 
     @property
     def id(self) -> str:

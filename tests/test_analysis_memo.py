@@ -52,9 +52,9 @@ def _plain(x):
         return [_plain(v) for v in x]
     if isinstance(x, Group):
         return x
-    if dataclasses.is_dataclass(x):
+    if dataclasses.is_dataclass(x):  # compared fields only (``origin`` says how it was made)
         return (type(x).__name__,
-                {f.name: _plain(getattr(x, f.name)) for f in dataclasses.fields(x)})
+                {f.name: _plain(getattr(x, f.name)) for f in dataclasses.fields(x) if f.compare})
     if hasattr(x, "items"):
         return ("map", [(k, _plain(v)) for k, v in x.items()])   # key order counts too
     raise TypeError(type(x))
@@ -297,3 +297,23 @@ def test_unhashable_part_data_is_solved_without_the_memo(monkeypatch) -> None:
     memo, plain, builds = _both_paths(monkeypatch, groups, c, data, rails, analysis.Ambient())
     assert builds == 2
     assert [_plain(r) for r in memo] == [_plain(r) for r in plain]
+
+
+
+def test_followers_name_their_template(tmp_path: Path) -> None:
+    """A renamed result names the result it was made from and how the names map (fast paths
+    of the reports reuse the template's work); a result solved on its own has no origin."""
+    context = _board(tmp_path, 11)
+    groups = find_groups(context.circuit, context.rails, context.part_data)
+    results = analysis.analyse(groups, context.circuit, context.part_data, context.rails,
+                               context.settings.ambient)
+    followers = [r for r in results if r.origin is not None]
+    assert followers and len(followers) < len(results)
+    for result in followers:
+        template, refs = result.origin
+        assert template.origin is None and template in results
+        assert [refs[led.ref] for led in template.leds] == [led.ref for led in result.leds]
+        assert set(refs.values()) <= set(result.group.parts)
+    plain = analysis.analyse(groups, context.circuit, context.part_data, context.rails,
+                             context.settings.ambient, memoise=False)
+    assert all(r.origin is None for r in plain)
