@@ -100,21 +100,75 @@ class StringHeadroom(Rule):
         ratio = float(context.option(self, "ratio"))
         severity = context.severity(self)  # the same for every finding of the board
         _REFERENCES.clear()  # the board's rails are read afresh for each check
+        swings: dict[int, tuple[GroupResult, Swing | None]] = {}
         for result in solved_groups(context):
             setter = result.group.setter
             if result.group.topology in SKIPPED or all(r.ref != setter for r in result.resistors):
                 continue
-            finding = self._group_finding(context, result, ratio, severity)
+            finding = self._group_finding(context, result, ratio, severity, swings)
             if finding is not None:
                 yield finding
 
     def _group_finding(self, context: Any, result: GroupResult, limit: float,
-                       severity: str | None = None) -> Finding | None:
+                       severity: str | None = None,
+                       swings: dict[int, tuple[GroupResult, "Swing | None"]] | None = None
+                       ) -> Finding | None:
+        """The group's finding, or None. ``swings`` (one check's: the same ``context``,
+        ``limit`` and rule settings throughout) keeps each :class:`Swing` by the template
+        result it was worked out for (see :meth:`_swing_of`); without it (the plain path)
+        the swing is worked out from the group's own figures."""
+        swing = (self._swing(context, result, limit) if swings is None
+                 else self._swing_of(context, result, limit, swings))
+        if swing is None:
+            return None
+        leds = result.leds
+        worst = leds[swing.worst]
+        ref = worst.ref
+        group = result.group
+        setter = group.setter
+        string = next(s for s in group.strings if ref in s)
+        label = ref if len(string) == 1 else f"{string[0]}–{string[-1]}"
+        current = worst.current
+        text = (f"{label}: {swing.low} ({at_corner(current.at_min, result)}) to "
+                f"{swing.high} ({at_corner(current.at_max, result)}), {swing.middle}{setter}"
+                f"{swing.tail}")
+        fix = None if swing.fix is None else swing.fix.text(setter)
+        if severity is None:
+            severity = context.severity(self)
+        return Finding(rule=self.id, severity=severity, message=text,
+                       parts=(*(leds[i].ref for i in swing.swinging), setter),
+                       group=result.id, values=dict(swing.values), fix=fix)
+
+    def _swing_of(self, context: Any, result: GroupResult, limit: float,
+                  swings: dict[int, tuple[GroupResult, "Swing | None"]]) -> "Swing | None":
+        """:meth:`_swing` of ``result``, worked out once per template result.
+
+        A result renamed from a template's (``origin``, :mod:`linter.result_rename`) has
+        the template's figures LED by LED, resistor by resistor, in the same order, and
+        its group the template's strings, setter and rail under the renamed references
+        (:mod:`linter.group_key`: equal keys); its setter's part data equals the
+        template's but for the note, which is not read. A swing holds figures and
+        positions only, so the template's is the follower's. The entry keeps the template
+        alive, so that its id stays its own; ``context`` and ``limit`` are one check's."""
+        origin = result.origin
+        base = result if origin is None else origin[0]
+        entry = swings.get(id(base))
+        if entry is not None and entry[0] is base:
+            return entry[1]
+        swing = self._swing(context, result, limit)
+        swings[id(base)] = (base, swing)
+        return swing
+
+    def _swing(self, context: Any, result: GroupResult, limit: float) -> "Swing | None":
+        """The name-free part of the group's finding (None: no LED swings beyond
+        ``limit``)."""
         ratios = {id(led): _ratio(led) for led in result.leds if led.lit_scenarios}
-        swinging = [led for led in result.leds if ratios.get(id(led), -math.inf) > limit]
+        swinging = [i for i, led in enumerate(result.leds)
+                    if ratios.get(id(led), -math.inf) > limit]
         if not swinging:
             return None
-        worst = max(swinging, key=lambda led: ratios[id(led)])
+        worst_index = max(swinging, key=lambda i: ratios[id(result.leds[i])])
+        worst = result.leds[worst_index]
         ratio = ratios[id(worst)]
         string = next(s for s in result.group.strings if worst.ref in s)
         leds = [result.led(ref) for ref in string]
@@ -131,24 +185,20 @@ class StringHeadroom(Rule):
                     f"{volts(values['headroom_min_v'])} at {result.rail} min with vf_max")
         slope = ("" if worst.di_dvf is None else
                  f"; dI/dVf {amps(abs(worst.di_dvf))}/V")
-        label = worst.ref if len(string) == 1 else f"{string[0]}–{string[-1]}"
-        text = (f"{amps(worst.current.min)} ({at_corner(worst.current.at_min, result)}) to "
-                f"{amps(worst.current.max)} ({at_corner(worst.current.at_max, result)}), "
-                f"{_ratio_text(ratio, limit)}× (limit {limit:g}×) on {result.group.setter}"
-                f"{head}{slope}")
-        fix = None if rail is None else self._fix(context, result, leds, rail, limit, values)
-        if severity is None:
-            severity = context.severity(self)
-        return Finding(rule=self.id, severity=severity, message=say(label, text),
-                       parts=(*(x.ref for x in swinging), result.group.setter),
-                       group=result.id, values=values, fix=fix)
+        fix = None if rail is None else self._fix_answer(context, result, leds, rail, limit)
+        if fix is not None:
+            values.update(fix.values)
+        return Swing(tuple(swinging), worst_index, amps(worst.current.min),
+                     amps(worst.current.max),
+                     f"{_ratio_text(ratio, limit)}× (limit {limit:g}×) on ", f"{head}{slope}",
+                     values, fix)
 
-    def _fix(self, context: Any, result: GroupResult, leds: list[LedResult], rail: Rail,
-             limit: float, values: dict) -> str:
-        """The fix sentence (and its figures added to ``values``), worked out once per
-        distinct question: :func:`fix_answer` of the same numbers and names is the same."""
-        setter = result.group.setter
-        tolerance = fix_search.tolerance_of(context, setter)
+    def _fix_answer(self, context: Any, result: GroupResult, leds: list[LedResult], rail: Rail,
+                    limit: float) -> "FixAnswer":
+        """The fix (its sentence with the setter's place left open, and its figures),
+        worked out once per distinct question: :func:`fix_answer` of the same numbers and
+        names is the same."""
+        tolerance = fix_search.tolerance_of(context, result.group.setter)
         vf_min = sum(x.vf.min for x in leds)
         vf_max = sum(x.vf.max for x in leds)
         reference = _reference_rail(context, rail)
@@ -163,8 +213,7 @@ class StringHeadroom(Rule):
                 if len(_ANSWERS) >= _ANSWERS_KEPT:
                     _ANSWERS.clear()
                 _ANSWERS[key] = answer
-        values.update(answer.values)
-        return answer.text(setter)
+        return answer
 
 
 @dataclass(frozen=True, slots=True)
@@ -229,6 +278,24 @@ class FixAnswer:
         return self.after if self.before is None else f"{self.before}{setter}{self.after}"
 
 
+@dataclass(frozen=True, slots=True)
+class Swing:
+    """What a group's finding says that names no part: the positions (in the result's
+    LEDs) of the swinging LEDs and of the worst, the texts of its lowest and highest
+    current, the text from the ratio to just before the setter's name (``middle``) and
+    after it (``tail``: headroom and slope), the finding's values in order, and its fix
+    (None when the group's rail is unknown)."""
+
+    swinging: tuple[int, ...]
+    worst: int
+    low: str
+    high: str
+    middle: str
+    tail: str
+    values: dict
+    fix: FixAnswer | None
+
+
 _PACK = struct.Struct("<12d").pack
 _ANSWERS_KEPT = 4096
 """Fix answers kept (by their question's key), all dropped when full."""
@@ -241,7 +308,7 @@ _SETTER = "\0setter\0"
 def fix_answer(question: FixQuestion) -> FixAnswer:
     """The sink, plain-resistor rail and fewer-LEDs fixes for ``question``.
 
-    The plain path of :meth:`StringHeadroom._fix` (tests compare the two)."""
+    The plain path of :meth:`StringHeadroom._fix_answer` (tests compare the two)."""
     q = question
     rail = Rail(q.rail_name, q.rail_nom, q.rail_min, q.rail_max)
     limit = q.limit
