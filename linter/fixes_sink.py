@@ -17,6 +17,8 @@ import math
 from dataclasses import dataclass, replace
 from typing import Iterable
 
+import numpy as np
+
 from linter import eseries
 from linter.partdata import BjtData
 from linter.units import format_si
@@ -125,7 +127,40 @@ def _divider_pairs(r_total_max: float) -> Iterable[tuple[float, float]]:
 
 def _choose_divider(v_reference: float, v_th_target: float,
                     r_total_max: float) -> tuple[float, float] | None:
-    """The E24 divider closest to ``v_th_target``, preferring coarse series, then larger totals."""
+    """The E24 divider closest to ``v_th_target``, preferring coarse series, then larger totals.
+
+    :func:`_choose_divider_plain` worked out on arrays: each pair's error is the same
+    IEEE-754 operations in the same order (V·R_b, divided by R_t + R_b, less the target,
+    magnitude, divided by the target), so the same double; the pairs are met in the same
+    order (R_t, then R_b, ascending) and the first best is kept, as ``min`` keeps it
+    (tests compare the two)."""
+    values = eseries.values_between("E24", r_total_max / 100, r_total_max)
+    if not values:
+        return None
+    series = np.array(values, dtype=float)
+    bottoms = series[np.newaxis, :]
+    totals = series[:, np.newaxis] + bottoms
+    fits = totals <= r_total_max
+    if not fits.any():
+        return None
+    errors = np.abs(v_reference * bottoms / totals - v_th_target) / v_th_target
+    limit = max(float(errors[fits].min()), DIVIDER_RATIO_SLACK)
+    rows, columns = np.nonzero(fits & (errors <= limit))  # row-major: R_t outer, R_b inner
+    coarseness = [_coarseness(value) for value in values]
+    best_key = None
+    best = None
+    for row, column, error in zip(rows.tolist(), columns.tolist(),
+                                  errors[rows, columns].tolist()):
+        top, bottom = values[row], values[column]
+        key = (max(coarseness[row], coarseness[column]), -(top + bottom), error)
+        if best_key is None or key < best_key:
+            best_key, best = key, (top, bottom)
+    return best
+
+
+def _choose_divider_plain(v_reference: float, v_th_target: float,
+                          r_total_max: float) -> tuple[float, float] | None:
+    """:func:`_choose_divider`, pair by pair (the plain path)."""
     def error(pair: tuple[float, float]) -> float:
         top, bottom = pair
         return abs(v_reference * bottom / (top + bottom) - v_th_target) / v_th_target
