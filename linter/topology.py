@@ -41,6 +41,7 @@ from linter.partdata import PartData, Rail
 from linter.refs import natural_key
 from linter.topology_draft import Draft, pin_ids, resistor_label
 from linter.topology_index import CircuitIndex
+from linter.topology_quick import quick_group
 from linter.topology_shape import Bank, NotABank, find_bank, orient
 from linter.topology_transistor import classify_transistor
 from linter.topology_walk import Cluster, grow_cluster
@@ -49,7 +50,7 @@ __all__ = ["find_groups"]
 
 
 def find_groups(circuit: Circuit, rails: Mapping[str, Rail],
-                part_data: Mapping[str, PartData]) -> tuple[Group, ...]:
+                part_data: Mapping[str, PartData], quick: bool = True) -> tuple[Group, ...]:
     """Every LED of ``circuit`` in exactly one :class:`~linter.groups.Group`.
 
     Parameters
@@ -60,6 +61,9 @@ def find_groups(circuit: Circuit, rails: Mapping[str, Rail],
         Nets of known voltage, ground included.
     part_data : Mapping[str, PartData]
         By part reference: tells transistor polarity and which parts are microcontrollers.
+    quick : bool
+        Label one-chain groups by :func:`linter.topology_quick.quick_group` (the same groups;
+        False keeps every group on the general path, the plain twin tests compare with).
 
     Returns
     -------
@@ -72,19 +76,19 @@ def find_groups(circuit: Circuit, rails: Mapping[str, Rail],
     LEDs, not the size of the board.
     """
     with paused_gc():  # many small acyclic records; see linter.gc_pause
-        return _groups(circuit, rails, part_data)
+        return _groups(circuit, rails, part_data, quick)
 
 
 def _groups(circuit: Circuit, rails: Mapping[str, Rail],
-            part_data: Mapping[str, PartData]) -> tuple[Group, ...]:
+            part_data: Mapping[str, PartData], quick: bool) -> tuple[Group, ...]:
     index = CircuitIndex(circuit, rails, part_data)
     try:
-        return _groups_with(index, circuit)
+        return _groups_with(index, circuit, quick)
     finally:
         index.release()  # (its caches would otherwise outlive it until a collection)
 
 
-def _groups_with(index: CircuitIndex, circuit: Circuit) -> tuple[Group, ...]:
+def _groups_with(index: CircuitIndex, circuit: Circuit, quick: bool) -> tuple[Group, ...]:
     leds = [part.ref for part in circuit.leds()]
     order = {ref: position for position, ref in enumerate(leds)}  # netlist order of the LEDs
     ranked = sorted(leds, key=natural_key)  # (keys made here and let go of: not cached)
@@ -94,8 +98,9 @@ def _groups_with(index: CircuitIndex, circuit: Circuit) -> tuple[Group, ...]:
     for led in ranked:
         if led in placed:
             continue
-        cluster = grow_cluster(index, led)
-        group = _classify(index, cluster, order, placed)
+        group = quick_group(index, led, order, placed) if quick else None
+        if group is None:
+            group = _classify(index, grow_cluster(index, led), order, placed)
         placed.update(group.leds)
         groups.append(group)
     # Already in the order of their ids: ``led`` is the first unplaced LED in natural order,
