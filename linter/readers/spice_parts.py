@@ -137,8 +137,55 @@ def _references(elements: list[FlatElement], leaves: list[str]) -> list[str]:
     return refs
 
 
+class _PartMaker:
+    """Parts of one deck. Pins with the same name and net, equal value and cell texts, and the
+    empty property table are one object each (a 100,000-element deck repeats a few dozen
+    values; the table is never changed once the part is made)."""
+
+    def __init__(self, net_names: dict[str, str]) -> None:
+        self.net_names = net_names
+        self.pins: dict[tuple[str, str], Pin] = {}
+        self.texts: dict[str, str] = {}
+        self.lit: dict[int, bool] = {}
+
+    def pins_of(self, element: FlatElement) -> tuple[Pin, ...]:
+        known, net_names = self.pins, self.net_names
+        pins = []
+        for name, key in element.pins:
+            net = net_names[key]
+            pin = known.get((name, net))
+            if pin is None:
+                pin = known[(name, net)] = Pin(name, net)
+            pins.append(pin)
+        return tuple(pins)
+
+    def part(self, element: FlatElement, ref: str, leaf: str) -> Part:
+        path = "/".join([*element.path, leaf]) if element.path else leaf
+        properties = dict(element.params) if element.params else _NO_PROPERTIES
+        if leaf != element.name:
+            properties = {**properties, "spice_name": element.name}
+        letter = element.letter
+        if letter == "X":
+            part_number = element.subcircuit
+            cell = element.subcircuit or "X"
+        else:
+            part_number = element.model.name if element.model is not None and letter in "DQMJ" else None
+            cell = letter
+        share = self.texts.setdefault
+        value = element.value_text
+        return Part(ref, _kind(element, ref, self.lit),
+                    value if value is None else share(value, value), self.pins_of(element),
+                    element.location, element.value_si, path, share(cell, cell), part_number,
+                    properties, element.model)
+
+
+_NO_PROPERTIES: dict[str, str] = {}
+"""One empty property table for every part without properties (never changed)."""
+
+
 def _part(element: FlatElement, ref: str, leaf: str, net_names: dict[str, str],
           lit: dict[int, bool] | None = None) -> Part:
+    """One part on its own (nothing shared with other parts)."""
     pins = tuple([Pin(name, net_names[key]) for name, key in element.pins])
     path = "/".join([*element.path, leaf]) if element.path else leaf
     properties = dict(element.params) if element.params else {}
@@ -164,10 +211,10 @@ def assemble(flat: Flattened, source: str, title: str) -> Circuit:
     parts: dict[str, Part] = {}
     joined: dict[str, list[tuple[str, str]]] = {key: [] for key in flat.nets}
     notes: list[ReaderNote] = []
-    lit: dict[int, bool] = {}
+    make = _PartMaker(net_names).part
     readings: dict[tuple[str, str], float | None] = {}
     for element, ref, leaf in zip(elements, refs, leaves):
-        parts[ref] = _part(element, ref, leaf, net_names, lit)
+        parts[ref] = make(element, ref, leaf)
         for pin, key in element.pins:
             joined[key].append((ref, pin))
         if element.value_token is not None:
