@@ -20,6 +20,7 @@ MIN_RUN = 3
 """The shortest run of consecutive designators that is folded into a range."""
 
 _CHUNKS = re.compile(r"(\d+)")
+_SPLIT = _CHUNKS.split
 _LETTERS_NUMBER = re.compile(r"(\D*)(\d+)").fullmatch
 _TRAILING_NUMBER = re.compile(r"^(?P<prefix>.*?)(?P<number>[1-9]\d*|0)$")
 
@@ -29,8 +30,9 @@ def natural_key(ref: str) -> tuple[tuple[str | tuple[int, str], ...], str]:
 
     A digit run is compared by its length without leading zeros, then its digits: the order
     of the numbers, without converting them (a run of thousands of digits is no error). The
-    common designator (letters, then one number) is read with one match; any other name in
-    one loop over its chunks.
+    common designator (letters, then one number) is read with one match; a name with one or
+    two numbers elsewhere from its split without a loop; any other name in one loop over its
+    chunks (the same key each way: ``tests/test_refs_key.py``).
 
     >>> sorted(["D10", "D2", "d1", "R1"], key=natural_key)
     ['d1', 'D2', 'D10', 'R1']
@@ -40,9 +42,20 @@ def natural_key(ref: str) -> tuple[tuple[str | tuple[int, str], ...], str]:
         prefix, digits = simple.groups()
         significant = digits.lstrip("0")
         return (prefix.casefold(), (len(significant), significant), ""), ref
+    chunks = _SPLIT(ref)  # text, digits, text, … (always an odd count)
+    count = len(chunks)
+    if count == 3:  # one number inside (a net such as ``G12_NB``): unrolled
+        before, digits, after = chunks
+        significant = digits.lstrip("0")
+        return (before.casefold(), (len(significant), significant), after.casefold()), ref
+    if count == 5:  # two numbers (``G12_N1``): unrolled
+        first, digits, middle, more, last = chunks
+        one, two = digits.lstrip("0"), more.lstrip("0")
+        return (first.casefold(), (len(one), one), middle.casefold(), (len(two), two),
+                last.casefold()), ref
     out: list[str | tuple[int, str]] = []
     number = False
-    for chunk in _CHUNKS.split(ref):
+    for chunk in chunks:
         if number:
             significant = chunk.lstrip("0")
             out.append((len(significant), significant))

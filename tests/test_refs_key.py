@@ -1,4 +1,5 @@
-"""linter.refs.natural_key (one match for the common designator, one loop otherwise) gives the
+"""linter.refs.natural_key (one match for the common designator, an unrolled split for names
+with one or two digit runs elsewhere, one loop otherwise) gives the
 keys of its plain definition, written out here as the reference (our own former code: split on
 digit runs, each run keyed by its length without leading zeros and its digits, each text
 casefolded). Nothing is pasted from the tool's output.
@@ -38,6 +39,11 @@ _NAMEISH = st.text(alphabet=st.sampled_from("DRQdrS/_-.0123456789\u0661\u00df\u0
 @example("\u0661\u0662")  # Arabic-Indic digits: \d in both regexes
 @example("Stra\u00dfe1")  # casefold changes the length
 @example("R1a")
+@example("G12_NB")  # one digit run inside: the unrolled three-chunk path
+@example("12_nb")
+@example("G1_N007")  # two digit runs: the unrolled five-chunk path
+@example("1a2")
+@example("S2/R7/X3")  # three runs: the loop
 def test_natural_key_is_the_plain_key(name: str) -> None:
     assert natural_key(name) == _plain_key(name)
 
