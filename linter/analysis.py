@@ -32,7 +32,7 @@ from linter.partdata import Ambient, PartDataMap, Rail
 from linter.reduce import group_result
 from linter.reduce_bucket import bucket_results
 from linter.group_key import DataKeys, group_key
-from linter.result_rename import renamed
+from linter.result_rename import Template
 from linter.results import GroupResult
 from linter.solve_memo import representatives
 
@@ -244,10 +244,13 @@ def analyse(groups: Iterable[Group], circuit: Circuit, part_data: PartDataMap,
             for (index, _), result in zip(members, solved):
                 results[index] = result
         with _stage("rename"):
+            compiled: dict[int, Template] = {}
             for index, template, refs in work.followers:
                 names, notes = work.templates[template]
-                results[index] = renamed(results[template], groups[index],  # type: ignore[arg-type]
-                                         dict(zip(names, refs)), notes)
+                made = compiled.get(template)
+                if made is None:
+                    made = compiled[template] = Template(results[template], notes)  # type: ignore[arg-type]
+                results[index] = made.renamed(groups[index], dict(zip(names, refs)))
     return tuple(r for r in results if r is not None)
 
 

@@ -6,17 +6,24 @@ with equal keys is the same (their models differ only in names), so the result o
 the result of the other with those names replaced: references through ``refs``, pins and
 notes rebuilt from the group's own pin drives and the template's note parts. Rail names,
 scenario names and part numbers are in the key and stay as they are.
+
+A template usually has many followers, so its result is read once into a :class:`Template`:
+which of its records name a part (a level mapping with names, a corner holding one, a span
+at such a corner, every part record) and which do not. A follower gets new records only for
+the first kind, each made once per distinct template record; the others (spans and corners
+that name no part, empty level mappings, every rail mapping, float and text) are the
+template's own objects, shared.
 """
 
 from __future__ import annotations
 
-from typing import Mapping
+from typing import Any, Callable, Mapping
 
 from linter.corners import Corner, Levels
 from linter.groups import Group
 from linter.results import GroupResult, LedResult, PinResult, ResistorResult, Span, TransistorResult
 
-__all__ = ["renamed"]
+__all__ = ["Template", "renamed"]
 
 
 def _clone(record, changes: dict):
@@ -34,89 +41,170 @@ _NEW = object.__new__
 _SET = object.__setattr__
 
 
-class _Renamer:
-    """Renames one follower's records. The many small records (Corner, Span, LED, resistor
-    and pin results) are made by their constructors with every field passed (faster than a
-    generic copy); the tests compare every field with the plain path, so a field added to
-    one of them and not passed here fails there."""
+def _maker(cls: type) -> Callable[..., Any]:
+    """A function ``make(*fields)`` equal to ``cls(*fields)`` for a frozen slotted dataclass
+    of ours without ``__post_init__`` (every field passed, in order): the slots are set
+    through their descriptors, without the frozen ``__init__``'s attribute look-ups.
+    tests/test_result_rename.py holds it to the constructor for each class it is made for."""
+    names = cls.__slots__
+    scope: dict[str, Any] = {"_new": _NEW, "_cls": cls}
+    body = []
+    for i, name in enumerate(names):
+        scope[f"_s{i}"] = cls.__dict__[name].__set__
+        body.append(f"    _s{i}(o, a{i})")
+    args = ", ".join(f"a{i}" for i in range(len(names)))
+    exec(f"def make({args}):\n    o = _new(_cls)\n" + "\n".join(body) + "\n    return o",
+         scope)
+    return scope["make"]
 
-    def __init__(self, refs: Mapping[str, str]) -> None:
-        self.refs = refs
-        self.corners: dict[int, Corner] = {}
-        self.mappings: dict[int, Mapping[str, str]] = {}
-        self.names: dict[int, tuple[str, ...]] = {}
 
-    def corner(self, corner: Corner | None) -> Corner | None:
-        if corner is None:
-            return None
-        found = self.corners.get(id(corner))
-        if found is None:
-            known = self.mappings.get
-            vf, beta, resistors = corner.vf, corner.beta, corner.resistors
-            new_vf, new_beta, new_resistors = known(id(vf)), known(id(beta)), known(id(resistors))
-            found = self.corners[id(corner)] = Corner(
-                corner.scenario, corner.rails, corner.ambient_c,
-                self.mapping(vf) if new_vf is None else new_vf,
-                self.mapping(beta) if new_beta is None else new_beta,
-                self.mapping(resistors) if new_resistors is None else new_resistors)
-        return found
+_corner = _maker(Corner)
+_span = _maker(Span)
+_led = _maker(LedResult)
+_resistor = _maker(ResistorResult)
+_pin = _maker(PinResult)
+_group_result = _maker(GroupResult)
 
-    def mapping(self, levels: Mapping[str, str]) -> Mapping[str, str]:
-        """``levels`` with its names renamed, remembered by the template mapping's identity
-        (the template's own where it names nothing); names tuples renamed once."""
-        refs = self.refs
-        if type(levels) is Levels:
-            found: Mapping[str, str] = levels
-            if levels.names:
-                names = self.names.get(id(levels.names))
-                if names is None:
-                    names = self.names[id(levels.names)] = tuple(refs[k] for k in levels.names)
-                found = Levels(names, levels.levels)
+
+def _names_part(value: Any) -> bool:
+    """Whether a corner, span or level mapping names a part of the group."""
+    kind = type(value)
+    if kind is Levels:
+        return bool(value.names)
+    if kind is Corner:
+        return _names_part(value.vf) or _names_part(value.beta) or _names_part(value.resistors)
+    if kind is Span:
+        return _names_part(value.at_min) or _names_part(value.at_max)
+    if value is None:
+        return False
+    if isinstance(value, Mapping):
+        return bool(value)
+    raise TypeError(f"cannot rename {kind.__name__}")
+
+
+class Template:
+    """A template result read once for renaming: a table of the objects its records quote.
+
+    The table of a follower is ``shared`` (the template's own objects that name no part),
+    then its renamed names tuples, level mappings, corners and spans, each made from earlier
+    entries by position; part records quote the table by position too.
+    """
+
+    def __init__(self, result: GroupResult, note_parts: tuple[tuple[str, str], ...]) -> None:
+        self.result = result
+        self.note_parts = note_parts
+        self.shared: list[Any] = []
+        self._at: dict[int, int] = {}
+        found = _Found()
+        for record in (*result.leds, *result.resistors, *result.transistors, *result.pins):
+            for name in _SPANS[type(record)]:
+                self._visit(getattr(record, name), found)
+            for name in _CORNERS[type(record)]:
+                self._visit(getattr(record, name), found)
+        for corner in result.not_converged:
+            self._visit(corner, found)
+        names, mappings, corners, spans = found.names, found.mappings, found.corners, found.spans
+        at = self._at
+        for value in (*names, *mappings, *corners, *spans):
+            at[id(value)] = len(at)
+        self.names = names
+        self.mappings = [(at[id(m.names)], m.levels) if type(m) is Levels else (None, m)
+                         for m in mappings]
+        self.corners = [(c.scenario, c.rails, c.ambient_c, at[id(c.vf)], at[id(c.beta)],
+                         at[id(c.resistors)]) for c in corners]
+        self.spans = [(s.nom, s.min, s.max, at[id(s.at_min)], at[id(s.at_max)]) for s in spans]
+        self.leds = [(x.ref, x.part_number, at[id(x.current)], at[id(x.vf)], at[id(x.power)],
+                      x.lit_scenarios, x.reverse_v, at[id(x.reverse_at)], x.di_dvf, x.assumed)
+                     for x in result.leds]
+        self.resistors = [(x.ref, x.ohms, x.tolerance, at[id(x.current)], at[id(x.power)],
+                           x.rating_w, x.package) for x in result.resistors]
+        self.pins = [(at[id(x.current)], x.sourcing, x.current_max) for x in result.pins]
+        self.not_converged = [at[id(c)] for c in result.not_converged]
+
+    def _visit(self, value: Any, found: "_Found") -> None:
+        """Puts ``value`` (and what it quotes) in ``shared`` when it names no part, else in
+        ``found``'s list of its kind, after what it quotes; each object once."""
+        seen = found.seen
+        if id(value) in seen:
+            return
+        seen[id(value)] = value
+        if not _names_part(value):
+            self._at[id(value)] = len(self.shared)
+            self.shared.append(value)
+        elif type(value) is Span:
+            self._visit(value.at_min, found)
+            self._visit(value.at_max, found)
+            found.spans.append(value)
+        elif type(value) is Corner:
+            for mapping in (value.vf, value.beta, value.resistors):
+                self._visit(mapping, found)
+            found.corners.append(value)
         else:
-            found = {refs[k]: v for k, v in levels.items()} if levels else levels
-        self.mappings[id(levels)] = found
-        return found
+            if type(value) is Levels and id(value.names) not in seen:
+                seen[id(value.names)] = value.names
+                found.names.append(value.names)
+            found.mappings.append(value)
 
-    def span(self, span: Span | None) -> Span | None:
-        if span is None:
-            return None
-        low, high = span.at_min, span.at_max
-        if low is None and high is None:
-            return span
-        corner = self.corner
-        return Span(span.nom, span.min, span.max, corner(low), corner(high))
+    def renamed(self, group: Group, refs: Mapping[str, str]) -> GroupResult:
+        """The template's result for ``group``; ``refs`` maps the template's part references
+        to the group's. Pin i of the result is the group's pin drive i (both in the group's
+        pin order)."""
+        get = refs.__getitem__
+        table = self.shared + [tuple(map(get, names)) for names in self.names]
+        table += [Levels(table[at], levels) if at is not None
+                  else {get(k): v for k, v in levels.items()} for at, levels in self.mappings]
+        table += [_corner(scenario, rails, ambient, table[vf], table[beta], table[resistors])
+                  for scenario, rails, ambient, vf, beta, resistors in self.corners]
+        table += [_span(nom, low, high, table[at_min], table[at_max])
+                  for nom, low, high, at_min, at_max in self.spans]
+        result = self.result
+        return _group_result(
+            group, result.status, result.rail,
+            tuple([_led(get(ref), part, table[i], table[vf], table[p], lit, rev, table[rev_at],
+                        di, assumed)
+                   for ref, part, i, vf, p, lit, rev, rev_at, di, assumed in self.leds]),
+            tuple([_resistor(get(ref), ohms, tol, table[i], table[p], rating, package)
+                   for ref, ohms, tol, i, p, rating, package in self.resistors]),
+            tuple([self._transistor(x, get, table) for x in result.transistors]),
+            tuple([_pin(drive.id, drive.net, table[i], sourcing, rating)
+                   for (i, sourcing, rating), drive in zip(self.pins, group.pins)]),
+            result.corners, result.scheme, tuple([table[i] for i in self.not_converged]),
+            tuple([f"{get(ref)}: {text}" for ref, text in self.note_parts]), result.reason,
+            (result, refs))
 
-    def led(self, x: LedResult) -> LedResult:
-        span = self.span
-        return LedResult(self.refs[x.ref], x.part_number, span(x.current), span(x.vf),
-                         span(x.power), x.lit_scenarios, x.reverse_v, self.corner(x.reverse_at),
-                         x.di_dvf, x.assumed)
+    def _transistor(self, x: TransistorResult, get, table: list) -> TransistorResult:
+        at = self._at
+        changes: dict[str, Any] = {"ref": get(x.ref)}
+        for name in (*_SPANS[TransistorResult], *_CORNERS[TransistorResult]):
+            changes[name] = table[at[id(getattr(x, name))]]
+        return _clone(x, changes)
 
-    def resistor(self, x: ResistorResult) -> ResistorResult:
-        return ResistorResult(self.refs[x.ref], x.ohms, x.tolerance, self.span(x.current),
-                              self.span(x.power), x.rating_w, x.package)
 
-    def transistor(self, x: TransistorResult) -> TransistorResult:
-        return _clone(x, {"ref": self.refs[x.ref], "vce": self.span(x.vce),
-                          "current": self.span(x.current), "power": self.span(x.power),
-                          "saturated_at": self.corner(x.saturated_at),
-                          "rail_min_at": self.corner(x.rail_min_at), "vgs": self.span(x.vgs)})
+class _Found:
+    """What :meth:`Template._visit` met that names a part, by kind, in the order met."""
 
-    def pin(self, x: PinResult, drive) -> PinResult:
-        return PinResult(drive.id, drive.net, self.span(x.current), x.sourcing, x.current_max)
+    def __init__(self) -> None:
+        self.seen: dict[int, Any] = {}
+        self.names: list[tuple[str, ...]] = []
+        self.mappings: list[Mapping] = []
+        self.corners: list[Corner] = []
+        self.spans: list[Span] = []
+
+
+_SPANS: dict[type, tuple[str, ...]] = {
+    LedResult: ("current", "vf", "power"), ResistorResult: ("current", "power"),
+    TransistorResult: ("vce", "current", "power", "vgs"), PinResult: ("current",)}
+"""The fields of each record that hold a Span (or None)."""
+_CORNERS: dict[type, tuple[str, ...]] = {
+    LedResult: ("reverse_at",), ResistorResult: (), PinResult: (),
+    TransistorResult: ("saturated_at", "rail_min_at")}
+"""The fields of each record that hold a Corner (or None)."""
 
 
 def renamed(result: GroupResult, group: Group, refs: Mapping[str, str],
             note_parts: tuple[tuple[str, str], ...]) -> GroupResult:
     """``result`` (of the template group) for ``group``: ``refs`` maps the template's part
     references to the group's; ``note_parts`` are the template model's (ref, text) notes.
-    Pin i of the result is the group's pin drive i (both in the group's pin order)."""
-    r = _Renamer(refs)
-    notes = tuple(f"{refs[ref]}: {text}" for ref, text in note_parts)
-    return _clone(result, {
-        "group": group, "leds": tuple(r.led(x) for x in result.leds),
-        "resistors": tuple(r.resistor(x) for x in result.resistors),
-        "transistors": tuple(r.transistor(x) for x in result.transistors),
-        "pins": tuple(r.pin(p, drive) for p, drive in zip(result.pins, group.pins)),
-        "not_converged": tuple(r.corner(c) for c in result.not_converged), "notes": notes,
-        "origin": (result, refs)})
+    Pin i of the result is the group's pin drive i (both in the group's pin order).
+    (One follower; :class:`Template` reads the template once for many.)"""
+    return Template(result, note_parts).renamed(group, refs)
