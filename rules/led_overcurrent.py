@@ -83,27 +83,30 @@ class LedOvercurrent(Rule):
         shared_on = context.enabled(SHARED)
         pulsed = context.settings.pulsed
         pulsed_on = bool(pulsed) and context.enabled(PULSED)
+        overs: dict[int, tuple[GroupResult, tuple]] = {}
         for result in solved_groups(context):
             group = result.group
             if shared_on and group.topology == "parallel" and len(group.strings) > 1:
                 continue
             if pulsed_on and any(net in pulsed for net in group.nets):
                 continue
-            finding = self._group_finding(context, result)
+            finding = self._group_finding(context, result, overs)
             if finding is not None:
                 yield finding
 
-    def _group_finding(self, context: Any, result: GroupResult) -> Finding | None:
-        """One finding per group: its LEDs over their limit, the hottest quoted."""
-        over: list[tuple[LedResult, float, str, bool]] = []
-        for led in result.leds:
-            if_max, recommended, generic = led_limits(context, led.ref)
-            if if_max is not None and led.current.max > if_max:
-                over.append((led, if_max, "error", generic))
-            elif recommended is not None and led.current.max > recommended:
-                over.append((led, recommended, "warning", False))
-        if not over:
+    def _group_finding(self, context: Any, result: GroupResult,
+                       overs: dict[int, tuple[GroupResult, tuple]] | None = None
+                       ) -> Finding | None:
+        """One finding per group: its LEDs over their limit, the hottest quoted.
+
+        ``overs`` (one check's) keeps :func:`_over` by the template result it was worked
+        out for (see :func:`_over_of`); without it (the plain path) it is worked out from
+        the group's own figures and part data."""
+        found = _over(context, result) if overs is None else _over_of(context, result, overs)
+        if not found:
             return None
+        leds = result.leds
+        over = [(leds[index], limit, level, generic) for index, limit, level, generic in found]
         level = "error" if any(item[2] == "error" for item in over) else "warning"
         hottest = max((x for x in over if x[2] == level), key=lambda x: x[0].current.max)
         return self._finding(context, result, hottest, tuple(x[0].ref for x in over), level)
@@ -148,6 +151,40 @@ class LedOvercurrent(Rule):
         return (f"make {ref}{role} {ohms(choice.ohms)} ({choice.series}): "
                 f"{amps(choice.current_nom_a or 0.0)} nominal, "
                 f"{amps(choice.current_min_a or 0.0)}–{amps(choice.current_max_a)} worst case")
+
+
+def _over(context: Any, result: GroupResult) -> tuple[tuple[int, float, str, bool], ...]:
+    """The group's LEDs above a limit, in order: (position in ``result.leds``, the limit in
+    A, ``"error"`` above if_max or ``"warning"`` above the recommended top, whether if_max
+    is a generic figure)."""
+    over = []
+    for index, led in enumerate(result.leds):
+        if_max, recommended, generic = led_limits(context, led.ref)
+        if if_max is not None and led.current.max > if_max:
+            over.append((index, if_max, "error", generic))
+        elif recommended is not None and led.current.max > recommended:
+            over.append((index, recommended, "warning", False))
+    return tuple(over)
+
+
+def _over_of(context: Any, result: GroupResult,
+             overs: dict[int, tuple[GroupResult, tuple]]) -> tuple:
+    """:func:`_over` of ``result``, worked out once per template result.
+
+    A result renamed from a template's (``origin``, :mod:`linter.result_rename`) has the
+    template's LED figures in the same order, and each of its LEDs part data equal to the
+    template's LED's in every field but the note (:mod:`linter.group_key`), which
+    :func:`led_limits` does not read; the answer holds positions and figures only. The
+    entry keeps the template alive, so that its id stays its own; ``context`` is one
+    check's."""
+    origin = result.origin
+    base = result if origin is None else origin[0]
+    entry = overs.get(id(base))
+    if entry is not None and entry[0] is base:
+        return entry[1]
+    found = _over(context, result)
+    overs[id(base)] = (base, found)
+    return found
 
 
 def current_resistor(context: Any, result: GroupResult) -> str | None:

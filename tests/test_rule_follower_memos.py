@@ -33,7 +33,7 @@ def boards(tmp_path_factory):
     from bench.gen_board import generate, write_all
 
     folder = tmp_path_factory.mktemp("board")
-    write_all(generate(1500, 2), folder)
+    write_all(generate(1500, 1), folder)  # has follower findings of several rules
     return [_context(DEMO / "dust_extractor_panel.edif", DEMO / "bom.csv"),
             _context(DEMO / "dust_extractor_panel.cir", DEMO / "bom.csv"),
             _context(folder / "board.cir", folder / "bom.csv")]
@@ -77,3 +77,21 @@ def test_string_headroom_swings_kept_by_template_match_the_plain_path(boards):
         _same(list(rule.check(context)), [f for f in plain if f])
         forget_board()
     assert reused > 50
+
+
+def test_led_overcurrent_limits_kept_by_template_match_the_plain_path(boards):
+    rule = all_rules()["led-overcurrent"]()
+    reused = found = 0
+    for context in boards:
+        overs: dict = {}
+        fast, plain = [], []
+        for result in solved_groups(context):
+            before = len(overs)
+            fast.append(rule._group_finding(context, result, overs))
+            reused += len(overs) == before
+            found += len(overs) == before and fast[-1] is not None
+            plain.append(rule._group_finding(context, result))
+        _same([f for f in fast if f], [f for f in plain if f])
+        assert fast == plain
+        forget_board()
+    assert reused > 50 and found > 0
