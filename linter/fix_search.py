@@ -26,7 +26,7 @@ from linter.results import GroupResult
 __all__ = ["DEFAULT_TOLERANCE", "resolve", "with_resistor", "led_currents",
            "resistor_for_max", "resistor_for_min", "rail_for_min", "sub_circuit",
            "resolve_circuit", "resistor_record", "tolerance_of", "split_resistor",
-           "signature", "remembered", "resistor_walk", "solved_walk", "forget_board",
+           "signature", "signature_plain", "remembered", "resistor_walk", "solved_walk", "forget_board",
            "is_remembered", "remember", "ASK"]
 
 DEFAULT_TOLERANCE = 0.05
@@ -309,35 +309,64 @@ def _data_record(ref: str, data: Any) -> Any:
 _TEXTS_KEPT = 4096
 """Record texts kept (by the record's identity; records are frozen)."""
 
-_TEXTS: dict[int, tuple[Any, str]] = {}
+_TEXTS: dict[int, tuple[Any, str, "_Split | None"]] = {}
 
 
 def _record_text(record: Any) -> str:
     """``repr(record)``, written once per record object (part data is often shared)."""
+    return _record_entry(record)[1]
+
+
+def _record_entry(record: Any) -> tuple[Any, str, "_Split | None"]:
+    """(record, its text, the text's :func:`_split`), worked out once per record object."""
     if record is None:
-        return "None"
+        return _NONE_ENTRY
     entry = _TEXTS.get(id(record))
     if entry is not None and entry[0] is record:
-        return entry[1]
+        return entry
     text = repr(record)
     if len(_TEXTS) >= _TEXTS_KEPT:
         _TEXTS.clear()
-    _TEXTS[id(record)] = (record, text)
-    return text
+    entry = _TEXTS[id(record)] = (record, text, _split(text))
+    return entry
 
 
 def _board_text(context: Any) -> str:
     """``repr(sorted rails), repr(ambient)`` of the board, written once per board."""
-    rails, settings, text = _BOARD
-    if rails is context.rails and settings is context.settings:
-        return text
+    return _board_entry(context)[2]
+
+
+def _board_entry(context: Any) -> list:
+    """(rails, settings, :func:`_board_text`, its :func:`_split`) of the board, kept for
+    the board last asked about."""
+    if _BOARD[0] is context.rails and _BOARD[1] is context.settings:
+        return _BOARD
     text = f"{sorted(context.rails.items())!r}, {context.settings.ambient!r}"
-    _BOARD[:] = [context.rails, context.settings, text]
-    return text
+    _BOARD[:] = [context.rails, context.settings, text, _split(text)]
+    return _BOARD
 
 
-_BOARD: list = [None, None, ""]
-"""(rails, settings, their text) of the board last asked about."""
+_BOARD: list = [None, None, "", None]
+"""(rails, settings, their text, its split) of the board last asked about."""
+
+
+_Split = tuple  # (pieces of _QUOTED.split: text, quoted, text, …; the quoted texts as a set)
+
+
+def _split(text: str) -> "_Split | None":
+    """``text`` cut at its quoted names (:data:`_QUOTED`), and the set of those names; None
+    when a quote of ``text`` is left out of every quoted name (a name holding a quote or
+    a backslash, say): cut on its own, such a text might not be cut as it is inside a
+    longer one. A text whose every quote opens or closes a quoted name is cut the same
+    alone and anywhere inside a longer text (the search for the next quote starts afresh
+    after it)."""
+    pieces = _QUOTED.split(text)
+    if text.count("'") != len(pieces) - 1:  # two quotes per name; len(pieces) = 2·names + 1
+        return None
+    return pieces, frozenset(pieces[1::2])
+
+
+_NONE_ENTRY = (None, "None", _split("None"))
 
 
 def _group_text(group: Any) -> str:
@@ -351,6 +380,76 @@ def _group_text(group: Any) -> str:
 
 
 def signature(context: Any, result: GroupResult, question: Any) -> bytes | None:
+    """:func:`signature_plain`, the same digest of the same text, with the texts of part
+    data records and of the board cut at their quoted names once per record and per board
+    (not once per group), and a record naming none of the group's names copied whole.
+
+    The text is put together piece by piece in the plain path's order; each piece is cut
+    on its own, which cuts it as the whole text is cut when every quote of it opens or
+    closes a quoted name (:func:`_split`); otherwise, and for a name that ``repr`` would
+    escape, the plain path gives the digest (tests compare the two)."""
+    from linter.refs import natural_key
+
+    group = result.group
+    refs = list(group.parts) + [d.part for d in group.pins if d.part not in group.parts]
+    names = set(refs) | set(group.nets)
+    joined = "".join(names)
+    if "'" in joined or "\\" in joined or "\n" in joined:
+        return None
+    if not joined.isprintable():  # repr would escape a character of a name
+        return signature_plain(context, result, question)
+    circuit_parts = context.circuit.parts
+    parts = [_part_record(circuit_parts[r]) for r in refs if r in circuit_parts]
+    head = _split(f"({_group_text(group)}, {parts!r}, {question!r}, [")
+    board = _board_entry(context)[3]
+    if head is None or board is None:
+        return signature_plain(context, result, question)
+    order: dict[str, int] = {}
+    out: list[str] = []
+    _neutral(head[0], names, order, out)
+    data = context.part_data
+    separator = "("
+    for ref in sorted(names):
+        _, text, cut = _record_entry(_data_record(ref, data.get(ref)))
+        if cut is None:
+            return signature_plain(context, result, question)
+        out.append(separator)
+        separator = ", ("
+        out.append("\0%d\0, " % order.setdefault(ref, len(order)))
+        if cut[1].isdisjoint(names):
+            out.append(text)
+        else:
+            _neutral(cut[0], names, order, out)
+        out.append(")")
+    out.append("], ")
+    _neutral(board[0], names, order, out)
+    out.append(")")
+    text = "".join(out)
+    seen = list(order)
+    ranks = (sorted(range(len(seen)), key=lambda i: seen[i]),
+             sorted(range(len(seen)), key=lambda i: natural_key(seen[i])))
+    return hashlib.sha256(f"{text}|{ranks}".encode("utf-8", "surrogatepass")).digest()
+
+
+def _neutral(pieces: list[str], names: set[str], order: dict[str, int],
+             out: list[str]) -> None:
+    """Append ``pieces`` (a :func:`_split`) to ``out``, each quoted name of ``names`` as
+    its index in ``order`` (by first appearance), any other quoted text as it was."""
+    setdefault = order.setdefault
+    marks = _MARKS
+    cut = list(pieces)
+    cut[1::2] = [(marks[setdefault(name, len(order))] if len(order) < _MARKED
+                  else "\0%d\0" % setdefault(name, len(order))) if name in names
+                 else f"'{name}'" for name in pieces[1::2]]
+    out.extend(cut)
+
+
+_MARKED = 256
+_MARKS = tuple("\0%d\0" % index for index in range(_MARKED))
+"""The texts of the first name indices, ``"\\0<index>\\0"``."""
+
+
+def signature_plain(context: Any, result: GroupResult, question: Any) -> bytes | None:
     """A digest of everything a fix search on ``result``'s group reads, names made neutral.
 
     Identical channels of a board (same parts data, values, pins and rails, only the

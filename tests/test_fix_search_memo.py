@@ -70,3 +70,62 @@ def test_remembered_runs_the_search_once_for_identical_channels():
     assert remembered(context, first, ("test-memo", "R1"), search) == 42.0
     assert remembered(context, second, ("test-memo", "R2"), search) == 42.0
     assert len(calls) == 1
+
+
+def _with_note(context, ref: str, note: str):
+    return replace(context, part_data={**context.part_data,
+                                       ref: replace(context.part_data[ref], note=note)})
+
+
+def test_signature_matches_the_plain_signature():
+    """The signature put together piece by piece is the plain path's digest (expected: the
+    plain path of our own code), including records that name a part of the group, records
+    whose text a quote or a backslash leaves uncut, and names repr would escape."""
+    from linter.fix_search import forget_board, signature_plain
+
+    context, first, second = _context_and_results()
+    contexts = [context,
+                _with_note(context, "R1", "N1"),          # a record naming the group's net
+                _with_note(context, "R1", "R1: it's D1"),  # a lone quote in the record
+                _with_note(context, "R1", "a\\b"),        # a backslash in the record
+                replace(context, rails={**context.rails,
+                                        "it's": Rail("it's", 3.3, 3.2, 3.4)})]
+    questions = [("q", "R1", 0.02), ("q", "R2"), ("q", "it's", "a\\b"), None]
+    compared = 0
+    for ctx in contexts:
+        for result in (first, second):
+            for question in questions:
+                forget_board()
+                for _ in range(2):  # the second time from the kept record texts
+                    assert signature(ctx, result, question) == \
+                        signature_plain(ctx, result, question)
+                    compared += 1
+    tabbed = GroupResult(replace(first.group, nets=("+5V", "N\t1", "0")), "solved")
+    assert signature(context, tabbed, ("q",)) == signature_plain(context, tabbed, ("q",))
+    assert compared == 2 * len(contexts) * 2 * len(questions)
+
+
+def test_signature_matches_the_plain_signature_on_boards():
+    """Every solved group of the demo boards and the rule fixtures, asked two questions
+    (expected: the plain path of our own code)."""
+    from pathlib import Path
+
+    from linter.engine import CheckRequest, analyse, load_inputs
+    from linter.fix_search import forget_board, signature_plain
+    from linter.rulekit import solved_groups
+
+    root = Path(__file__).resolve().parent.parent / "fixtures"
+    boards = [(root / "demo" / "dust_extractor_panel.edif", root / "demo" / "bom.csv"),
+              (root / "demo" / "dust_extractor_panel.cir", root / "demo" / "bom.csv"),
+              *((path, None) for path in sorted((root / "rules").glob("*/*.cir")))]
+    compared = 0
+    for netlist, bom in boards:
+        context = analyse(load_inputs(CheckRequest(netlist=netlist, bom=bom)))
+        forget_board()
+        for result in solved_groups(context):
+            for question in (("split", result.group.setter, 100.0, 0.05), ("q", 1e-3)):
+                assert signature(context, result, question) == \
+                    signature_plain(context, result, question)
+                compared += 1
+    forget_board()
+    assert compared > 50
