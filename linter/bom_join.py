@@ -15,7 +15,7 @@ from operator import attrgetter
 from dataclasses import dataclass, field, replace
 from typing import Literal, Mapping
 
-from linter.model import Circuit, Part, SourceLocation
+from linter.model import Circuit, Part, SourceLocation, stored_location
 from linter.readers.bom import Bom, BomLine
 from linter.refs import fold_refs
 from linter.units import format_si, number_or_none
@@ -160,8 +160,9 @@ _READ_LINE = attrgetter(*_BOM_PROPERTIES)
 
 def _changed(part: Part, properties: Mapping[str, str], part_number: str | None) -> Part:
     """``dataclasses.replace(part, properties=…, part_number=…)`` without its per-call
-    introspection (the other fields passed on as they are, in field order)."""
-    return Part(part.ref, part.kind, part.value, part.pins, part.location, part.value_si,
+    introspection (the other fields passed on as they are, in field order; the location as
+    stored, packed or not)."""
+    return Part(part.ref, part.kind, part.value, part.pins, stored_location(part), part.value_si,
                 part.path, part.cell, part_number, properties, part.model)
 
 

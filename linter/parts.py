@@ -19,7 +19,7 @@ from linter.generic_parts import (AXIAL_POWER, GENERIC_BJT, GENERIC_LEDS, GENERI
                                   GENERIC_MOSFET, LED_TEST_CURRENT, LED_VR_MAX,
                                   RESISTOR_POWER_BY_CHIP, UNKNOWN_COLOR_LED, GenericLed,
                                   chip_size, color_from_texts, is_axial)
-from linter.model import Circuit, Part
+from linter.model import Circuit, Part, stored_location
 from linter.part_specs import PartSpec
 from linter.partdata import BjtData, LedData, McuData, MosfetData, PartData, ResistorData
 from linter.units import ValueParseError, format_si, parse_fraction, parse_number
@@ -69,7 +69,8 @@ def resolve_part_data(circuit: Circuit, settings: "Settings") -> tuple[Circuit, 
         if spec is not None:
             number = part.part_number or spec.part_number
             if part.kind != spec.kind or part.part_number != number:
-                part = replace(part, kind=spec.kind, part_number=number)
+                part = replace(part, kind=spec.kind, part_number=number,
+                               location=stored_location(part))  # (packed or not, as read)
                 parts[ref] = part
         record = _record(part, spec, settings, leds, resistors)
         if record is not None:

@@ -29,7 +29,7 @@ from dataclasses import dataclass
 
 from linter.errors import NetlistError
 from linter.kinds import infer_kind
-from linter.model import Circuit, Net, Part, Pin, SourceLocation
+from linter.model import Circuit, Net, Part, Pin, SourceLocation, packed_location
 from linter.readers.edif_compound import EdifCompounds
 from linter.readers.edif_flatten import FlatDesign, Leaf, NetWire, flatten, pin_names
 from linter.readers.edif_syntax import EdifFile, _child, read_edif_file
@@ -138,7 +138,8 @@ def _release_instances(edif: EdifFile) -> None:
 
 def _locations(doc: Document, forms: list[list | int]) -> list[SourceLocation]:
     """Where each form starts, found in one sweep through the text; one object a place (a
-    sheet placed many times has its forms many times)."""
+    sheet placed many times has its forms many times), packed (:func:`packed_location`: it
+    reads as a SourceLocation)."""
     source = doc.source
     offsets = doc.offsets_of(forms)
     order = sorted(range(len(offsets)), key=offsets.__getitem__)
@@ -146,7 +147,7 @@ def _locations(doc: Document, forms: list[list | int]) -> list[SourceLocation]:
     previous, place = -1, None
     for index, (line, column) in zip(order, doc.sweep(offsets[index] for index in order)):
         if offsets[index] != previous:
-            previous, place = offsets[index], SourceLocation(source, line, column)
+            previous, place = offsets[index], packed_location(source, line, column)
         places[index] = place  # type: ignore[assignment]
     return places
 

@@ -24,7 +24,7 @@ import re
 from collections import Counter
 
 from linter.kinds import infer_kind
-from linter.model import Circuit, DeviceModel, Net, Part, Pin, ReaderNote
+from linter.model import Circuit, DeviceModel, Net, Part, Pin, ReaderNote, SourceLocation, packed_location
 from linter.readers.spice_flatten import FlatElement, Flattened
 from linter.readers.spice_traps import scale_trap_note
 
@@ -140,7 +140,7 @@ def _references(elements: list[FlatElement], leaves: list[str]) -> list[str]:
 class _PartMaker:
     """Parts of one deck. Pins with the same name and net, equal value and cell texts, and the
     empty property table are one object each (a 100,000-element deck repeats a few dozen
-    values; the table is never changed once the part is made)."""
+    values; the table is never changed once the part is made); locations are stored packed."""
 
     def __init__(self, net_names: dict[str, str]) -> None:
         self.net_names = net_names
@@ -175,8 +175,14 @@ class _PartMaker:
         value = element.value_text
         return Part(ref, _kind(element, ref, self.lit),
                     value if value is None else share(value, value), self.pins_of(element),
-                    element.location, element.value_si, path, share(cell, cell), part_number,
-                    properties, element.model)
+                    _packed(element.location), element.value_si, path, share(cell, cell),
+                    part_number, properties, element.model)
+
+
+def _packed(location: SourceLocation) -> SourceLocation:
+    """The location as a Part or Net stores it packed (:func:`packed_location`; it reads as
+    the same SourceLocation)."""
+    return packed_location(location.file, location.line, location.column)
 
 
 _NO_PROPERTIES: dict[str, str] = {}
@@ -221,7 +227,7 @@ def assemble(flat: Flattened, source: str, title: str) -> Circuit:
             note = scale_trap_note(element, ref, readings)
             if note is not None:
                 notes.append(note)
-    nets = {info.name: Net(info.name, tuple(joined[key]), info.location, info.aliases)
+    nets = {info.name: Net(info.name, tuple(joined[key]), _packed(info.location), info.aliases)
             for key, info in flat.nets.items()}
     return Circuit(source=source, format="spice", parts=parts, nets=nets, notes=tuple(notes),
                    design=title)

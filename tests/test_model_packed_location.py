@@ -1,0 +1,64 @@
+"""A Part's or Net's location stored packed (:func:`linter.model.packed_location`) reads, compares,
+hashes, prints, pickles and copies as the SourceLocation it packs.
+
+The reference is the plain path of our own code: the same Part or Net made with
+``SourceLocation(file, line, column)``.
+"""
+
+from __future__ import annotations
+
+import copy
+import pickle
+from dataclasses import replace
+
+from hypothesis import given, strategies as st
+
+from linter.model import Net, Part, Pin, SourceLocation, packed_location, stored_location
+
+files = st.text(max_size=8)
+lines = st.integers(0, 10**12)
+columns = st.integers(0, (1 << 20) + 5)  # past the packed range too
+
+
+def _pair(cls, file, line, column):
+    if cls is Part:
+        args = ("R1", "resistor", "1k", (Pin("1", "A"), Pin("2", "B")))
+        return Part(*args, packed_location(file, line, column)), \
+            Part(*args, SourceLocation(file, line, column))
+    args = ("A", (("R1", "1"), ("R2", "2")))
+    return Net(*args, packed_location(file, line, column)), \
+        Net(*args, SourceLocation(file, line, column))
+
+
+@given(st.sampled_from([Part, Net]), files, lines, columns)
+def test_packed_reads_as_plain(cls, file, line, column):
+    packed, plain = _pair(cls, file, line, column)
+    place = packed.location
+    assert type(place) is SourceLocation and place == plain.location
+    assert (place.file, place.line, place.column) == (file, line, column)
+    assert type(place.line) is int and type(place.column) is int
+    assert packed == plain and hash(packed) == hash(plain) and repr(packed) == repr(plain)
+    assert pickle.loads(pickle.dumps(packed)) == plain
+    assert copy.copy(packed) == plain and copy.deepcopy(packed) == plain
+    assert replace(packed) == plain
+    again = replace(packed, location=stored_location(packed))
+    assert again == plain and stored_location(again) is stored_location(packed)
+
+
+def test_outside_the_packed_range_stays_a_source_location():
+    # column 2**20 and a negative line do not pack (the packing's own limits).
+    assert type(packed_location("f", 1, 1 << 20)) is SourceLocation
+    assert type(packed_location("f", -1, 1)) is SourceLocation
+    assert type(packed_location("f", 1, 1)) is not SourceLocation
+
+
+def test_a_source_location_is_stored_as_given():
+    place = SourceLocation("f", 3, 4)
+    part = Part("R1", "resistor", None, (), place)
+    assert part.location is place and stored_location(part) is place
+
+
+def test_files_are_kept_apart():
+    first, second = packed_location("a.cir", 5, 1), packed_location("b.cir", 5, 1)
+    assert Net("N", (), first).location.file == "a.cir"
+    assert Net("N", (), second).location.file == "b.cir"
