@@ -22,7 +22,7 @@ from linter.groups import Group, PinDrive, Scenario
 from linter.refs import natural_key
 from linter.topology_index import CircuitIndex
 from linter.topology_shape import NotABank, orient
-from linter.topology_walk import walk_chain
+from linter.topology_walk import Chain, walk_chain, walk_control
 
 __all__ = ["quick_group"]
 
@@ -58,8 +58,12 @@ def quick_group(index: CircuitIndex, led: str, order: Mapping[str, int],
         return None  # (both ends on one net: the general path says why)
     rails = index.rails
     found: list[PinDrive] = []
-    if not _end_pins(index, start, rails, found) or not _end_pins(index, end, rails, found):
-        return None
+    start_done = _end_pins(index, start, rails, found)
+    end_done = _end_pins(index, end, rails, found)
+    if not (start_done and end_done):
+        if found or start_done == end_done:
+            return None
+        return _through_transistor(index, chain, end if start_done else start, order, placed)
     try:
         strand = orient(index, chain)
     except NotABank:
@@ -101,3 +105,111 @@ def quick_group(index: CircuitIndex, led: str, order: Mapping[str, int],
                  tuple(sorted(parts, key=natural_key)), tuple(sorted_nets),
                  tuple([net for net in sorted_nets if net in rails]), resistors[0], pins,
                  (scenario,), None, None, None)
+
+
+def _sorted_pins(pins: list[PinDrive]) -> tuple[PinDrive, ...]:
+    """The pins without repeats, by natural order of their ids (as Draft.pins)."""
+    if not pins:
+        return ()
+    unique = dict.fromkeys(pins)
+    if len(unique) == 1:
+        return tuple(unique)
+    return tuple(sorted(unique, key=lambda pin: natural_key(pin.id)))
+
+
+def _through_transistor(index: CircuitIndex, chain: Chain, c_net: str | None,
+                        order: Mapping[str, int], placed: set[str]) -> Group | None:
+    """The group when the LED chain runs from a rail to one transistor's collector (drain).
+
+    The collector net joins the chain and the transistor only; the emitter (source) is on a
+    rail, or on a net joining it to one chain of series parts without LEDs whose far end is a
+    rail. The label follows :func:`linter.topology_transistor.classify_transistor` step by
+    step; anything it would not label as a sink, source or switch returns None.
+    """
+    if c_net is None:
+        return None
+    pins = index.pins_on(c_net)
+    if len(pins) != 2:
+        return None
+    edge = chain.parts[0] if chain.nets[0] == c_net else chain.parts[-1]
+    (ref_a, pin_a), (ref_b, pin_b) = pins
+    ref, pin_name = (ref_b, pin_b) if ref_a == edge else (ref_a, pin_a)
+    if ref == edge or (ref_a != edge and ref_b != edge) or index.role(ref) != "transistor":
+        return None
+    terminals = index.transistor_pins(ref)
+    if terminals is None or terminals["c"].name != pin_name:
+        return None
+    e_net = terminals["e"].net
+    if e_net is None or e_net == c_net:
+        return None
+    rails = index.rails
+    kind = index.kind
+    chains = [chain]
+    if e_net in rails:
+        e_rail, emitter_resistors = e_net, ()
+    else:
+        e_pins = index.pins_on(e_net)
+        if len(e_pins) != 2 or index.split(e_net).mcu:
+            return None
+        (ref_a, pin_a), (ref_b, pin_b) = e_pins
+        other = ref_b if (ref_a, pin_a) == (ref, terminals["e"].name) else ref_a
+        if other == ref or index.role(other) != "series":
+            return None
+        tail = walk_chain(index, other)
+        far = tail.nets[-1] if tail.nets[0] == e_net else tail.nets[0]
+        if far not in rails or any(kind(part) == "led" for part in tail.parts):
+            return None
+        chains.append(tail)
+        e_rail = far
+        emitter_resistors = tuple([part for part in tail.parts if kind(part) == "resistor"])
+    try:
+        strand = orient(index, chain)
+    except NotABank:
+        return None
+    top, bottom = strand.chain.nets[0], strand.chain.nets[-1]
+    polarity = index.polarity(ref)
+    low = polarity in ("npn", "nmos")
+    far_led = top if low else bottom
+    near_led = bottom if low else top
+    if near_led != c_net or far_led not in rails:
+        return None
+    upper, lower = (far_led, e_rail) if low else (e_rail, far_led)
+    if rails[upper].nom <= rails[lower].nom:
+        return None
+    cluster_nets = set(chain.nets)
+    for extra in chains[1:]:
+        cluster_nets.update(extra.nets)
+    cluster_nets.add(e_net)
+    control = walk_control(index, ref, terminals["b"].net, cluster_nets)
+    if control.problems:
+        return None
+    if emitter_resistors:
+        if polarity in ("nmos", "pmos"):
+            return None
+        label, setter, reason = ("npn-sink" if low else "pnp-source"), ref, None
+    else:
+        label = "low-side-switch" if low else "high-side-switch"
+        if strand.resistors:
+            setter, reason = strand.resistors[0], None
+        else:
+            setter, reason = None, f"nothing but {ref} limits the current"
+    leds = [part for part in chain.parts if kind(part) == "led" and part not in placed]
+    leds_t = (leds[0],) if len(leds) == 1 else tuple(sorted(leds, key=order.__getitem__))
+    level = "high" if low else "low"
+    scenario = Scenario("on", {pin.id: level for pin in control.pins}, leds_t)
+    reason = "; ".join([text for text in [reason, *control.notes] if text]) or None
+    pins_t = _sorted_pins(control.pins)
+    parts = set(control.parts)
+    for each in chains:
+        parts.update(each.parts)
+    parts.add(ref)
+    net_set = cluster_nets.union(control.nets)
+    if pins_t:
+        parts.update([pin.part for pin in pins_t])
+        net_set.update([pin.supply for pin in pins_t if pin.supply in rails])
+    sorted_nets = index.natural_sorted(net_set)
+    first = min(leds_t, key=index.led_rank.__getitem__) if len(leds_t) > 1 else leds_t[0]
+    return Group(f"G-{first}", label, leds_t, (strand.leds,),
+                 tuple(sorted(parts, key=natural_key)), tuple(sorted_nets),
+                 tuple([net for net in sorted_nets if net in rails]), setter, pins_t,
+                 (scenario,), reason, ref, control.drive)

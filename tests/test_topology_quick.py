@@ -21,7 +21,7 @@ from hypothesis import strategies as st
 
 from linter.engine import CheckRequest, load_inputs
 from linter.model import Circuit, Net, Part, Pin, SourceLocation
-from linter.partdata import McuData, Rail
+from linter.partdata import BjtData, McuData, MosfetData, Rail
 from linter.topology import find_groups
 
 ROOT = Path(__file__).resolve().parent.parent
@@ -89,20 +89,36 @@ RAILS = {"V5": Rail("V5", 5.0, 5.0, 5.0), "V12": Rail("V12", 12.0, 12.0, 12.0),
 PIN_NETS = ("P1", "P2", "P3")
 NETS = tuple(RAILS) + PIN_NETS + ("N1", "N2", "N3", "N4", "N5")
 LED_PINS = (("A", "K"), ("K", "A"), ("ANODE", "CATHODE"), ("1", "2"), ("+", "-"))
+TRANSISTOR_PINS = (("C", "B", "E"), ("E", "B", "C"), ("D", "G", "S"), ("S", "G", "D"),
+                   ("1", "2", "3"), ("C", "C", "E"))
+KINDS = ("led", "led", "led", "resistor", "resistor", "link", "capacitor", "diode",
+         "npn", "pnp", "nmos", "pmos")
 
-_part = st.tuples(st.sampled_from(["led", "led", "resistor", "link", "capacitor", "diode"]),
-                  st.sampled_from(LED_PINS),
-                  st.sampled_from(NETS + (None,)), st.sampled_from(NETS))
+_part = st.tuples(st.sampled_from(KINDS), st.sampled_from(LED_PINS),
+                  st.sampled_from(TRANSISTOR_PINS), st.sampled_from(NETS + (None,)),
+                  st.sampled_from(NETS), st.sampled_from(NETS))
 
 
-def _circuit(specs: list[tuple]) -> Circuit:
+def _circuit(specs: list[tuple]) -> tuple[Circuit, dict]:
+    """The parts of ``specs``, two microcontrollers, and the part data that says what is what."""
     parts: dict[str, Part] = {}
+    data: dict = {"U1": McuData(), "U2": McuData()}
     counts: dict[str, int] = {}
-    prefixes = {"led": "D", "resistor": "R", "link": "J", "capacitor": "C", "diode": "V"}
-    for kind, names, one, other in specs:
-        counts[kind] = counts.get(kind, 0) + 1
-        ref = f"{prefixes[kind]}{counts[kind] * 3 % 17 + counts[kind]}"
-        pin_names = names if kind == "led" else ("1", "2")
+    prefixes = {"led": "D", "resistor": "R", "link": "J", "capacitor": "C", "diode": "V",
+                "npn": "Q", "pnp": "Q", "nmos": "M", "pmos": "M"}
+    for kind, led_pins, transistor_pins, one, other, third in specs:
+        prefix = prefixes[kind]
+        counts[prefix] = counts.get(prefix, 0) + 1
+        ref = f"{prefix}{counts[prefix] * 3 % 17 + counts[prefix]}"
+        if prefix in "QM":
+            # a transistor: kind ``transistor`` with its polarity in the part data (pin names
+            # of the other family, numbers or a repeat are not recognised)
+            names = transistor_pins
+            pins = tuple(Pin(name, net) for name, net in zip(names, (one, other, third)))
+            parts[ref] = Part(ref, "transistor", None, pins, HERE)
+            data[ref] = BjtData(kind) if prefix == "Q" else MosfetData(kind)
+            continue
+        pin_names = led_pins if kind == "led" else ("1", "2")
         parts[ref] = Part(ref, kind, None, (Pin(pin_names[0], one), Pin(pin_names[1], other)),
                           HERE)
     # U1 drives P1 and P2, U2 drives P3 (VDD on V5 for U1; U2 has no supply pin)
@@ -115,20 +131,76 @@ def _circuit(specs: list[tuple]) -> Circuit:
             if pin.net is not None:
                 nets.setdefault(pin.net, []).append((ref, pin.name))
     return Circuit("t", "spice", parts,
-                   {name: Net(name, tuple(pins), HERE) for name, pins in nets.items()})
+                   {name: Net(name, tuple(pins), HERE) for name, pins in nets.items()}), data
 
 
-@settings(max_examples=400, deadline=None)
-@given(specs=st.lists(_part, min_size=1, max_size=9))
+@settings(max_examples=600, deadline=None)
+@given(specs=st.lists(_part, min_size=1, max_size=10))
 def test_random_small_circuits(specs: list[tuple]) -> None:
-    circuit = _circuit(specs)
+    circuit, data = _circuit(specs)
     if not circuit.leds():
         return
-    _assert_same(circuit, RAILS, {"U1": McuData(), "U2": McuData()})
+    _assert_same(circuit, RAILS, data)
 
 
-def test_random_circuits_reach_the_quick_path_and_its_fallbacks(monkeypatch) -> None:
-    # a chain of each kind the quick path labels, and some it hands back
+def _two(kind: str, one: str | None, other: str, pins: tuple = LED_PINS[0]) -> tuple:
+    """A two-pin part's spec (its transistor pin names are not used)."""
+    return (kind, pins, TRANSISTOR_PINS[0], one, other, other)
+
+
+def _three(kind: str, nets: tuple, pins: tuple) -> tuple:
+    """A transistor's spec: ``nets`` in the order of ``pins``."""
+    return (kind, LED_PINS[0], pins, *nets)
+
+
+BJT, FET = TRANSISTOR_PINS[0], TRANSISTOR_PINS[2]
+
+# One circuit of each group kind the quick path labels, and some it hands back.
+CASES = {
+    "resistor": [_two("resistor", "V5", "N1"), _two("led", "N1", "GND")],
+    "string": [_two("resistor", "V12", "N1"), _two("led", "N2", "N1", LED_PINS[1]),
+               _two("led", "N2", "GND")],
+    "pin-source": [_two("led", "N1", "GND", LED_PINS[2]), _two("resistor", "N1", "P1")],
+    "pin-sink": [_two("led", "N1", "P3", LED_PINS[4]), _two("resistor", "V5", "N1")],
+    "npn-sink": [_two("led", "V12", "N1"), _three("npn", ("N1", "N2", "N3"), BJT),
+                 _two("resistor", "N3", "GND"), _two("resistor", "V5", "N2"),
+                 _two("resistor", "N2", "GND")],
+    "pnp-source": [_two("led", "N1", "GND"), _three("pnp", ("N1", "N2", "N3"), BJT),
+                   _two("resistor", "N3", "V12"), _two("resistor", "V12", "N2"),
+                   _two("resistor", "N2", "GND")],
+    "low-side-switch": [_two("resistor", "V5", "N4"), _two("led", "N4", "N1"),
+                        _three("nmos", ("N1", "N2", "GND"), FET),
+                        _two("resistor", "P1", "N2")],
+    "high-side-switch": [_two("led", "N1", "GND"), _three("pmos", ("N1", "P3", "V5"), FET)],
+    "reversed": [_two("resistor", "V5", "N1"), _two("led", "N1", "GND", LED_PINS[1])],
+    "across-rails": [_two("led", "V5", "GND")],
+    "unrecognised": [_two("resistor", "V5", "N1"), _two("led", "N1", "V5B")],
+}
+
+
+@st.composite
+def _mutated_case(draw) -> list[tuple]:
+    """One of :data:`CASES`, changed in up to three places, with up to two parts added."""
+    specs = [list(spec) for spec in CASES[draw(st.sampled_from(sorted(CASES)))]]
+    for _ in range(draw(st.integers(0, 3))):
+        spec = specs[draw(st.integers(0, len(specs) - 1))]
+        field = draw(st.integers(0, 5))
+        spec[field] = draw(st.sampled_from(
+            [KINDS, LED_PINS, TRANSISTOR_PINS, NETS + (None,), NETS, NETS][field]))
+    return [tuple(spec) for spec in specs] + draw(st.lists(_part, max_size=2))
+
+
+@settings(max_examples=800, deadline=None)
+@given(specs=_mutated_case())
+def test_changed_circuits_of_each_kind(specs: list[tuple]) -> None:
+    circuit, data = _circuit(specs)
+    if not circuit.leds():
+        return
+    _assert_same(circuit, RAILS, data)
+
+
+def test_each_case_reaches_the_quick_path_or_its_fallback(monkeypatch) -> None:
+    # the quick path answers for the kinds it labels and hands the others back
     import linter.topology as topology
 
     answered: list[str] = []
@@ -141,21 +213,11 @@ def test_random_circuits_reach_the_quick_path_and_its_fallbacks(monkeypatch) -> 
 
     quick = topology.quick_group
     monkeypatch.setattr(topology, "quick_group", counted)
-    cases = {
-        "resistor": [("resistor", LED_PINS[0], "V5", "N1"), ("led", LED_PINS[0], "N1", "GND")],
-        "string": [("resistor", LED_PINS[0], "V12", "N1"), ("led", LED_PINS[1], "N2", "N1"),
-                   ("led", LED_PINS[0], "N2", "GND")],
-        "pin-source": [("led", LED_PINS[2], "N1", "GND"), ("resistor", LED_PINS[0], "N1", "P1")],
-        "pin-sink": [("led", LED_PINS[4], "N1", "P3"), ("resistor", LED_PINS[0], "V5", "N1")],
-        "reversed": [("resistor", LED_PINS[0], "V5", "N1"), ("led", LED_PINS[1], "N1", "GND")],
-        "across-rails": [("led", LED_PINS[0], "V5", "GND")],
-        "unrecognised": [("resistor", LED_PINS[0], "V5", "N1"), ("led", LED_PINS[0], "N1", "V5B")],
-    }
-    for topology, specs in cases.items():
-        circuit = _circuit(specs)
-        _assert_same(circuit, RAILS, {"U1": McuData(), "U2": McuData()})
+    quick_labels = ("resistor", "string", "pin-source", "pin-sink", "npn-sink", "pnp-source",
+                    "low-side-switch", "high-side-switch")
+    for topology, specs in CASES.items():
+        circuit, data = _circuit(specs)
+        _assert_same(circuit, RAILS, data)
         answered.clear()
-        assert find_groups(circuit, RAILS, {"U1": McuData(), "U2": McuData()})[0].topology \
-            == topology
-        quick_labels = ("resistor", "string", "pin-source", "pin-sink")
+        assert find_groups(circuit, RAILS, data)[0].topology == topology
         assert answered == ([topology] if topology in quick_labels else []), topology
