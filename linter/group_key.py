@@ -30,7 +30,7 @@ from linter.model import Circuit, Part
 from linter.netbuild import _ADDERS, supply_pin_names
 from linter.partdata import McuData, PartDataMap, Rail
 
-__all__ = ["DataKeys", "group_key"]
+__all__ = ["DataKeys", "group_key", "group_key_plain"]
 
 _JOINING = ("link", "inductor")
 """Kinds whose pins' nets are merged into one node."""
@@ -79,6 +79,20 @@ class DataKeys:
         self.by_id: dict[int, Any] = {}
         self.kept: list[Any] = []
         self.interned: dict[Any, Any] = {}
+        self.supplies: dict[tuple[int, int], tuple[Any, tuple[tuple[str, str | None], ...]]] = {}
+
+    def supply_pins(self, part: Part, data: Any) -> tuple[tuple[str, str | None], ...]:
+        """(name, net) of the pins of microcontroller ``part`` that ``data`` (its part data,
+        or None) names as supply pins, in pin order; remembered by the identity of both
+        (each kept)."""
+        key = (id(part), id(data))
+        found = self.supplies.get(key)
+        if found is None:
+            mcu = data if isinstance(data, McuData) else McuData()
+            names = supply_pin_names(mcu)
+            found = self.supplies[key] = ((part, data), tuple(
+                (p.name, p.net) for p in part.pins if p.name.casefold() in names))
+        return found[1]
 
     def key(self, data: Any) -> Any:
         found = self.by_id.get(id(data), _MISSING)
@@ -134,14 +148,11 @@ def _drive_key(enc: _Encoder, circuit: Circuit, part_data: PartDataMap, drive,
     return (enc.ref(drive.part), pin, enc.net(drive.net), enc.data(data), supply)
 
 
-def group_key(group: Group, circuit: Circuit, part_data: PartDataMap,
-              rails: Mapping[str, Rail], data_keys: DataKeys | None = None
-              ) -> tuple[tuple, tuple[str, ...]]:
-    """(key, refs): equal keys build models equal but for the names (see the module);
-    ``refs`` the group's part references in their order in the key.
-
-    ``data_keys``, kept across the calls of one analysis, reads each part data record
-    once."""
+def group_key_plain(group: Group, circuit: Circuit, part_data: PartDataMap,
+                    rails: Mapping[str, Rail], data_keys: DataKeys | None = None
+                    ) -> tuple[tuple, tuple[str, ...]]:
+    """:func:`group_key` written step by step, one encoder call per name (the plain twin
+    the tests hold :func:`group_key` to)."""
     enc = _Encoder(rails, DataKeys() if data_keys is None else data_keys)
     parts = circuit.parts
     for ref in group.parts:
@@ -164,3 +175,92 @@ def group_key(group: Group, circuit: Circuit, part_data: PartDataMap,
            tuple(tuple(enc.name(x) for x in s) for s in group.strings),
            tuple(inside), outside, drives, scenarios)
     return key, tuple(enc.refs)
+
+
+_MISSING_PART = ("missing",)
+
+
+def group_key(group: Group, circuit: Circuit, part_data: PartDataMap,
+              rails: Mapping[str, Rail], data_keys: DataKeys | None = None
+              ) -> tuple[tuple, tuple[str, ...]]:
+    """(key, refs): equal keys build models equal but for the names (see the module);
+    ``refs`` the group's part references in their order in the key.
+
+    ``data_keys``, kept across the calls of one analysis, reads each part data record
+    once and finds each microcontroller's supply pins once. The same key as
+    :func:`group_key_plain` (tests/test_analysis_memo.py compares them on the demo and on
+    generated boards), with the encoder's steps written in line."""
+    keys = DataKeys() if data_keys is None else data_keys
+    data_key = keys.key
+    parts_get = circuit.parts.get
+    data_get = part_data.get
+    rail_get = rails.get
+    refs: dict[str, int] = {}
+    for ref in group.parts:
+        if ref not in refs:
+            refs[ref] = len(refs)
+    codes: dict[str | None, Any] = {None: None}
+    plain = 0
+
+    def net(name: str | None) -> Any:
+        nonlocal plain
+        found = codes.get(name, _MISSING)
+        if found is _MISSING:
+            rail = rail_get(name)
+            if rail is not None:
+                found = codes[name] = ("r", name, rail)
+            else:
+                found = codes[name] = plain
+                plain += 1
+        return found
+
+    def part_key(ref: str) -> tuple:
+        part = parts_get(ref)
+        if part is None:
+            return _MISSING_PART
+        kind = part.kind
+        if kind in _JOINING:
+            return (kind, tuple([net(p.net) for p in part.pins]))
+        if kind not in _ADDERS:
+            return (kind,)
+        model = part.model
+        return (kind, part.value_si, part.part_number,
+                tuple(model.params.items()) if model is not None else None,
+                tuple([(p.name, net(p.net)) for p in part.pins]), data_key(data_get(ref)))
+
+    inside = [part_key(ref) for ref in group.parts]
+    outside = []
+    for ref in dict.fromkeys(s[i] for s in group.strings if s for i in (0, -1)):
+        if ref not in refs:
+            refs[ref] = len(refs)
+            outside.append(part_key(ref))
+    pin_ids: dict[str, int] = {}
+    pins = group.pins
+    for drive in pins:
+        pin_ids.setdefault(drive.id, len(pin_ids))
+    drives = []
+    for drive in pins:
+        ref = drive.part
+        data = data_get(ref)
+        part = parts_get(ref)
+        supply = None if part is None else tuple(
+            [(name, net(pin_net)) for name, pin_net in keys.supply_pins(part, data)])
+        if ref not in refs:
+            refs[ref] = len(refs)
+        drives.append((refs[ref], pin_ids[drive.id], net(drive.net), data_key(data), supply))
+    refs_get = refs.get
+
+    def name(text: str | None) -> Any:
+        found = refs_get(text) if text is not None else None
+        return ("l", text) if found is None else found
+
+    scenarios = tuple(
+        (s.name, tuple([s.levels.get(d.id) for d in pins]),
+         None if s.lit is None else tuple([name(x) for x in s.lit]))
+        for s in group.scenarios)
+    setter = group.setter
+    setter_key = ("p", pin_ids[setter]) if setter in pin_ids else name(setter)
+    key = (group.topology, setter_key, group.rails,
+           tuple([tuple([name(x) for x in s]) for s in group.strings]),
+           tuple(inside), tuple(outside), tuple(drives), scenarios)
+    return key, tuple(refs)

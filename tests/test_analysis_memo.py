@@ -21,7 +21,7 @@ from circuit_kit import circuit
 from linter import analysis
 from linter.batchsolve import BucketData
 from linter.engine import CheckRequest, load_inputs
-from linter.group_key import group_key
+from linter.group_key import DataKeys, group_key, group_key_plain
 from linter.groups import Group, PinDrive, Scenario
 from linter.model import DeviceModel, Pin
 from linter.netbuild import build_model
@@ -222,7 +222,57 @@ def _changes():
 def test_group_key_changes_with_each_input(what: str, change) -> None:
     groups, c, data, rails = _channels(1)
     base = _key(groups, c, data, rails)
-    assert _key(*change(groups, c, data, rails)) != base, what
+    changed = change(groups, c, data, rails)
+    assert _key(*changed) != base, what
+    assert group_key_plain(changed[0][0], *changed[1:]) == group_key(changed[0][0], *changed[1:])
+
+
+def _keys_both_ways(groups, c, data, rails):
+    shared, shared_plain = DataKeys(), DataKeys()
+    fast = [group_key(g, c, data, rails, shared) for g in groups]
+    plain = [group_key_plain(g, c, data, rails, shared_plain) for g in groups]
+    alone = [group_key(g, c, data, rails) for g in groups]   # a DataKeys of its own
+    return fast, plain, alone
+
+
+@pytest.mark.parametrize("seed", [11, 29])
+@pytest.mark.parametrize("with_data", [True, False])
+def test_group_key_equals_the_plain_key_on_generated_boards(tmp_path: Path, seed: int,
+                                                            with_data: bool) -> None:
+    # the plain reference: group_key_plain, one encoder call per name
+    context = _board(tmp_path, seed)
+    data = context.part_data
+    if not with_data:
+        data = {ref: d for ref, d in data.items() if isinstance(d, LedData)}
+    groups = find_groups(context.circuit, context.rails, data)
+    fast, plain, alone = _keys_both_ways(groups, context.circuit, data, context.rails)
+    assert fast == plain == alone
+    assert len({k for k, _ in fast}) < len(fast)       # repeated channels share keys
+    assert any(g.pins for g in groups)
+
+
+@pytest.mark.parametrize("netlist", ["dust_extractor_panel.edif", "dust_extractor_panel.cir"])
+def test_group_key_equals_the_plain_key_on_the_demo(netlist: str) -> None:
+    context = load_inputs(CheckRequest(DEMO / netlist, bom=DEMO / "bom.csv"))
+    groups = find_groups(context.circuit, context.rails, context.part_data)
+    fast, plain, alone = _keys_both_ways(groups, context.circuit, context.part_data,
+                                         context.rails)
+    assert fast == plain == alone
+
+
+def test_group_key_equals_the_plain_key_on_odd_groups() -> None:
+    # pins of one microcontroller driving several groups (its supply pins found once for
+    # all), a pin named twice, a part missing from the circuit, a string end outside
+    groups, c, data, rails = _channels(3)
+    pin = groups[1].pins[0]
+    odd = [replace(groups[0], pins=groups[0].pins + (pin, pin)),
+           replace(groups[1], parts=groups[1].parts + ("X9",)),
+           replace(groups[2], parts=tuple(p for p in groups[2].parts if p != "D2")),
+           replace(groups[2], setter="U1.PA2", scenarios=(Scenario("on", {}, ("D2", "Z1")),))]
+    data_without_mcu = {k: v for k, v in data.items() if k != "U1"}
+    for table in (data, data_without_mcu):
+        fast, plain, alone = _keys_both_ways(groups + odd, c, table, rails)
+        assert fast == plain == alone
 
 
 def test_group_key_ignores_names_only() -> None:
