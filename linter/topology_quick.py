@@ -21,7 +21,7 @@ from typing import Mapping
 from linter.groups import Group, PinDrive, Scenario
 from linter.refs import natural_key
 from linter.topology_index import CircuitIndex
-from linter.topology_shape import NotABank, orient
+from linter.topology_shape import Strand
 from linter.topology_walk import Chain, walk_chain, walk_control
 
 __all__ = ["quick_group"]
@@ -40,6 +40,40 @@ def _end_pins(index: CircuitIndex, net: str | None, rails: Mapping,
     supply = index.supply_net
     found.extend([PinDrive(ref, pin, net, supply(ref)) for ref, pin in mcu])
     return True
+
+
+def _oriented(index: CircuitIndex, chain: Chain) -> tuple[Strand, list[str]] | None:
+    """:func:`linter.topology_shape.orient` in one loop, and the chain's LEDs in chain order;
+    None where orient raises (an LED without anode and cathode names, or with both on one
+    net, or LEDs facing opposite ways)."""
+    kind, led_pins = index.kind, index.led_pins
+    parts, nets = chain
+    leds: list[str] = []
+    resistors: list[str] = []
+    forward = None
+    for position, ref in enumerate(parts):
+        part_kind = kind(ref)
+        if part_kind == "led":
+            ends = led_pins(ref)
+            if ends is None:
+                return None
+            anode, cathode = ends[0].net, ends[1].net
+            if anode == cathode:
+                return None
+            way = anode == nets[position] and cathode == nets[position + 1]
+            if forward is None:
+                forward = way
+            elif way != forward:
+                return None
+            leds.append(ref)
+        elif part_kind == "resistor":
+            resistors.append(ref)
+    if forward is False:
+        strand = Strand(Chain(parts[::-1], nets[::-1]), tuple(leds[::-1]),
+                        tuple(resistors[::-1]))
+    else:
+        strand = Strand(chain, tuple(leds), tuple(resistors))
+    return strand, leds
 
 
 def quick_group(index: CircuitIndex, led: str, order: Mapping[str, int],
@@ -64,16 +98,14 @@ def quick_group(index: CircuitIndex, led: str, order: Mapping[str, int],
         if found or start_done == end_done:
             return None
         return _through_transistor(index, chain, end if start_done else start, order, placed)
-    try:
-        strand = orient(index, chain)
-    except NotABank:
+    oriented = _oriented(index, chain)
+    if oriented is None:
         return None
+    strand, leds = oriented
     resistors = strand.resistors
     if not resistors:
         return None
-    kind = index.kind
-    leds = [ref for ref in chain.parts if kind(ref) == "led" and ref not in placed]
-    leds_t = (leds[0],) if len(leds) == 1 else tuple(sorted(leds, key=order.__getitem__))
+    leds_t = _unplaced(leds, strand.leds, order, placed)
     top, bottom = strand.chain.nets[0], strand.chain.nets[-1]
     top_rail, bottom_rail = rails.get(top), rails.get(bottom)
     if top_rail is not None and bottom_rail is not None:
@@ -105,6 +137,16 @@ def quick_group(index: CircuitIndex, led: str, order: Mapping[str, int],
                  tuple(sorted(parts, key=natural_key)), tuple(sorted_nets),
                  tuple([net for net in sorted_nets if net in rails]), resistors[0], pins,
                  (scenario,), None, None, None)
+
+
+def _unplaced(leds: list[str], string: tuple[str, ...], order: Mapping[str, int],
+              placed: set[str]) -> tuple[str, ...]:
+    """The chain's LEDs not yet in a group, in netlist order (as the general path's
+    ``_cluster_leds``); the string's own tuple when it is the same (one tuple kept, not two)."""
+    if len(leds) == 1:
+        return string if leds[0] not in placed else ()
+    found = sorted([led for led in leds if led not in placed], key=order.__getitem__)
+    return string if list(string) == found else tuple(found)
 
 
 def _sorted_pins(pins: list[PinDrive]) -> tuple[PinDrive, ...]:
@@ -162,10 +204,10 @@ def _through_transistor(index: CircuitIndex, chain: Chain, c_net: str | None,
         chains.append(tail)
         e_rail = far
         emitter_resistors = tuple([part for part in tail.parts if kind(part) == "resistor"])
-    try:
-        strand = orient(index, chain)
-    except NotABank:
+    oriented = _oriented(index, chain)
+    if oriented is None:
         return None
+    strand, leds = oriented
     top, bottom = strand.chain.nets[0], strand.chain.nets[-1]
     polarity = index.polarity(ref)
     low = polarity in ("npn", "nmos")
@@ -193,8 +235,7 @@ def _through_transistor(index: CircuitIndex, chain: Chain, c_net: str | None,
             setter, reason = strand.resistors[0], None
         else:
             setter, reason = None, f"nothing but {ref} limits the current"
-    leds = [part for part in chain.parts if kind(part) == "led" and part not in placed]
-    leds_t = (leds[0],) if len(leds) == 1 else tuple(sorted(leds, key=order.__getitem__))
+    leds_t = _unplaced(leds, strand.leds, order, placed)
     level = "high" if low else "low"
     scenario = Scenario("on", {pin.id: level for pin in control.pins}, leds_t)
     reason = "; ".join([text for text in [reason, *control.notes] if text]) or None
