@@ -25,7 +25,7 @@ Elements and their terminals:
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field, fields, replace
+from dataclasses import dataclass, field
 from functools import cached_property
 
 import numpy as np
@@ -87,6 +87,13 @@ class Network:
         """Every pn junction: (anode nodes, cathode nodes, polarity)."""
         return junction_nodes(self)
 
+    @cached_property
+    def junction_steps(self) -> tuple[np.ndarray, np.ndarray]:
+        """Each junction's anode and cathode as columns of a Newton step padded with one
+        zero column (a fixed node's column is that zero)."""
+        a, k, _ = self.junctions
+        return np.minimum(a, self.n_nodes), np.minimum(k, self.n_nodes)
+
     @property
     def n_all(self) -> int:
         """Unknown plus fixed nodes."""
@@ -119,7 +126,9 @@ class Params:
 
     def take(self, index: np.ndarray) -> "Params":
         """The rows ``index`` of every array."""
-        return replace(self, **{f.name: getattr(self, f.name)[index] for f in fields(self)})
+        return Params(self.fixed[index], self.r_g[index], self.d_is[index], self.d_nvt[index],
+                      self.q_is[index], self.q_bf[index], self.q_br[index], self.m_vto[index],
+                      self.m_kp[index], self.m_lambda[index])
 
 
 @dataclass(frozen=True, eq=False)
@@ -290,11 +299,16 @@ def _step_factor(net: Network, junctions: _Junctions, v: np.ndarray, dx: np.ndar
     a, k, sign = net.junctions
     if a.size == 0:
         return np.ones(v.shape[0])
-    n = net.n_nodes
+    a_step, k_step = net.junction_steps
     old = sign * (v[:, a] - v[:, k])
     padded = np.concatenate([dx, np.zeros((dx.shape[0], 1))], axis=1)
-    change = sign * (padded[:, np.minimum(a, n)] - padded[:, np.minimum(k, n)])
+    change = sign * (padded[:, a_step] - padded[:, k_step])
     new = old + change
+    # Shortcut: pn_limit moves only a junction above Vcrit that steps by more than 2·n·Vt
+    # (its own test, word for word); with none such (and no NaN), every ratio below is 1.
+    if not ((new > junctions.v_crit) & (np.abs(new - old) > 2.0 * junctions.nvt)).any() \
+            and not np.isnan(new).any():
+        return np.ones(v.shape[0])
     limited = pn_limit(new, old, junctions.nvt, junctions.i_s, junctions.v_crit)
     with np.errstate(divide="ignore", invalid="ignore"):
         ratio = np.where(limited == new, 1.0, (limited - old) / change)

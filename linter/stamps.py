@@ -51,7 +51,7 @@ class Scatter:
         """(B, size): the entries of ``values`` (B, columns) summed into their targets."""
         if values.shape[1] == 0 or self.size == 0:
             return np.zeros((values.shape[0], self.size))
-        gathered = np.take(values, self.columns, axis=1)
+        gathered = values.take(self.columns, axis=1)
         gathered *= self.signs
         return np.add.reduceat(gathered, self.starts, axis=1)
 

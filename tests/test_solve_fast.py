@@ -33,3 +33,45 @@ def test_newton_step_keeps_the_regular_rows_of_a_batch_with_a_singular_row() -> 
     step = _newton_step(a, f)
     assert np.array_equal(step[0], np.linalg.solve(a[:1], -f[:1, :, None])[0, :, 0])
     assert np.array_equal(step[1], np.zeros(2))
+
+
+def _plain_step_factor(net, junctions, v, dx):
+    """The step factor as first written: pn_limit asked about every junction every time."""
+    from linter.devices import pn_limit
+
+    a, k, sign = net.junctions
+    if a.size == 0:
+        return np.ones(v.shape[0])
+    n = net.n_nodes
+    old = sign * (v[:, a] - v[:, k])
+    padded = np.concatenate([dx, np.zeros((dx.shape[0], 1))], axis=1)
+    change = sign * (padded[:, np.minimum(a, n)] - padded[:, np.minimum(k, n)])
+    new = old + change
+    limited = pn_limit(new, old, junctions.nvt, junctions.i_s, junctions.v_crit)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        ratio = np.where(limited == new, 1.0, (limited - old) / change)
+    return np.clip(np.min(ratio, axis=1), 1e-6, 1.0)
+
+
+@pytest.mark.parametrize("seed", range(20))
+@pytest.mark.parametrize("scale", [1e-9, 1e-3, 0.1, 3.0])
+def test_step_factor_is_the_plain_step_factor(seed: int, scale: float) -> None:
+    from linter.solve import Network, Params, _Junctions, _step_factor
+
+    rng = np.random.default_rng(seed)
+    rows = 7
+    pick = lambda count: rng.permutation(6)[:count]  # noqa: E731
+    net = Network(4, 2, np.array([pick(2) for _ in range(2)]),
+                  np.array([pick(2) for _ in range(3)]), np.array([pick(3)]),
+                  bjt_polarity=np.array([rng.choice([-1.0, 1.0])]))
+    col = lambda lo, hi, width: rng.uniform(lo, hi, (rows, width))  # noqa: E731
+    params = Params(fixed=np.tile([0.0, 12.0], (rows, 1)), r_g=col(1e-3, 1e-1, 2),
+                    d_is=10 ** col(-20, -12, 3), d_nvt=col(0.03, 0.09, 3),
+                    q_is=10 ** col(-15, -13, 1), q_bf=col(50, 300, 1), q_br=col(1, 5, 1),
+                    m_vto=np.zeros((rows, 0)), m_kp=np.zeros((rows, 0)),
+                    m_lambda=np.zeros((rows, 0)))
+    junctions = _Junctions.of(params)
+    v = np.concatenate([rng.uniform(-1, 4, (rows, 4)), params.fixed], axis=1)
+    dx = rng.normal(0, scale, (rows, 4))
+    got = _step_factor(net, junctions, v, dx)
+    assert np.array_equal(got, _plain_step_factor(net, junctions, v, dx))
