@@ -66,7 +66,7 @@ class Draft:
         first = min(leds, key=index.led_rank.__getitem__) if len(leds) > 1 else leds[0]
         return Group(
             f"G-{first}", topology, leds, self.strings(), tuple(sorted(parts, key=natural_key)),
-            tuple(sorted_nets), tuple([net for net in sorted_nets if net in all_rails]),
+            tuple(sorted_nets), index.rails_among(sorted_nets),
             setter, pins, scenarios or (Scenario("on", {}, leds),), reason, transistor, drive)
 
     def unrecognised(self, reason: str) -> Group:

@@ -154,6 +154,7 @@ class CircuitIndex:
         self.split = _Memo(self._split).__getitem__
         self.led_rank: dict[str, int] = {}  # LED → its place in natural order (set by topology)
         self._rail_keys = {net: natural_key(net) for net in rails}
+        self._rail_tuples: dict[tuple[str, ...], tuple[str, ...]] = {}
 
     def natural_sorted(self, names: set[str] | list[str]) -> list[str]:
         """``names`` (no repeats) in natural order, as ``sorted(names, key=natural_key)``.
@@ -164,6 +165,12 @@ class CircuitIndex:
         """
         rail_keys, key = self._rail_keys, natural_key
         return [pair[1] for pair in sorted([rail_keys.get(name) or key(name) for name in names])]
+
+    def rails_among(self, sorted_nets: list[str]) -> tuple[str, ...]:
+        """The rails of ``sorted_nets``, in their order, as one shared tuple per combination
+        (a board's groups sit on a few rail pairs: one tuple each, not one per group)."""
+        found = tuple([net for net in sorted_nets if net in self.rails])
+        return self._rail_tuples.setdefault(found, found)
 
     def release(self) -> None:
         """Drop every remembered answer.
@@ -181,6 +188,7 @@ class CircuitIndex:
         self.led_rank = {}
         self._terminals.clear()
         self._supplies.clear()
+        self._rail_tuples.clear()
         self._from_parts = None
 
     # -- parts -------------------------------------------------------------------------

@@ -135,7 +135,7 @@ def quick_group(index: CircuitIndex, led: str, order: Mapping[str, int],
     first = min(leds_t, key=rank.__getitem__) if len(leds_t) > 1 else leds_t[0]
     return Group(f"G-{first}", label, leds_t, (strand.leds,),
                  tuple(sorted(parts, key=natural_key)), tuple(sorted_nets),
-                 tuple([net for net in sorted_nets if net in rails]), resistors[0], pins,
+                 index.rails_among(sorted_nets), resistors[0], pins,
                  (scenario,), None, None, None)
 
 
@@ -252,5 +252,5 @@ def _through_transistor(index: CircuitIndex, chain: Chain, c_net: str | None,
     first = min(leds_t, key=index.led_rank.__getitem__) if len(leds_t) > 1 else leds_t[0]
     return Group(f"G-{first}", label, leds_t, (strand.leds,),
                  tuple(sorted(parts, key=natural_key)), tuple(sorted_nets),
-                 tuple([net for net in sorted_nets if net in rails]), setter, pins_t,
+                 index.rails_among(sorted_nets), setter, pins_t,
                  (scenario,), reason, ref, control.drive)
