@@ -23,7 +23,7 @@ from linter.findings import Finding
 from linter.gc_pause import paused_gc
 from linter.report.common import (finding_location, ordered_findings, plain_data,
                                   severity_counts, sorted_groups, sorted_records)
-from linter.report.json_groups import group_line
+from linter.report.json_followers import GroupLines
 from linter.report.json_layout import Lines, layered_chunks, plain_json
 from linter.report.stream import StreamingReporter
 
@@ -105,9 +105,12 @@ def report_dict(result: "CheckResult") -> dict[str, Any]:
 
 
 def _group_lines(groups: Iterable[Any]) -> Iterator[str]:
-    """Each group's JSON entry, one line each, in natural order of the group id."""
-    for group in sorted_records(groups):
-        yield group_line(group)
+    """Each group's JSON entry, one line each, in natural order of the group id (a
+    follower's from its template's, :mod:`linter.report.json_followers`)."""
+    records = sorted_records(groups)
+    lines = GroupLines(records)
+    for group in records:
+        yield lines.line(group)
 
 
 def _finding_lines(result: "CheckResult") -> Iterator[str]:
