@@ -15,6 +15,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, replace
+from functools import lru_cache
 from typing import Iterable
 
 import numpy as np
@@ -132,8 +133,26 @@ def _choose_divider(v_reference: float, v_th_target: float,
     :func:`_choose_divider_plain` worked out on arrays: each pair's error is the same
     IEEE-754 operations in the same order (V·R_b, divided by R_t + R_b, less the target,
     magnitude, divided by the target), so the same double; the pairs are met in the same
-    order (R_t, then R_b, ascending) and the first best is kept, as ``min`` keeps it
-    (tests compare the two)."""
+    order (R_t, then R_b, ascending) and the first best is kept, as ``min`` keeps it (a
+    stable sort on the same key), so the same pair (tests compare the two)."""
+    grid = _divider_grid(r_total_max)
+    if grid is None:
+        return None
+    values, bottoms, totals, fits, coarseness = grid
+    errors = np.abs(v_reference * bottoms / totals - v_th_target) / v_th_target
+    limit = max(float(errors[fits].min()), DIVIDER_RATIO_SLACK)
+    rows, columns = np.nonzero(fits & (errors <= limit))  # row-major: R_t outer, R_b inner
+    order = np.lexsort((errors[rows, columns], -totals[rows, columns],
+                        np.maximum(coarseness[rows], coarseness[columns])))
+    best = order[0]
+    return values[int(rows[best])], values[int(columns[best])]
+
+
+@lru_cache(maxsize=64)
+def _divider_grid(r_total_max: float) -> tuple | None:
+    """(the E24 values between R_total_max/100 and R_total_max, as floats; the same as a
+    row of R_b; the R_t + R_b table; which totals fit under R_total_max; each value's
+    :func:`_coarseness`), or None when no pair fits. Read only."""
     values = eseries.values_between("E24", r_total_max / 100, r_total_max)
     if not values:
         return None
@@ -143,19 +162,10 @@ def _choose_divider(v_reference: float, v_th_target: float,
     fits = totals <= r_total_max
     if not fits.any():
         return None
-    errors = np.abs(v_reference * bottoms / totals - v_th_target) / v_th_target
-    limit = max(float(errors[fits].min()), DIVIDER_RATIO_SLACK)
-    rows, columns = np.nonzero(fits & (errors <= limit))  # row-major: R_t outer, R_b inner
-    coarseness = [_coarseness(value) for value in values]
-    best_key = None
-    best = None
-    for row, column, error in zip(rows.tolist(), columns.tolist(),
-                                  errors[rows, columns].tolist()):
-        top, bottom = values[row], values[column]
-        key = (max(coarseness[row], coarseness[column]), -(top + bottom), error)
-        if best_key is None or key < best_key:
-            best_key, best = key, (top, bottom)
-    return best
+    coarseness = np.array([_coarseness(value) for value in values])
+    for array in (bottoms, totals, fits, coarseness):
+        array.flags.writeable = False
+    return values, bottoms, totals, fits, coarseness
 
 
 def _choose_divider_plain(v_reference: float, v_th_target: float,
