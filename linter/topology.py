@@ -89,7 +89,7 @@ def _groups(circuit: Circuit, rails: Mapping[str, Rail],
 
 
 def _groups_with(index: CircuitIndex, circuit: Circuit, quick: bool) -> tuple[Group, ...]:
-    leds = [part.ref for part in circuit.leds()]
+    leds = [part.ref for part in circuit.parts.values() if part.kind == "led"]  # (Circuit.leds)
     order = {ref: position for position, ref in enumerate(leds)}  # netlist order of the LEDs
     ranked = sorted(leds, key=natural_key)  # (keys made here and let go of: not cached)
     index.led_rank = {ref: position for position, ref in enumerate(ranked)}

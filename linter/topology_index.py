@@ -149,6 +149,7 @@ class CircuitIndex:
         self._roles = self._all_roles()
         self.kind = self._kinds.__getitem__
         self.role = self._roles.__getitem__
+        self.roles: Mapping[str, Role] = self._roles  # (read-only use: the walks' inner loops)
         self.sort_key = _Memo(natural_key).__getitem__
         self.pins_on = _Memo(self._pins_on).__getitem__
         self.split = _Memo(self._split).__getitem__

@@ -86,14 +86,21 @@ def _extend(index: CircuitIndex, ref: str, pin: Pin, seen: set[str]) -> tuple[li
     parts: list[str] = []
     nets: list[str | None] = []
     series_pins, all_parts = index.series_pins, index.circuit.parts
+    rails, declared_nets, roles = index.rails, index.circuit.nets, index.roles
     while True:
         net = pin.net
         nets.append(net)
-        if net is None:
+        if net is None or net in rails:
             return parts, nets
-        pair = series_pins(net)
-        if pair is None:
-            return parts, nets
+        # the common series node (a listed net of two series pins) as series_pins answers it
+        declared = declared_nets.get(net)
+        if declared is not None and len(pair := declared.pins) == 2 \
+                and roles.get(pair[0][0]) == "series" and roles.get(pair[1][0]) == "series":
+            pass
+        else:
+            pair = series_pins(net)
+            if pair is None:
+                return parts, nets
         (ref_a, pin_a), (ref_b, pin_b) = pair
         if ref_a == ref and pin_a == pin.name:
             following, following_pin = ref_b, pin_b
