@@ -43,6 +43,7 @@ __all__ = [
     "ReaderNote",
     "Circuit",
     "packed_location",
+    "location_packer",
     "stored_location",
 ]
 
@@ -136,6 +137,25 @@ _MAX_PLACE_TYPES = 1024
 """Files whose packed-place class is remembered (a run reads a few files)."""
 
 
+def location_packer(file: str) -> Callable[[int, int], Any]:
+    """``pack(line, column)``: :func:`packed_location` for one file, its class looked up once."""
+    kind = _PLACE_TYPES.get(file) if type(file) is str else None
+    if kind is None:
+        if type(file) is not str:
+            return lambda line, column: SourceLocation(file, line, column)
+        kind = type("_PackedPlace", (_PackedPlace,), {"__slots__": (), "file": file})
+        if len(_PLACE_TYPES) < _MAX_PLACE_TYPES:
+            _PLACE_TYPES[file] = kind
+
+    def pack(line: int, column: int) -> Any:
+        if type(line) is int and type(column) is int and line >= 0 \
+                and 0 <= column <= _COLUMN_MASK:
+            return kind(line << _COLUMN_BITS | column)
+        return SourceLocation(file, line, column)
+
+    return pack
+
+
 def packed_location(file: str, line: int, column: int) -> Any:
     """What a reader may store as a Part's or Net's ``location``: reads back as
     ``SourceLocation(file, line, column)``. Packed when ``line`` and ``column`` are plain
@@ -145,15 +165,7 @@ def packed_location(file: str, line: int, column: int) -> Any:
     >>> Part("R1", "resistor", None, (), place).location
     SourceLocation(file='b.edif', line=1234, column=9)
     """
-    if type(file) is not str or type(line) is not int or type(column) is not int \
-            or line < 0 or not 0 <= column <= _COLUMN_MASK:
-        return SourceLocation(file, line, column)
-    kind = _PLACE_TYPES.get(file)
-    if kind is None:
-        kind = type("_PackedPlace", (_PackedPlace,), {"__slots__": (), "file": file})
-        if len(_PLACE_TYPES) < _MAX_PLACE_TYPES:
-            _PLACE_TYPES[file] = kind
-    return kind(line << _COLUMN_BITS | column)
+    return location_packer(file)(line, column)
 
 
 class _LocationSlot:

@@ -29,7 +29,7 @@ from dataclasses import dataclass
 
 from linter.errors import NetlistError
 from linter.kinds import infer_kind
-from linter.model import Circuit, Net, Part, Pin, SourceLocation, packed_location
+from linter.model import Circuit, Net, Part, Pin, SourceLocation, location_packer
 from linter.readers.edif_compound import EdifCompounds
 from linter.readers.edif_flatten import FlatDesign, Leaf, NetWire, flatten, pin_names
 from linter.readers.edif_syntax import EdifFile, _child, read_edif_file
@@ -138,16 +138,16 @@ def _release_instances(edif: EdifFile) -> None:
 
 def _locations(doc: Document, forms: list[list | int]) -> list[SourceLocation]:
     """Where each form starts, found in one sweep through the text; one object a place (a
-    sheet placed many times has its forms many times), packed (:func:`packed_location`: it
-    reads as a SourceLocation)."""
-    source = doc.source
+    sheet placed many times has its forms many times), packed
+    (:func:`linter.model.packed_location`: it reads as a SourceLocation)."""
+    pack = location_packer(doc.source)
     offsets = doc.offsets_of(forms)
     order = sorted(range(len(offsets)), key=offsets.__getitem__)
     places: list[SourceLocation] = [None] * len(offsets)  # type: ignore[list-item]
     previous, place = -1, None
     for index, (line, column) in zip(order, doc.sweep(offsets[index] for index in order)):
         if offsets[index] != previous:
-            previous, place = offsets[index], packed_location(source, line, column)
+            previous, place = offsets[index], pack(line, column)
         places[index] = place  # type: ignore[assignment]
     return places
 
@@ -239,16 +239,22 @@ def _fields(leaf: Leaf) -> _Fields:
 _NO_PROPERTIES: dict[str, str] = {}
 """One empty property table for every part without properties (never changed)."""
 
+_DIGITS = "0123456789"
+
 
 class _PartMaker:
     """Parts of one design. Parts whose cell, view and instance properties are the same
     objects share their property reading (and its dictionary, never changed); pins with the
-    same name and net, and equal values, are one object each."""
+    same name and net, and equal values, are one object each. A part's kind and value reading
+    are worked out once per property reading and reference stem (the reference without its
+    final digits: :func:`linter.kinds.infer_kind` reads only the letters that start its last
+    path element, which the stem fixes)."""
 
     def __init__(self, flat: FlatDesign, net_names: dict[int, str], doc: Document) -> None:
         self.flat, self.net_names, self.doc = flat, net_names, doc
         self.fields: dict[tuple[int, int, int], _Fields] = {}
         self.values: dict[tuple[str, str | None], tuple[float | None, str]] = {}
+        self.kinds: dict[tuple[str, tuple[int, int, int]], tuple[str, tuple[float | None, str]]] = {}
         self.pins: dict[tuple[str, str | None], Pin] = {}
         self.names: dict[int, tuple[str, ...]] = {}
         self.kept: list[object] = []  # what the ids above name, kept alive: ids stay unique
@@ -260,12 +266,18 @@ class _PartMaker:
             fields = self.fields[key] = _fields(leaf)
             self.kept += (leaf.cell, leaf.view, leaf.instance.properties)
         value, cell = fields.value, leaf.cell.name.display
-        kind = infer_kind(ref, value, fields.part_number, fields.description, fields.package,
-                          cell)
-        reading = self.values.get((kind, value))
-        if reading is None:
-            ohms = _ohms(kind, value)
-            reading = self.values[(kind, value)] = (ohms, _resistance_problem(kind, value, ohms))
+        stem = ref.rstrip(_DIGITS)
+        known = self.kinds.get((stem, key))
+        if known is None:
+            kind = infer_kind(ref, value, fields.part_number, fields.description,
+                              fields.package, cell)
+            reading = self.values.get((kind, value))
+            if reading is None:
+                ohms = _ohms(kind, value)
+                reading = self.values[(kind, value)] = (ohms,
+                                                        _resistance_problem(kind, value, ohms))
+            known = self.kinds[(stem, key)] = (kind, reading)
+        kind, reading = known
         if reading[1]:
             raise self.doc.error(leaf.instance.form, f"{ref}: {reading[1]}")
         path = "/".join(leaf.names) if leaf.parents else leaf.instance.name.display

@@ -14,6 +14,9 @@ The blocks of the children of one placed view are consecutive, so each view's co
 are worked out once, as (wire in its block, pin in its children's block or own port) pairs,
 however often the view is placed. An instance is a leaf (a part) when its cell is in an
 ``external`` library or its view has no instances in its contents.
+
+:class:`Leaf` and :class:`NetWire` (one per part and per placed net) are not frozen, as the
+syntax records are not (:mod:`linter.readers.edif_syntax`).
 """
 
 from __future__ import annotations
@@ -29,7 +32,7 @@ from linter.readers.edif_syntax import (
 __all__ = ["Leaf", "NetWire", "FlatDesign", "flatten", "pin_names"]
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(slots=True, unsafe_hash=True)
 class Leaf:
     """A placed part: the display names of its parents, its instance, cell and view, and the
     first node of its pin block."""
@@ -46,7 +49,7 @@ class Leaf:
         return (*self.parents, self.instance.name.display)
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(slots=True, unsafe_hash=True)
 class NetWire:
     """One wire of a net as placed: its depth and order decide which name a merged net takes;
     ``form`` is the net's form (a list, or an offset), where messages and locations point."""

@@ -11,6 +11,12 @@ Each record keeps the form it came from (``form``) so that later errors and loca
 point at it through :meth:`linter.readers.sexpr.Document.position_of`: the list, or for an
 instance or port reference read whole (:mod:`linter.readers.edif_compound`) the offset of
 its ``(``.
+
+The records made per instance, net and port reference (:class:`Name`, :class:`Port`,
+:class:`PortRef`, :class:`Net`, :class:`Instance`) are not frozen, only because a frozen
+dataclass costs about four times as much to make (``object.__setattr__`` per field) and a
+100,000-part netlist makes several hundred thousand of them; nothing changes one once made,
+and they hash as frozen ones do (``unsafe_hash``).
 """
 
 from __future__ import annotations
@@ -27,7 +33,7 @@ __all__ = [
 ]
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(slots=True, unsafe_hash=True)
 class Name:
     """A declared name: ``key`` for matching (case-folded identifier), ``display`` for people.
 
@@ -43,13 +49,13 @@ class Name:
         return prod(self.dims) if self.dims else 1
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(slots=True, unsafe_hash=True)
 class Port:
     name: Name
     form: list = field(repr=False)
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(slots=True, unsafe_hash=True)
 class PortRef:
     """A reference to a port (of the cell itself when ``instance`` is None), or one member.
 
@@ -62,7 +68,7 @@ class PortRef:
     form: list | int = field(repr=False)  # the list, or the offset of a compound form
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(slots=True, unsafe_hash=True)
 class Net:
     """A net (or net array); ``joined`` entries are port references or port lists.
 
@@ -77,7 +83,7 @@ class Net:
     pairs: tuple[str, ...] = ()
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(slots=True, unsafe_hash=True)
 class Instance:
     """A placed cell view; ``library``, ``cell``, ``view`` are identifiers as written."""
 

@@ -22,9 +22,13 @@ from linter.model import SourceLocation
 __all__ = ["Token", "Card", "read_cards"]
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(slots=True, unsafe_hash=True)
 class Token:
-    """A word of a card: its text, where it starts, and its offset in the card's text."""
+    """A word of a card: its text, where it starts, and its offset in the card's text.
+
+    Not frozen, only because a frozen dataclass costs several times as much to make (as
+    :class:`linter.readers.spice_flatten.FlatElement`); nothing changes one once made.
+    """
 
     text: str
     location: SourceLocation
