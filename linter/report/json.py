@@ -7,29 +7,29 @@ timestamps, findings and groups in a fixed order, keys in a fixed order.
 Layout: ``schema``, ``tool``, ``inputs`` and ``summary`` indented by two spaces; each group
 and each finding one line (``json.dumps`` without indent: the C encoder), so that a changed
 group is one changed line in a diff. The groups are written straight from the solved
-records (:mod:`linter.report.json_groups`, the data of ``as_dict()``) and the text is made
+records (:mod:`linter.report.json_groups`, the data of ``as_dict()``; a renamed group from
+its template's line, :mod:`linter.report.json_followers`), the findings straight from
+theirs (:mod:`linter.report.json_findings`), and the text is made
 in pieces as it is written (:meth:`JsonReporter.chunks`); :func:`report_dict` is the same
 report as one plain tree.
 """
 
 from __future__ import annotations
 
-import math
 from pathlib import Path
 from typing import TYPE_CHECKING, Any, Iterable, Iterator, Mapping
 
 from linter import __version__
-from linter.findings import Finding
 from linter.gc_pause import paused_gc
-from linter.report.common import (finding_location, ordered_findings, plain_data,
-                                  severity_counts, sorted_groups, sorted_records)
+from linter.report.common import (ordered_findings, plain_data, severity_counts, sorted_groups,
+                                  sorted_records)
+from linter.report.json_findings import finding_dict, finding_line
 from linter.report.json_followers import GroupLines
-from linter.report.json_layout import Lines, layered_chunks, plain_json
+from linter.report.json_layout import Lines, layered_chunks
 from linter.report.stream import StreamingReporter
 
 if TYPE_CHECKING:
     from linter.engine import CheckResult
-    from linter.model import Circuit
 
 __all__ = ["JsonReporter", "SCHEMA_ID", "SCHEMA_FILE", "COMPACT_DEPTH", "report_dict",
            "report_layout", "json_report_chunks", "indented_json"]
@@ -38,32 +38,6 @@ SCHEMA_ID = "ledlint-report/1"
 """The ``schema`` field: changes only when a consumer would have to change."""
 SCHEMA_FILE = Path(__file__).resolve().parents[1] / "data" / "report.schema.json"
 """The JSON Schema (draft 2020-12) of this report, shipped with the package."""
-
-
-def _si_values(values: Mapping[str, float]) -> dict[str, float | None]:
-    """Values by sorted key as floats; a figure that is not finite is unknown (None)."""
-    out: dict[str, float | None] = {}
-    for key, value in sorted(values.items()):
-        number = float(value)
-        out[str(key)] = number if math.isfinite(number) else None
-    return out
-
-
-def _finding_dict(finding: Finding, circuit: "Circuit") -> dict[str, Any]:
-    location = finding_location(finding, circuit)
-    return {
-        "rule": finding.rule,
-        "severity": finding.severity,
-        "parts": list(finding.parts),
-        "nets": list(finding.nets),
-        "group": finding.group,
-        "message": finding.message,
-        "values": _si_values(finding.values),
-        "fix": finding.fix,
-        "fingerprint": finding.fingerprint,
-        "location": None if location is None else
-        {"file": location.file, "line": location.line, "column": location.column},
-    }
 
 
 def _inputs(result: "CheckResult") -> dict[str, Any]:
@@ -99,7 +73,7 @@ def report_dict(result: "CheckResult") -> dict[str, Any]:
     return {
         **_head(result),
         "groups": sorted_groups(result.groups),
-        "findings": [_finding_dict(finding, result.circuit)
+        "findings": [finding_dict(finding, result.circuit)
                      for finding in ordered_findings(result.findings)],
     }
 
@@ -115,7 +89,7 @@ def _group_lines(groups: Iterable[Any]) -> Iterator[str]:
 
 def _finding_lines(result: "CheckResult") -> Iterator[str]:
     for finding in ordered_findings(result.findings):
-        yield plain_json(_finding_dict(finding, result.circuit))
+        yield finding_line(finding, result.circuit)
 
 
 def report_layout(result: "CheckResult",
