@@ -245,23 +245,26 @@ def analyse(groups: Iterable[Group], circuit: Circuit, part_data: PartDataMap,
                 results[index] = result
         with _stage("rename"):
             compiled: dict[int, Template] = {}
-            for index, template, refs in work.followers:
-                names, notes = work.templates[template]
+            followers = work.followers
+            for index, template, refs in followers:
                 made = compiled.get(template)
                 if made is None:
-                    made = compiled[template] = Template(results[template], notes)  # type: ignore[arg-type]
-                results[index] = made.renamed(groups[index], dict(zip(names, refs)))
+                    made = compiled[template] = Template(
+                        results[template], work.templates[template][1])  # type: ignore[arg-type]
+                results[index] = made.renamed(groups[index], refs)
+            followers.clear()
     return tuple(r for r in results if r is not None)
 
 
 @dataclass(frozen=True, eq=False)
 class _Work:
     """What :func:`_build` leaves to solve: models by structure signature (with their
-    group's index); followers (index, template index, references in key order); per
-    template index, its references in key order and its model's note parts."""
+    group's index); followers (index, template index, the map from the template's part
+    references to the follower's); per template index, its references in key order and its
+    model's note parts."""
 
     buckets: dict[tuple, list[tuple[int, GroupModel]]]
-    followers: list[tuple[int, int, tuple[str, ...]]]
+    followers: list[tuple[int, int, dict[str, str]]]
     templates: dict[int, tuple[tuple[str, ...], tuple[tuple[str, str], ...]]]
 
 
@@ -282,7 +285,7 @@ def _build(groups: tuple[Group, ...], circuit: Circuit, part_data: PartDataMap,
             except TypeError:   # a figure that cannot be hashed: built on its own
                 key, template = None, ()
             if template:
-                work.followers.append((index, template[0], names))
+                work.followers.append((index, template[0], dict(zip(template[1], names))))
                 continue
         try:
             model = build_model(group, circuit, part_data, rails)

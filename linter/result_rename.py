@@ -108,6 +108,9 @@ class Template:
         for value in (*names, *mappings, *corners, *spans):
             at[id(value)] = len(at)
         self.names = names
+        self.leds_names = next((i for i, n in enumerate(names) if n == result.group.leds), None)
+        """The position in ``names`` of the template group's LED tuple (the LED axes' names,
+        usually): the follower's renamed tuple is then its group's own ``leds`` when equal."""
         self.mappings = [(at[id(m.names)], m.levels) if type(m) is Levels else (None, m)
                          for m in mappings]
         self.corners = [(c.scenario, c.rails, c.ambient_c, at[id(c.vf)], at[id(c.beta)],
@@ -150,7 +153,11 @@ class Template:
         to the group's. Pin i of the result is the group's pin drive i (both in the group's
         pin order)."""
         get = refs.__getitem__
-        table = self.shared + [tuple(map(get, names)) for names in self.names]
+        named = [tuple(map(get, names)) for names in self.names]
+        at = self.leds_names
+        if at is not None and named[at] == group.leds:
+            named[at] = group.leds     # the same names, one tuple fewer kept
+        table = self.shared + named
         table += [Levels(table[at], levels) if at is not None
                   else {get(k): v for k, v in levels.items()} for at, levels in self.mappings]
         table += [_corner(scenario, rails, ambient, table[vf], table[beta], table[resistors])

@@ -187,3 +187,15 @@ def test_maker_is_the_constructor(cls) -> None:
         made.__setattr__(cls.__slots__[0], None)
     if cls is Span:
         assert math.isnan(_maker(Span)(math.nan, 0.0, 0.0, None, None).nom)
+
+
+def test_names_equal_to_the_groups_leds_are_its_own_tuple() -> None:
+    result, notes = _template()
+    group = _follower_group(result.group)
+    made = Template(result, notes).renamed(group, REFS)
+    assert made.leds[0].current.at_min.vf.names is group.leds
+    # a follower whose LEDs are listed in another order keeps a tuple of its own
+    swapped = replace(group, leds=("D12", "D11"))
+    other = Template(result, notes).renamed(swapped, REFS)
+    assert other.leds[0].current.at_min.vf.names == ("D11", "D12")
+    assert _plain(other) == _plain(_expected(result, swapped, notes))
