@@ -137,15 +137,20 @@ _MAX_PLACE_TYPES = 1024
 """Files whose packed-place class is remembered (a run reads a few files)."""
 
 
-def location_packer(file: str) -> Callable[[int, int], Any]:
-    """``pack(line, column)``: :func:`packed_location` for one file, its class looked up once."""
-    kind = _PLACE_TYPES.get(file) if type(file) is str else None
+def _place_type(file: str) -> type[_PackedPlace]:
+    kind = _PLACE_TYPES.get(file)
     if kind is None:
-        if type(file) is not str:
-            return lambda line, column: SourceLocation(file, line, column)
         kind = type("_PackedPlace", (_PackedPlace,), {"__slots__": (), "file": file})
         if len(_PLACE_TYPES) < _MAX_PLACE_TYPES:
             _PLACE_TYPES[file] = kind
+    return kind
+
+
+def location_packer(file: str) -> Callable[[int, int], Any]:
+    """``pack(line, column)``: :func:`packed_location` for one file, its class looked up once."""
+    if type(file) is not str:
+        return lambda line, column: SourceLocation(file, line, column)
+    kind = _place_type(file)
 
     def pack(line: int, column: int) -> Any:
         if type(line) is int and type(column) is int and line >= 0 \
@@ -165,7 +170,10 @@ def packed_location(file: str, line: int, column: int) -> Any:
     >>> Part("R1", "resistor", None, (), place).location
     SourceLocation(file='b.edif', line=1234, column=9)
     """
-    return location_packer(file)(line, column)
+    if type(file) is not str or type(line) is not int or type(column) is not int \
+            or line < 0 or not 0 <= column <= _COLUMN_MASK:
+        return SourceLocation(file, line, column)
+    return _place_type(file)(line << _COLUMN_BITS | column)
 
 
 class _LocationSlot:

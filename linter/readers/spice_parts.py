@@ -22,9 +22,10 @@ from __future__ import annotations
 import math
 import re
 from collections import Counter
+from typing import Callable
 
 from linter.kinds import infer_kind
-from linter.model import Circuit, DeviceModel, Net, Part, Pin, ReaderNote, SourceLocation, packed_location
+from linter.model import Circuit, DeviceModel, Net, Part, Pin, ReaderNote, SourceLocation, location_packer
 from linter.readers.spice_flatten import FlatElement, Flattened
 from linter.readers.spice_traps import scale_trap_note
 
@@ -144,18 +145,26 @@ class _PartMaker:
 
     def __init__(self, net_names: dict[str, str]) -> None:
         self.net_names = net_names
-        self.pins: dict[tuple[str, str], Pin] = {}
+        self.pins: dict[tuple[str, str], Pin] = {}  # by (pin name, net key)
         self.texts: dict[str, str] = {}
         self.lit: dict[int, bool] = {}
+        self.packers: dict[str, Callable[[int, int], SourceLocation]] = {}
+
+    def packed(self, location: SourceLocation) -> SourceLocation:
+        """The location as a Part or Net stores it, packed (:func:`linter.model.packed_location`:
+        it reads as the same SourceLocation)."""
+        pack = self.packers.get(location.file)
+        if pack is None:
+            pack = self.packers[location.file] = location_packer(location.file)
+        return pack(location.line, location.column)
 
     def pins_of(self, element: FlatElement) -> tuple[Pin, ...]:
-        known, net_names = self.pins, self.net_names
+        known = self.pins  # (pin name, net key): a net key names one net
         pins = []
-        for name, key in element.pins:
-            net = net_names[key]
-            pin = known.get((name, net))
+        for pair in element.pins:
+            pin = known.get(pair)
             if pin is None:
-                pin = known[(name, net)] = Pin(name, net)
+                pin = known[pair] = Pin(pair[0], self.net_names[pair[1]])
             pins.append(pin)
         return tuple(pins)
 
@@ -173,16 +182,14 @@ class _PartMaker:
             cell = letter
         share = self.texts.setdefault
         value = element.value_text
+        location = element.location
+        pack = self.packers.get(location.file)
+        if pack is None:
+            pack = self.packers[location.file] = location_packer(location.file)
         return Part(ref, _kind(element, ref, self.lit),
                     value if value is None else share(value, value), self.pins_of(element),
-                    _packed(element.location), element.value_si, path, share(cell, cell),
-                    part_number, properties, element.model)
-
-
-def _packed(location: SourceLocation) -> SourceLocation:
-    """The location as a Part or Net stores it packed (:func:`packed_location`; it reads as
-    the same SourceLocation)."""
-    return packed_location(location.file, location.line, location.column)
+                    pack(location.line, location.column), element.value_si, path,
+                    share(cell, cell), part_number, properties, element.model)
 
 
 _NO_PROPERTIES: dict[str, str] = {}
@@ -217,7 +224,8 @@ def assemble(flat: Flattened, source: str, title: str) -> Circuit:
     parts: dict[str, Part] = {}
     joined: dict[str, list[tuple[str, str]]] = {key: [] for key in flat.nets}
     notes: list[ReaderNote] = []
-    make = _PartMaker(net_names).part
+    maker = _PartMaker(net_names)
+    make = maker.part
     readings: dict[tuple[str, str], float | None] = {}
     for element, ref, leaf in zip(elements, refs, leaves):
         parts[ref] = make(element, ref, leaf)
@@ -227,7 +235,7 @@ def assemble(flat: Flattened, source: str, title: str) -> Circuit:
             note = scale_trap_note(element, ref, readings)
             if note is not None:
                 notes.append(note)
-    nets = {info.name: Net(info.name, tuple(joined[key]), _packed(info.location), info.aliases)
+    nets = {info.name: Net(info.name, tuple(joined[key]), maker.packed(info.location), info.aliases)
             for key, info in flat.nets.items()}
     return Circuit(source=source, format="spice", parts=parts, nets=nets, notes=tuple(notes),
                    design=title)
