@@ -21,11 +21,11 @@ from typing import TYPE_CHECKING, Any, Iterable, Iterator, Mapping
 
 from linter import __version__
 from linter.gc_pause import paused_gc
-from linter.report.common import (ordered_findings, plain_data, severity_counts, sorted_groups,
-                                  sorted_records)
+from linter.report.common import ordered_findings, plain_data, severity_counts, sorted_groups
 from linter.report.json_findings import finding_dict, finding_line
 from linter.report.json_followers import GroupLines
 from linter.report.json_layout import Lines, layered_chunks
+from linter.report.lean_order import lean_ordered_findings, lean_sorted_records
 from linter.report.stream import StreamingReporter
 
 if TYPE_CHECKING:
@@ -81,14 +81,14 @@ def report_dict(result: "CheckResult") -> dict[str, Any]:
 def _group_lines(groups: Iterable[Any]) -> Iterator[str]:
     """Each group's JSON entry, one line each, in natural order of the group id (a
     follower's from its template's, :mod:`linter.report.json_followers`)."""
-    records = sorted_records(groups)
+    records = lean_sorted_records(groups)
     lines = GroupLines(records)
     for group in records:
         yield lines.line(group)
 
 
 def _finding_lines(result: "CheckResult") -> Iterator[str]:
-    for finding in ordered_findings(result.findings):
+    for finding in lean_ordered_findings(result.findings):
         yield finding_line(finding, result.circuit)
 
 
