@@ -21,8 +21,9 @@ from typing import Mapping
 from linter.groups import Group, PinDrive, Scenario
 from linter.refs import natural_key
 from linter.topology_index import CircuitIndex
-from linter.topology_shape import Strand
-from linter.topology_walk import Chain, walk_chain, walk_control
+from linter.topology_draft import resistor_label
+from linter.topology_shape import NotABank, Strand, find_bank
+from linter.topology_walk import MAX_GROUP_PARTS, Chain, walk_chain, walk_control
 
 __all__ = ["quick_group"]
 
@@ -97,7 +98,12 @@ def quick_group(index: CircuitIndex, led: str, order: Mapping[str, int],
     if not (start_done and end_done):
         if found or start_done == end_done:
             return None
-        return _through_transistor(index, chain, end if start_done else start, order, placed)
+        inner = end if start_done else start
+        if inner is None:
+            return None
+        if len(index.pins_on(inner)) == 2:
+            return _through_transistor(index, chain, inner, order, placed)
+        return _bank_on_node(index, chain, inner, order, placed)
     oriented = _oriented(index, chain)
     if oriented is None:
         return None
@@ -159,7 +165,7 @@ def _sorted_pins(pins: list[PinDrive]) -> tuple[PinDrive, ...]:
     return tuple(sorted(unique, key=lambda pin: natural_key(pin.id)))
 
 
-def _through_transistor(index: CircuitIndex, chain: Chain, c_net: str | None,
+def _through_transistor(index: CircuitIndex, chain: Chain, c_net: str,
                         order: Mapping[str, int], placed: set[str]) -> Group | None:
     """The group when the LED chain runs from a rail to one transistor's collector (drain).
 
@@ -168,8 +174,6 @@ def _through_transistor(index: CircuitIndex, chain: Chain, c_net: str | None,
     rail. The label follows :func:`linter.topology_transistor.classify_transistor` step by
     step; anything it would not label as a sink, source or switch returns None.
     """
-    if c_net is None:
-        return None
     pins = index.pins_on(c_net)
     if len(pins) != 2:
         return None
@@ -254,3 +258,66 @@ def _through_transistor(index: CircuitIndex, chain: Chain, c_net: str | None,
                  tuple(sorted(parts, key=natural_key)), tuple(sorted_nets),
                  index.rails_among(sorted_nets), setter, pins_t,
                  (scenario,), reason, ref, control.drive)
+
+
+def _bank_on_node(index: CircuitIndex, chain: Chain, node: str, order: Mapping[str, int],
+                  placed: set[str]) -> Group | None:
+    """The group when every part on ``node`` is a series part whose chain runs from ``node``
+    to a rail (LEDs or strings in parallel, their resistor): ``parallel``, or strings each
+    with its own resistor, labelled by :func:`find_bank` and :func:`resistor_label` as the
+    general path labels them between two rails."""
+    rails = index.rails
+    split = index.split(node)
+    if split.mcu or split.controls or split.foreign:
+        return None
+    chains = [chain]
+    seen = set(chain.parts)
+    roles = index.roles
+    for ref, _ in index.pins_on(node):
+        if ref in seen:
+            continue
+        if roles[ref] != "series":
+            return None
+        found = walk_chain(index, ref)
+        far = found.nets[-1] if found.nets[0] == node else found.nets[0]
+        if far not in rails or (found.nets[0] == node) == (found.nets[-1] == node):
+            return None
+        chains.append(found)
+        seen.update(found.parts)
+        if len(seen) > MAX_GROUP_PARTS:
+            return None
+    strands: list[Strand] = []
+    leds: list[str] = []
+    for each in chains:
+        oriented = _oriented(index, each)
+        if oriented is None:
+            return None
+        strands.append(oriented[0])
+        leds += oriented[1]
+    terminals = {net for each in chains for net in each.nets if net in rails}
+    try:
+        bank = find_bank(strands, terminals)
+    except NotABank:
+        return None
+    top, bottom = rails[bank.top], rails[bank.bottom]
+    if bank.antiparallel or top.nom <= bottom.nom:
+        return None
+    single = "resistor" if len(bank.strings[0].leds) == 1 else "string"
+    label, setter, reason = resistor_label(bank, single)
+    if label in ("unrecognised", "across-rails"):
+        return None
+    unplaced = [led for led in leds if led not in placed]
+    leds_t = (unplaced[0],) if len(unplaced) == 1 else \
+        tuple(sorted(unplaced, key=order.__getitem__))
+    found_strings = [s.leds for s in strands if s.leds]
+    rank = index.led_rank
+    strings = (found_strings[0],) if len(found_strings) == 1 else \
+        tuple(sorted(found_strings, key=lambda string: rank[string[0]]))
+    net_set = {node}
+    for each in chains:
+        net_set.update(each.nets)
+    sorted_nets = index.natural_sorted(net_set)
+    first = min(leds_t, key=rank.__getitem__) if len(leds_t) > 1 else leds_t[0]
+    return Group(f"G-{first}", label, leds_t, strings, tuple(sorted(seen, key=natural_key)),
+                 tuple(sorted_nets), index.rails_among(sorted_nets), setter, (),
+                 (Scenario("on", {}, leds_t),), reason, None, None)

@@ -172,6 +172,14 @@ CASES = {
                         _three("nmos", ("N1", "N2", "GND"), FET),
                         _two("resistor", "P1", "N2")],
     "high-side-switch": [_two("led", "N1", "GND"), _three("pmos", ("N1", "P3", "V5"), FET)],
+    "parallel": [_two("led", "N1", "GND"), _two("resistor", "V5", "N1"),
+                 _two("led", "N1", "GND", LED_PINS[2]), _two("led", "GND", "N1", LED_PINS[1])],
+    "parallel (strings)": [_two("led", "N1", "N2"), _two("led", "N2", "GND"),
+                           _two("resistor", "N1", "V12"), _two("led", "N1", "N3"),
+                           _two("led", "N3", "GND")],
+    "resistor (each its own, fed through a link)": [
+        _two("led", "N2", "GND"), _two("resistor", "N1", "N2"), _two("link", "V5", "N1"),
+        _two("resistor", "N1", "N3"), _two("led", "N3", "GND")],
     "reversed": [_two("resistor", "V5", "N1"), _two("led", "N1", "GND", LED_PINS[1])],
     "across-rails": [_two("led", "V5", "GND")],
     "unrecognised": [_two("resistor", "V5", "N1"), _two("led", "N1", "V5B")],
@@ -214,10 +222,11 @@ def test_each_case_reaches_the_quick_path_or_its_fallback(monkeypatch) -> None:
     quick = topology.quick_group
     monkeypatch.setattr(topology, "quick_group", counted)
     quick_labels = ("resistor", "string", "pin-source", "pin-sink", "npn-sink", "pnp-source",
-                    "low-side-switch", "high-side-switch")
-    for topology, specs in CASES.items():
+                    "low-side-switch", "high-side-switch", "parallel")
+    for name, specs in CASES.items():
+        topology = name.split(" (")[0]
         circuit, data = _circuit(specs)
         _assert_same(circuit, RAILS, data)
         answered.clear()
-        assert find_groups(circuit, RAILS, data)[0].topology == topology
-        assert answered == ([topology] if topology in quick_labels else []), topology
+        assert find_groups(circuit, RAILS, data)[0].topology == topology, name
+        assert answered == ([topology] if topology in quick_labels else []), name
