@@ -62,7 +62,7 @@ def find_groups(circuit: Circuit, rails: Mapping[str, Rail],
     part_data : Mapping[str, PartData]
         By part reference: tells transistor polarity and which parts are microcontrollers.
     quick : bool
-        Label one-chain groups by :func:`linter.topology_quick.quick_group` (the same groups;
+        Label the plain shapes by :func:`linter.topology_quick.quick_group` (the same groups;
         False keeps every group on the general path, the plain twin tests compare with).
 
     Returns

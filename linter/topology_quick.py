@@ -1,17 +1,25 @@
-"""The quick path for the commonest LED group: one series chain between two terminals.
+"""Quick paths for the commonest LED groups, each giving exactly the general path's Group.
 
-Most groups on a board are one chain (a resistor and one or more LEDs) from a rail to a rail,
-or from a microcontroller pin to a rail. :func:`quick_group` labels such a group without the
-cluster, draft and bank records of the general path (:func:`linter.topology._classify`), and
-gives exactly the Group the general path gives. It answers only when every step is the plain
-one: ``resistor`` or ``string`` between two rails of different voltage (anode on the higher
-one), ``pin-source`` or ``pin-sink`` with a resistor in the chain. Anything else (a net that
-is not a rail or pin at either end, an unconnected end, an LED without anode and cathode
-names, LEDs facing opposite ways, no resistor, a reversed LED, two pins) returns None and
-the general path labels the group, with its reason.
+Most groups on a board are one of a few plain shapes. :func:`quick_group` labels them
+without the cluster, draft and bank records of the general path
+(:func:`linter.topology._classify`):
+
+* one chain between two terminals: ``resistor`` or ``string`` between two rails of different
+  voltage (anode on the higher one), ``pin-source`` or ``pin-sink`` with a resistor in it;
+* a chain from a rail into one transistor's collector (drain), the emitter (source) on a rail
+  or through one chain without LEDs to a rail: ``npn-sink``, ``pnp-source``,
+  ``low-side-switch``, ``high-side-switch`` (:func:`_through_transistor`);
+* chains that meet at one node, each running from it to a rail: ``parallel``, or strings each
+  with its own resistor (:func:`_bank_on_node`).
+
+Each answers only when every step is the plain one; anything else (a net that is not a rail
+or pin where one is needed, an unconnected end, an LED without anode and cathode names, LEDs
+facing opposite ways, no resistor, a reversed LED, a problem in a base network…) returns None
+and the general path labels the group, with its reason.
 
 Equality with the general path is held by ``tests/test_topology_quick.py`` (the demo, the
-topology fixtures and generated boards, with the quick path on and off).
+topology fixtures, generated boards and changed circuits of each kind, with the quick path on
+and off).
 """
 
 from __future__ import annotations
