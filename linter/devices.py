@@ -85,7 +85,10 @@ def limited_exp(x: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     x = np.asarray(x, dtype=float)
     clipped = np.minimum(x, EXP_LIMIT)
     e = np.exp(clipped)
-    value = np.where(x > EXP_LIMIT, e * (1.0 + x - EXP_LIMIT), e)
+    above = x > EXP_LIMIT
+    if not above.any():   # the usual case: the value is exp itself (a copy, as np.where gives)
+        return e.copy(), e
+    value = np.where(above, e * (1.0 + x - EXP_LIMIT), e)
     return value, e
 
 

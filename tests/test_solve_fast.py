@@ -75,3 +75,17 @@ def test_step_factor_is_the_plain_step_factor(seed: int, scale: float) -> None:
     dx = rng.normal(0, scale, (rows, 4))
     got = _step_factor(net, junctions, v, dx)
     assert np.array_equal(got, _plain_step_factor(net, junctions, v, dx))
+
+
+@pytest.mark.parametrize("top", [10.0, 79.9, 80.0, 80.1, 300.0])
+def test_limited_exp_is_its_plain_definition(top: float) -> None:
+    from linter.devices import EXP_LIMIT, limited_exp
+
+    x = np.linspace(-50.0, top, 41).reshape(1, -1)
+    x[0, 3] = np.nan
+    value, slope = limited_exp(x)
+    plain_e = np.exp(np.minimum(x, EXP_LIMIT))
+    plain = np.where(x > EXP_LIMIT, plain_e * (1.0 + x - EXP_LIMIT), plain_e)
+    assert np.array_equal(value, plain, equal_nan=True)
+    assert np.array_equal(slope, plain_e, equal_nan=True)
+    assert value is not slope
