@@ -69,3 +69,16 @@ def test_fixture_decks_parts_as_made_one_by_one(path: Path) -> None:
 @pytest.mark.parametrize("opaque", [(), ("BM32",)])
 def test_generated_board_parts_as_made_one_by_one(tmp_path: Path, opaque) -> None:
     _check(_generated(tmp_path), opaque)
+
+
+@pytest.mark.parametrize("path", _decks()[:6], ids=lambda p: str(p.relative_to(ROOT)))
+def test_released_elements_give_the_same_circuit(path: Path) -> None:
+    # Reference: the same deck assembled without releasing its elements (our plain path).
+    flat, title = _flat(path)
+    kept = assemble(flat, path.name, title)
+    flat, title = _flat(path)
+    released = assemble(flat, path.name, title, release=True)
+    assert released == kept
+    assert list(released.parts.values()) == list(kept.parts.values())
+    assert list(released.nets.values()) == list(kept.nets.values())
+    assert all(element is None for element in flat.elements)

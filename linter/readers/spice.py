@@ -69,5 +69,9 @@ def read_spice(text: str, source: str, *, path: Path, root: Path,
         For anything that is not a readable deck, with file, line and column.
     """
     deck = load_deck(text, source, path=path, root=root)
-    structure = structure_of(deck.title, deck.cards)
-    return assemble(flatten(structure, opaque), source, deck.title)
+    title = deck.title
+    structure = structure_of(title, deck.cards)
+    del deck
+    flat = flatten(structure, opaque)
+    del structure  # the cards go before the parts are made (nothing flattened points to one)
+    return assemble(flat, source, title, release=True)

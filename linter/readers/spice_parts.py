@@ -215,8 +215,12 @@ def _part(element: FlatElement, ref: str, leaf: str, net_names: dict[str, str],
                 element.value_si, path, cell, part_number, properties, element.model)
 
 
-def assemble(flat: Flattened, source: str, title: str) -> Circuit:
-    """Build the :class:`~linter.model.Circuit` from a flattened deck."""
+def assemble(flat: Flattened, source: str, title: str, *, release: bool = False) -> Circuit:
+    """Build the :class:`~linter.model.Circuit` from a flattened deck.
+
+    ``release=True`` lets go of each element of ``flat.elements`` (the list keeps None in its
+    place) once its part is made, so that the parts reuse the elements' memory.
+    """
     net_names = {key: info.name for key, info in flat.nets.items()}
     elements = flat.elements
     leaves = [leaf_name(element) for element in elements]
@@ -227,7 +231,9 @@ def assemble(flat: Flattened, source: str, title: str) -> Circuit:
     maker = _PartMaker(net_names)
     make = maker.part
     readings: dict[tuple[str, str], float | None] = {}
-    for element, ref, leaf in zip(elements, refs, leaves):
+    for index, (element, ref, leaf) in enumerate(zip(elements, refs, leaves)):
+        if release:
+            elements[index] = None  # type: ignore[call-overload]  # (the loop holds it)
         parts[ref] = make(element, ref, leaf)
         for pin, key in element.pins:
             joined[key].append((ref, pin))
