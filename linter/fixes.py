@@ -25,7 +25,10 @@ from linter.fixes_resistor import (
     SERIES_STEP, PerLedFix, ResistorChoice, line_current, per_led_resistors, rail_for_resistor,
     resistor_for_current, resistor_for_current_solved,
 )
-from linter.fixes_sink import GENERIC_NPN, SinkDesign, collector_current, rail_for_sink, sink_design
+from linter.fixes_sink import (
+    GENERIC_NPN, SinkDesign, SinkSearch, collector_current, current_ratio, rail_for_sink,
+    sink_design, sink_search,
+)
 
 __all__ = [
     "CHIP_POWER_RATINGS", "DEFAULT_DERATING_SHARE", "RatingChoice", "derated_resistor_rating",
@@ -34,4 +37,5 @@ __all__ = [
     "rail_for_resistor",
     "resistor_for_current", "resistor_for_current_solved",
     "GENERIC_NPN", "SinkDesign", "collector_current", "rail_for_sink", "sink_design",
+    "SinkSearch", "current_ratio", "sink_search",
 ]

@@ -13,6 +13,7 @@ V_ce ≥ V_ce(sat), i.e. for rails at or above rail_min = ΣVf(max) + I_e·R_e +
 
 from __future__ import annotations
 
+import itertools
 import math
 from dataclasses import dataclass, replace
 from functools import lru_cache
@@ -24,7 +25,8 @@ from linter import eseries
 from linter.partdata import BjtData
 from linter.units import format_si
 
-__all__ = ["GENERIC_NPN", "SinkDesign", "sink_design", "rail_for_sink", "collector_current"]
+__all__ = ["GENERIC_NPN", "SinkDesign", "SinkSearch", "sink_design", "sink_search",
+           "rail_for_sink", "collector_current", "current_ratio"]
 
 GENERIC_NPN = BjtData(polarity="npn", hfe_min=100.0, hfe_typ=200.0, vbe=0.7, vce_sat=0.2,
                       assumed=("hfe_min", "hfe_typ", "vbe", "vce_sat"),
@@ -218,7 +220,8 @@ def sink_design(v_rail_min: float, vf_string_max: float, i_target: float, v_ref_
                 *, v_rail_max: float | None = None, vf_string_min: float | None = None,
                 reference_name: str = "the reference", reference_tolerance: float = 0.0,
                 transistor: BjtData | None = None,
-                resistor_tolerance: float = 0.05) -> SinkDesign | None:
+                resistor_tolerance: float = 0.05,
+                v_emitter: float | None = None) -> SinkDesign | None:
     """Design an NPN sink that sets ``i_target`` (A) through a string of ΣVf ``vf_string_max`` (V).
 
     Steps: aim the emitter at V_e ≈ V_ref/2 − V_be, held to 1–2 V and to the headroom
@@ -231,6 +234,8 @@ def sink_design(v_rail_min: float, vf_string_max: float, i_target: float, v_ref_
     (V_rail,max − ΣVf(min) − V_e)·I_c at the rail maximum. ``transistor`` figures missing
     are taken from :data:`GENERIC_NPN` and named in ``assumed``.
 
+    ``v_emitter`` (V), when given, is the emitter voltage aimed at instead.
+
     Returns None when the reference at its minimum cannot lift the emitter to its target
     (V_ref·(1 − tol) ≤ V_be + V_e) or no divider fits.
     """
@@ -240,7 +245,8 @@ def sink_design(v_rail_min: float, vf_string_max: float, i_target: float, v_ref_
     vbe, vce_sat = float(npn.vbe), float(npn.vce_sat)  # type: ignore[arg-type]
     v_rail_max = v_rail_min if v_rail_max is None else v_rail_max
     vf_string_min = vf_string_max if vf_string_min is None else vf_string_min
-    v_e = _emitter_target(v_ref_source, v_rail_min - vf_string_max - vce_sat, vbe)
+    v_e = (_emitter_target(v_ref_source, v_rail_min - vf_string_max - vce_sat, vbe)
+           if v_emitter is None else v_emitter)
     if v_ref_source * (1 - reference_tolerance) <= vbe + v_e:
         return None
     hfe_min = float(npn.hfe_min)  # type: ignore[arg-type]
@@ -255,6 +261,92 @@ def sink_design(v_rail_min: float, vf_string_max: float, i_target: float, v_ref_
     return _evaluate(npn, assumed, v_ref_source, reference_name, reference_tolerance,
                      resistor_tolerance, series, top, bottom, r_e,
                      (v_rail_min, v_rail_max, vf_string_min, vf_string_max))
+
+
+EMITTER_V_STEP = 0.25
+"""Step (V) of the emitter voltages :func:`sink_search` tries above the preferred one."""
+SEARCH_TOLERANCE = 0.01
+"""The resistor tolerance (fraction; E96) :func:`sink_search` tries after the given one."""
+
+
+def current_ratio(design: SinkDesign) -> float:
+    """The sink's current swing over its corners, I_max/I_min (inf when I_min is 0)."""
+    low = design.current_min_a
+    return math.inf if not low > 0 else design.current_max_a / low
+
+
+@dataclass(frozen=True)
+class SinkSearch:
+    """What :func:`sink_search` found: ``design`` the first sink tried whose swing
+    (:func:`current_ratio`) is within the limit, or None; ``preferred`` the sink at the
+    preferred emitter voltage and the given resistor tolerance (:func:`sink_design`'s); and
+    ``best_ratio``, the smallest swing among the sinks tried (inf when none could be
+    designed)."""
+
+    design: SinkDesign | None
+    preferred: SinkDesign | None
+    best_ratio: float
+
+
+def sink_search(ratio_limit: float, v_rail_min: float, vf_string_max: float,
+                i_target: float, v_ref_source: float, *, v_rail_max: float | None = None,
+                vf_string_min: float | None = None, reference_name: str = "the reference",
+                reference_tolerance: float = 0.0, transistor: BjtData | None = None,
+                resistor_tolerance: float = 0.05) -> SinkSearch:
+    """A sink (:func:`sink_design`) whose current swings at most ``ratio_limit`` (I_max/I_min)
+    over its corners.
+
+    Why the preferred sink may swing more: I_e = (V_b − V_be)/R_e, and at the low corner
+    V_b is down by the reference's and the divider's tolerance while V_be is up by
+    ±0.1 V, the opposite at the high corner; with 1.8 V on the emitter the V_be spread
+    alone moves the current by about ±6 %, and a ±5 % reference and ±5 % resistors add
+    about ±10 % on V_b and ±5 % on R_e. A higher emitter voltage shrinks the V_be share,
+    and a divider closer to the reference (V_b/V_ref near 1) and tighter resistors shrink
+    the rest.
+
+    Tried in order, the first within the limit kept: for the given resistor tolerance, then
+    1 % (E96) when the given one is looser, the preferred emitter voltage and then every
+    :data:`EMITTER_V_STEP` above it, up to the headroom V_rail,min − ΣVf(max) − V_ce(sat)
+    (a higher emitter would leave regulation sooner than the preferred sink) while the
+    reference at its minimum still lifts the base above V_be + V_e; a sink above the
+    preferred emitter voltage that no longer regulates at the rail minimum (its emitter at
+    the high-current corner takes the headroom) ends the climb for that tolerance and is
+    not offered.
+    """
+    npn, _ = _figures(transistor)
+    vbe, vce_sat = float(npn.vbe), float(npn.vce_sat)  # type: ignore[arg-type]
+    headroom = v_rail_min - vf_string_max - vce_sat
+    preferred_v = _emitter_target(v_ref_source, headroom, vbe)
+    ceiling = min(headroom, v_ref_source * (1 - reference_tolerance) - vbe)
+    tolerances = [resistor_tolerance]
+    if resistor_tolerance > SEARCH_TOLERANCE:
+        tolerances.append(SEARCH_TOLERANCE)
+
+    def design(tolerance: float, v_e: float | None) -> SinkDesign | None:
+        return sink_design(v_rail_min, vf_string_max, i_target, v_ref_source,
+                           v_rail_max=v_rail_max, vf_string_min=vf_string_min,
+                           reference_name=reference_name,
+                           reference_tolerance=reference_tolerance, transistor=transistor,
+                           resistor_tolerance=tolerance, v_emitter=v_e)
+
+    preferred = design(resistor_tolerance, None)
+    best = math.inf
+    for tolerance in tolerances:
+        for step in itertools.count():
+            v_e = preferred_v + step * EMITTER_V_STEP
+            if step and v_e >= ceiling:
+                break
+            tried = (preferred if step == 0 and tolerance == resistor_tolerance
+                     else design(tolerance, None if step == 0 else v_e))
+            if tried is None:
+                continue
+            if step and not tried.regulates:  # higher emitters leave regulation sooner
+                break
+            ratio = current_ratio(tried)
+            best = min(best, ratio)
+            if ratio <= ratio_limit:
+                return SinkSearch(tried, preferred, best)
+    return SinkSearch(None, preferred, best)
 
 
 def _evaluate(npn: BjtData, assumed: tuple[str, ...], v_ref: float, reference_name: str,

@@ -17,7 +17,7 @@ from linter.units import format_si
 
 __all__ = ["part_location", "solved_groups", "group_rail", "led_data", "resistor_data", "bjt_data",
            "corner_phrase", "at_corner", "amps", "volts", "ohms", "watts", "say", "memoised",
-           "sink_design", "forget_board"]
+           "sink_design", "sink_search", "forget_board"]
 
 
 def part_location(context: Any, ref: str) -> Any:
@@ -243,3 +243,12 @@ def _sink_design(*args: Any, **kwargs: Any) -> Any:
 
 sink_design = memoised(_sink_design)
 """:func:`linter.fixes.sink_design`, memoised (its E24 divider search is the costly part)."""
+
+
+def _sink_search(*args: Any, **kwargs: Any) -> Any:
+    from linter.fixes import sink_search as search
+    return search(*args, **kwargs)
+
+
+sink_search = memoised(_sink_search)
+""":func:`linter.fixes.sink_search`, memoised (each sink it tries is a divider search)."""

@@ -12,8 +12,8 @@ from linter.findings import Finding
 from linter.fixes import SinkDesign, rail_for_resistor
 from linter.partdata import Rail
 from linter.results import GroupResult, LedResult
-from linter.rulekit import (amps, at_corner, group_rail, ohms, say, sink_design, solved_groups,
-                            volts, watts)
+from linter.rulekit import (amps, at_corner, group_rail, ohms, sink_search, solved_groups, volts,
+                            watts)
 from linter.rules import Rule, register
 from linter import fix_search
 
@@ -63,11 +63,13 @@ class StringHeadroom(Rule):
     (default 1.5) is poor regulation: visible brightness steps between boards and a
     string that may run dim or hot. (Darkness and damage are ``led-undercurrent`` and
     ``led-overcurrent``.) The fix is a computed NPN current sink (divider from the tightest
-    rail, E-series emitter resistor, transistor dissipation) with the rail it needs, or the
-    rail at which a plain resistor would hold the swing within ``ratio``, or fewer LEDs per
-    string where the rail's minimum cannot hold a sink in regulation. LEDs driven straight
-    from a microcontroller pin, and parallel LEDs on a shared resistor, are left to other
-    rules.
+    rail, E-series emitter resistor, transistor dissipation) whose own current swings
+    within ``ratio`` over its corners (reference and resistor tolerances, Vbe ± 0.1 V,
+    gain), with the rail it needs; where no sink within the search does, it says so and
+    quotes the closest swing. Also the rail at which a plain resistor would hold the swing
+    within ``ratio``, or fewer LEDs per string where the rail's minimum cannot hold a sink
+    in regulation. LEDs driven straight from a microcontroller pin, and parallel LEDs on a
+    shared resistor, are left to other rules.
 
     **Anti-pattern**
 
@@ -313,24 +315,33 @@ def fix_answer(question: FixQuestion) -> FixAnswer:
     rail = Rail(q.rail_name, q.rail_nom, q.rail_min, q.rail_max)
     limit = q.limit
     values: dict = {}
-    design = sink_design(q.rail_min, q.vf_max, q.current_nom, q.reference_nom,
+    search = sink_search(limit, q.rail_min, q.vf_max, q.current_nom, q.reference_nom,
                          v_rail_max=q.rail_max, vf_string_min=q.vf_min,
                          reference_name=q.reference_name,
                          reference_tolerance=(q.reference_max - q.reference_min) / 2
                          / q.reference_nom,
                          resistor_tolerance=q.tolerance)
+    design = search.design
     plain = rail_for_resistor(q.vf_min, q.vf_max, limit, rail_min_ratio=q.rail_min / q.rail_nom,
                               rail_max_ratio=q.rail_max / q.rail_nom,
                               resistor_tolerance=q.tolerance)
     parts = []
     if design is not None:
         parts.append(_sink_text(design, _SETTER, q.rail_name, rail, values))
+    elif search.preferred is not None:
+        closest = ""
+        if math.isfinite(search.best_ratio):
+            values["sink_best_ratio"] = search.best_ratio
+            closest = f" (the closest swings {search.best_ratio:.2f}×)"
+        parts.append(f"no NPN sink from {q.reference_name} within the search holds "
+                     f"{limit:g}×{closest}")
     if plain is not None:
         values["rail_for_resistor_v"] = plain
         parts.append(f"a plain resistor holds {limit:g}× only from a {volts(plain)} nominal "
                      f"{q.rail_name} (same tolerance)")
-    if design is not None and not design.regulates:
-        fewer = _leds_that_fit(q.vf_max_each, q.vf_max, rail, design)
+    sink = design or search.preferred
+    if sink is not None and not sink.regulates:
+        fewer = _leds_that_fit(q.vf_max_each, q.vf_max, rail, sink)
         if 0 < fewer < q.leds:
             values["fix_leds_per_string"] = float(fewer)
             parts.append(f"or {fewer} LED{'s' if fewer > 1 else ''} per string")

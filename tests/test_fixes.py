@@ -253,3 +253,52 @@ def test_sink_refused_when_reference_cannot_bias():
 def test_sink_needs_an_npn():
     with pytest.raises(ValueError, match="needs an NPN"):
         sink_design(11.4, 8.0, 0.020, 5.0, transistor=BjtData(polarity="pnp"))
+
+
+def test_sink_search_keeps_a_preferred_sink_within_the_limit():
+    from linter.fixes import current_ratio, sink_search
+
+    # 12 V ±10 % rail, two white LEDs (ΣVf 5.8–6.8 V), 20 mA, 5 V ±2 % reference (from
+    # memory); the limit is set just above the preferred sink's own swing
+    preferred = sink_design(10.8, 6.8, 0.020, 5.0, v_rail_max=13.2, vf_string_min=5.8,
+                            reference_name="+5V", reference_tolerance=0.02)
+    limit = current_ratio(preferred) * 1.001
+    search = sink_search(limit, 10.8, 6.8, 0.020, 5.0, v_rail_max=13.2, vf_string_min=5.8,
+                         reference_name="+5V", reference_tolerance=0.02)
+    assert search.design == preferred == search.preferred
+
+
+def test_sink_search_lifts_the_emitter_until_the_swing_fits():
+    from linter.fixes import current_ratio, sink_search
+
+    kwargs = dict(v_rail_max=13.2, vf_string_min=5.8, reference_name="+5V",
+                  reference_tolerance=0.02)
+    search = sink_search(1.45, 10.8, 6.8, 0.020, 5.0, **kwargs)
+    assert current_ratio(search.preferred) > 1.45
+    design = search.design
+    assert design is not None and design.regulates
+    # Sink equation Ie = (Vb − Vbe)/Re at the corners the design names (β unbounded at the
+    # top, β_min 100 at the bottom; Vbe 0.7 ± 0.1 V generic, from memory)
+    t = 0.05 if design.series == "E24" else 0.01
+    vb_high = 5.0 * 1.02 * design.r_bottom * (1 + t) / (design.r_top * (1 - t)
+                                                        + design.r_bottom * (1 + t))
+    top, bottom = design.r_top * (1 + t), design.r_bottom * (1 - t)
+    vb_low = 5.0 * 0.98 * bottom / (top + bottom)
+    i_high = (vb_high - 0.6) / (design.r_emitter * (1 - t))
+    i_low = 100 / 101 * (vb_low - 0.8) / (design.r_emitter * (1 + t)
+                                          + top * bottom / (top + bottom) / 101)
+    assert i_high / i_low <= 1.45
+    assert current_ratio(design) == pytest.approx(i_high / i_low, rel=1e-9)
+    assert design.v_emitter > search.preferred.v_emitter
+
+
+def test_sink_search_says_none_fits_where_the_reference_alone_swings_too_much():
+    from linter.fixes import sink_search
+
+    # Ie = (Vb − Vbe)/Re: with the reference ±20 % and Re ±1 % (the tightest the search
+    # tries), Imax/Imin ≥ (1.2/0.8)·(1.01/0.99) = 1.53 for any divider, before the divider's
+    # and the Vbe spread widen it
+    search = sink_search(1.5, 11.4, 8.0, 0.020, 5.0, v_rail_max=13.2, vf_string_min=7.2,
+                         reference_name="+5V", reference_tolerance=0.2)
+    assert search.design is None and search.preferred is not None
+    assert search.best_ratio >= (1.2 / 0.8) * (1.01 / 0.99) > 1.5

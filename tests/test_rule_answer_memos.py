@@ -39,9 +39,9 @@ def test_string_headroom_fix_memo_matches_an_empty_memo():
 
 
 def _question(**changes) -> string_headroom.FixQuestion:
-    # a 12 V ±10 % rail, 5 V ±2 % reference, three white LEDs at 20 mA (from memory)
+    # a 12 V ±10 % rail, 5 V ±2 % reference, two white LEDs at 20 mA (from memory)
     base = string_headroom.FixQuestion("+12V", 10.8, 12.0, 13.2, "+5V", 4.9, 5.0, 5.1, 0.05,
-                                       8.7, 10.2, 3.4, 0.02, 3, 1.5)
+                                       5.8, 6.8, 3.4, 0.02, 2, 1.5)
     return replace(base, **changes)
 
 
@@ -58,8 +58,8 @@ def test_fix_question_keys_tell_every_field_apart():
     changed = [_question(**{name: value}) for name, value in (
         ("rail_name", "+12V_B"), ("rail_min", 10.9), ("rail_nom", 12.1), ("rail_max", 13.3),
         ("reference_name", "+5V_B"), ("reference_min", 4.8), ("reference_nom", 5.01),
-        ("reference_max", 5.2), ("tolerance", 0.01), ("vf_min", 8.6), ("vf_max", 10.3),
-        ("vf_max_each", 3.5), ("current_nom", 0.021), ("leds", 4), ("limit", 1.6))]
+        ("reference_max", 5.2), ("tolerance", 0.01), ("vf_min", 5.7), ("vf_max", 6.9),
+        ("vf_max_each", 3.5), ("current_nom", 0.021), ("leds", 3), ("limit", 1.6))]
     keys = {q.key() for q in changed} | {base.key()}
     assert len(keys) == len(changed) + 1
     assert _question(limit=0.0).key() != _question(limit=-0.0).key()

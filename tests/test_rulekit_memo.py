@@ -28,6 +28,20 @@ def test_memoised_sink_design_matches_the_plain_design():
     assert sink_design(*args, **kwargs) is sink_design(*args, **kwargs)
 
 
+def test_memoised_sink_search_matches_the_plain_search():
+    from linter.fixes import sink_search as plain_sink_search
+    from linter.rulekit import sink_search
+
+    # 12 V ±10 % rail, two LEDs, 20 mA, 5 V ±2 % and ±5 % references (from memory); expected:
+    # the plain call of our own code
+    for tolerance in (0.02, 0.05):
+        args = (1.5, 10.8, 6.8, 0.02, 5.0)
+        kwargs = dict(v_rail_max=13.2, vf_string_min=5.8, reference_name="+5V",
+                      reference_tolerance=tolerance, resistor_tolerance=0.05)
+        assert sink_search(*args, **kwargs) == plain_sink_search(*args, **kwargs)
+        assert sink_search(*args, **kwargs) is sink_search(*args, **kwargs)
+
+
 def _board(groups):
     from types import SimpleNamespace
 
