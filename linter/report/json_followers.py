@@ -70,9 +70,9 @@ def _token(slot: int) -> str:
 
 
 class FollowerForm:
-    """One template's line cut at its placeholders: ``text % values`` is a follower's line
-    (``text`` is the line with ``%`` doubled and each placeholder ``%s``; ``order`` names
-    the slot of each ``%s``)."""
+    """One template's line cut at its placeholders: ``text % pick(values)`` is a follower's
+    line (``text`` is the line with ``%`` doubled and each placeholder ``%s``; ``pick``
+    takes the value of each ``%s`` from the follower's slot values)."""
 
     __slots__ = ("template", "names", "shell", "text", "pick")
 
@@ -107,7 +107,7 @@ class FollowerForm:
 
 
 def follower_form(template: GroupResult, names: Iterable[str]) -> FollowerForm | None:
-    """The format string of ``template``'s followers, whose ``refs`` map ``names`` (the
+    """The form of ``template``'s followers, whose ``refs`` map ``names`` (the
     template's references); None where a guard fails (the mark in the template's line, or a
     name met in renaming that is not in ``names``)."""
     if MARK in group_line(template):
