@@ -45,17 +45,37 @@ def _maker(cls: type) -> Callable[..., Any]:
     """A function ``make(*fields)`` equal to ``cls(*fields)`` for a frozen slotted dataclass
     of ours without ``__post_init__`` (every field passed, in order): the slots are set
     through their descriptors, without the frozen ``__init__``'s attribute look-ups.
-    tests/test_result_rename.py holds it to the constructor for each class it is made for."""
-    names = cls.__slots__
-    scope: dict[str, Any] = {"_new": _NEW, "_cls": cls}
-    body = []
-    for i, name in enumerate(names):
-        scope[f"_s{i}"] = cls.__dict__[name].__set__
-        body.append(f"    _s{i}(o, a{i})")
-    args = ", ".join(f"a{i}" for i in range(len(names)))
-    exec(f"def make({args}):\n    o = _new(_cls)\n" + "\n".join(body) + "\n    return o",
-         scope)
-    return scope["make"]
+    Written out for five and six fields (Span, PinResult, Corner: the many small records);
+    a loop for the rest. tests/test_result_rename.py holds it to the constructor for each
+    class it is made for."""
+    setters = tuple(cls.__dict__[name].__set__ for name in cls.__slots__)
+    new = _NEW
+    if len(setters) == 5:
+        s0, s1, s2, s3, s4 = setters
+
+        def make5(a0: Any, a1: Any, a2: Any, a3: Any, a4: Any) -> Any:
+            o = new(cls)
+            s0(o, a0); s1(o, a1); s2(o, a2); s3(o, a3); s4(o, a4)  # noqa: E702
+            return o
+        return make5
+    if len(setters) == 6:
+        t0, t1, t2, t3, t4, t5 = setters
+
+        def make6(a0: Any, a1: Any, a2: Any, a3: Any, a4: Any, a5: Any) -> Any:
+            o = new(cls)
+            t0(o, a0); t1(o, a1); t2(o, a2); t3(o, a3); t4(o, a4); t5(o, a5)  # noqa: E702
+            return o
+        return make6
+    count = len(setters)
+
+    def make(*values: Any) -> Any:
+        if len(values) != count:
+            raise TypeError(f"{cls.__name__}: {count} fields, {len(values)} given")
+        o = new(cls)
+        for setter, value in zip(setters, values):
+            setter(o, value)
+        return o
+    return make
 
 
 _corner = _maker(Corner)
