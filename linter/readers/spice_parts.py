@@ -173,13 +173,7 @@ class _PartMaker:
         properties = dict(element.params) if element.params else _NO_PROPERTIES
         if leaf != element.name:
             properties = {**properties, "spice_name": element.name}
-        letter = element.letter
-        if letter == "X":
-            part_number = element.subcircuit
-            cell = element.subcircuit or "X"
-        else:
-            part_number = element.model.name if element.model is not None and letter in "DQMJ" else None
-            cell = letter
+        cell, part_number = _cell_and_part_number(element)
         share = self.texts.setdefault
         value = element.value_text
         location = element.location
@@ -190,6 +184,16 @@ class _PartMaker:
                     value if value is None else share(value, value), self.pins_of(element),
                     pack(location.line, location.column), element.value_si, path,
                     share(cell, cell), part_number, properties, element.model)
+
+
+def _cell_and_part_number(element: FlatElement) -> tuple[str, str | None]:
+    """The part's cell (its subcircuit, or its element letter) and part number (the
+    subcircuit, or the model card's name of a diode or transistor; else None)."""
+    letter = element.letter
+    if letter == "X":
+        return element.subcircuit or "X", element.subcircuit
+    model = element.model
+    return letter, model.name if model is not None and letter in "DQMJ" else None
 
 
 _NO_PROPERTIES: dict[str, str] = {}
@@ -204,13 +208,7 @@ def _part(element: FlatElement, ref: str, leaf: str, net_names: dict[str, str],
     properties = dict(element.params) if element.params else {}
     if leaf != element.name:
         properties["spice_name"] = element.name
-    letter = element.letter
-    if letter == "X":
-        part_number = element.subcircuit
-        cell = element.subcircuit or "X"
-    else:
-        part_number = element.model.name if element.model is not None and letter in "DQMJ" else None
-        cell = letter
+    cell, part_number = _cell_and_part_number(element)
     return Part(ref, _kind(element, ref, lit), element.value_text, pins, element.location,
                 element.value_si, path, cell, part_number, properties, element.model)
 
