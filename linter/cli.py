@@ -10,9 +10,10 @@ from __future__ import annotations
 
 import argparse
 import os
+import stat
 import sys
 from pathlib import Path
-from typing import Any, NoReturn, Sequence
+from typing import Any, Iterable, NoReturn, Sequence
 
 from linter import __version__
 from linter.errors import LedlintError, UsageError, one_line
@@ -134,6 +135,31 @@ def _refuse_output_over_input(args: argparse.Namespace, netlists: Sequence[Path]
                              f"({path}); write the report to another file")
 
 
+def writes_in_place(path: Path) -> bool:
+    """True when ``path`` is a character device or a pipe (``/dev/null``, ``/dev/stdout``, a
+    FIFO): such an output is written where it is, since renaming a finished file over it
+    would replace the device or the pipe itself."""
+    try:
+        mode = os.stat(path).st_mode
+    except (OSError, ValueError):
+        return False
+    return stat.S_ISCHR(mode) or stat.S_ISFIFO(mode)
+
+
+def write_report(path: Path, pieces: str | Iterable[str]) -> None:
+    """The report to ``--output``: a file through :func:`linter.output.write_atomically`
+    (whole or not at all); a device or a pipe (:func:`writes_in_place`) in place, piece by
+    piece as they come, as standard output would get them."""
+    if writes_in_place(path):
+        with open(path, "w", encoding="utf-8", newline="\n") as stream:
+            for piece in ((pieces,) if isinstance(pieces, str) else pieces):
+                stream.write(piece)
+        return
+    from linter.output import write_atomically
+
+    write_atomically(path, pieces)
+
+
 def _run_check(args: argparse.Namespace) -> int:
     from linter.cli_plan import wants_many
 
@@ -168,9 +194,7 @@ def _run_check(args: argparse.Namespace) -> int:
 
         pieces = report_chunks(reporter, results)  # made as written: no whole report in memory
         if args.output is not None:
-            from linter.output import write_atomically
-
-            write_atomically(args.output, pieces)
+            write_report(args.output, pieces)
     if args.output is None:
         for piece in pieces:  # after the progress bar is gone: the report alone on stdout
             sys.stdout.write(piece)
