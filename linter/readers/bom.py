@@ -136,15 +136,73 @@ def _sniff_delimiter(text: str) -> str:
 
 
 def _tokenize(text: str, source: str, delimiter: str) -> Iterator[list[_Cell]]:
-    """Rows of located cells (RFC 4180 quoting), iteratively; an unclosed quote is an error."""
+    """Rows of located cells (RFC 4180 quoting); an unclosed quote is an error.
+
+    Cells of the two plain shapes, a whole quoted cell (``"..."``, doubled quotes inside) or
+    an unquoted cell without quotes, each directly followed by the delimiter, a line end or
+    the end of the text, are read one regex match each; from the first row with any other
+    cell (a quote after blanks or text, text after a closing quote, an unclosed quote) the
+    rest of the text is read by :func:`_tokenize_plain`, which gives the same cells for the
+    plain shapes (tests/test_bom_tokenize.py compares the two).
+    """
+    cell = _cell_pattern(delimiter).match
+    length = len(text)
+    index, line, line_start = 0, 1, 0
+    while index < length:
+        row: list[_Cell] = []
+        row_index, row_line, at = index, line, index
+        while True:
+            found = cell(text, at)
+            if found is None:
+                yield from _tokenize_plain(text, source, delimiter, row_index, row_line)
+                return
+            quoted, bare, end = found.groups()
+            if quoted is None:
+                value = bare
+            else:
+                value = quoted.replace('""', '"') if '"' in quoted else quoted
+            place = _Cell(value, line, at - line_start + 1)
+            if quoted is not None and "\n" in quoted:  # the quoted cell spans lines
+                line += quoted.count("\n")
+                line_start = at + 2 + quoted.rfind("\n")  # (just after that line end)
+            at = found.end()
+            if end == delimiter:
+                row.append(place)
+                continue
+            if end or value or row:  # (at the end of the text, nothing left is no row)
+                row.append(place)
+                yield row
+            line, line_start, index = line + 1, at, at
+            break
+
+
+_CELL_PATTERNS: dict[str, re.Pattern[str]] = {}
+
+
+def _cell_pattern(delimiter: str) -> re.Pattern[str]:
+    """One cell of a plain shape and what ends it (see :func:`_tokenize`): groups quoted
+    text (doubled quotes as written), unquoted text, the end (the delimiter, a line end, or
+    "" at the end of the text)."""
+    found = _CELL_PATTERNS.get(delimiter)
+    if found is None:
+        mark = re.escape(delimiter)
+        found = _CELL_PATTERNS[delimiter] = re.compile(
+            rf'(?:"((?:[^"]++|"")*+)"|([^"{mark}\r\n]*+))({mark}|\r\n|\r|\n|\Z)')
+    return found
+
+
+def _tokenize_plain(text: str, source: str, delimiter: str, index: int = 0,
+                    line: int = 1) -> Iterator[list[_Cell]]:
+    """Rows of located cells (RFC 4180 quoting), character by character, from ``index`` (the
+    start of line ``line``); an unclosed quote is an error. The reference for :func:`_tokenize`."""
     row: list[_Cell] = []
     chars: list[str] = []
-    line, column = 1, 1
-    start = (1, 1)
+    column = 1
+    start = (line, 1)
     quoted_from: tuple[int, int] | None = None
     in_quotes = False
     has_text = False  # a character other than a blank since the cell began (kept, not rescanned)
-    index, length = 0, len(text)
+    length = len(text)
     while index < length:
         char = text[index]
         if in_quotes:
@@ -286,12 +344,21 @@ def expand_references(cell: str, source: str = "<bom>", line: int = 1,
     >>> expand_references("D7 – D10")
     ('D7', 'D8', 'D9', 'D10')
     """
-    normal = re.sub(r"\s*[-\u2013\u2014]\s*", "-", cell.strip())
+    normal = cell.strip()
+    if _HAS_DASH(normal):
+        normal = _DASH_SPACED("-", normal)
     refs: list[str] = []
-    for token in re.split(r"[,;\s]+", normal):
-        if token:
+    for token in _SEPARATORS(normal):
+        if "-" in token:
             refs.extend(_expand_token(token, source, line, column))
+        elif token:
+            refs.append(token)  # (no range without a "-")
     return tuple(refs)
+
+
+_HAS_DASH = re.compile("[-\u2013\u2014]").search
+_DASH_SPACED = re.compile(r"\s*[-\u2013\u2014]\s*").sub
+_SEPARATORS = re.compile(r"[,;\s]+").split
 
 
 def _expand_token(token: str, source: str, line: int, column: int) -> list[str]:
