@@ -7,19 +7,18 @@ quantity the results need as arrays shaped (G, S, C, k).
 
 from __future__ import annotations
 
-from dataclasses import dataclass
-
 import numpy as np
 
 from linter.devices import VT_REF
 from linter.netbuild import HIGH_Z_SIEMENS, GroupModel
 from linter.partdata import Ambient
+from linter.records import record
 from linter.solve import Params, element_currents, solve
 
 __all__ = ["RowPlan", "BucketData", "element_params", "run", "headroom_offset"]
 
 
-@dataclass(frozen=True, eq=False)
+@record(eq=False)
 class RowPlan:
     """Corner rows for a bucket: ``codes`` (G, C, A) levels (integers at corners, any value
     in [−1, 1] for random draws); ``vf_shift`` (C,) V added to
@@ -35,7 +34,7 @@ def headroom_offset(model: GroupModel) -> float:
     return 10.0 + 5.0 * len(model.diodes)
 
 
-@dataclass(frozen=True, eq=False)
+@record(eq=False)
 class BucketData:
     """Every figure of a bucket's models stacked once as (G, k) arrays (k elements or
     fixed nodes), so that each run turns codes into parameters with array operations only.

@@ -16,7 +16,7 @@ the rule registry by :func:`check_rule_settings` (the engine calls it).
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field, replace
+from dataclasses import field, replace
 from pathlib import Path
 from typing import Any, Iterable, Mapping, Sequence
 
@@ -25,6 +25,7 @@ from linter.errors import ConfigError, InputError, PartsError
 from linter.part_specs import PartSpec, read_part_specs
 from linter.partdata import Ambient, Rail
 from linter.readers import decode_text
+from linter.records import record
 from linter.tomldoc import TomlDoc, suggestion, table_name
 from linter.tomlpos import KeyLocator, load_toml
 from linter.units import ValueParseError, parse_quantity
@@ -39,7 +40,7 @@ SETTINGS_NAME = "ledlint.toml"
 _DEFAULTS = "default_settings.toml"
 
 
-@dataclass(frozen=True)
+@record
 class Derating:
     """Share (fraction) of the temperature-derated rating worst-case dissipation may use."""
 
@@ -47,7 +48,7 @@ class Derating:
     transistor_power: float = 0.6
 
 
-@dataclass(frozen=True)
+@record
 class Assumptions:
     """Values assumed where the inputs say nothing: tolerance (fraction) of a rail inferred
     from its net name or a SPICE source, and of a resistor without a stated tolerance."""
@@ -56,7 +57,7 @@ class Assumptions:
     resistor_tolerance: float = 0.05
 
 
-@dataclass(frozen=True)
+@record
 class RuleOption:
     """An option a rule declares (``options = (RuleOption("ratio", "", 1.5, "..."),)``).
 
@@ -70,7 +71,7 @@ class RuleOption:
     doc: str = ""
 
 
-@dataclass(frozen=True)
+@record
 class Settings:
     """Everything the settings files say, merged and checked (SI floats throughout)."""
 

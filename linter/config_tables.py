@@ -7,13 +7,14 @@ over the shipped defaults. Every value is checked here, where the file and line 
 from __future__ import annotations
 
 import datetime as dt
-from dataclasses import dataclass, field
+from dataclasses import field
 from typing import Any
 
 from linter.findings import SEVERITIES
 from linter.model import SourceLocation
 from linter.part_specs import PartSpec, read_part_specs
 from linter.partdata import Rail
+from linter.records import record
 from linter.tomldoc import TomlDoc, table_name
 from linter.units import ValueParseError, parse_temperature, parse_with_tolerance
 
@@ -23,7 +24,7 @@ TOP_LEVEL_TABLES = ("rails", "ambient", "derating", "assume", "rules", "waive", 
                     "limits")
 
 
-@dataclass(frozen=True)
+@record
 class RuleSettings:
     """``[rules.ID]``: severity override, on/off, and the rule's options as written
     (checked against the rule's declared options by :func:`linter.config.check_rule_settings`)."""
@@ -35,7 +36,7 @@ class RuleSettings:
     option_locations: dict[str, SourceLocation] = field(default_factory=dict, hash=False)
 
 
-@dataclass(frozen=True)
+@record
 class Waiver:
     """``[[waive]]``: an accepted finding of ``rule`` on ``parts``, with the reason, until a date."""
 
@@ -46,7 +47,7 @@ class Waiver:
     location: SourceLocation | None = None
 
 
-@dataclass(frozen=True)
+@record
 class Pulse:
     """``[pulsed."NET"]``: the net is driven in pulses of ``duty`` (fraction) every ``period`` s."""
 
@@ -56,7 +57,7 @@ class Pulse:
     location: SourceLocation | None = None
 
 
-@dataclass(frozen=True)
+@record
 class Layer:
     """What one settings file says, checked; the ``located`` entries keep where values were."""
 

@@ -7,11 +7,12 @@ It is frozen; later analysis stages (topology, solve) add their results with
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import field
 from typing import TYPE_CHECKING, Any, Mapping
 
 from linter.model import Circuit
 from linter.partdata import PartData, Rail
+from linter.records import record
 
 if TYPE_CHECKING:
     from linter.bom_join import BomDiscrepancy
@@ -28,7 +29,7 @@ def rule_id_of(rule: Any) -> str:
     return rule if isinstance(rule, str) else rule.id
 
 
-@dataclass(frozen=True)
+@record
 class AnalysisContext:
     """The analysed board, as every rule sees it.
 

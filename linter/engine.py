@@ -18,7 +18,7 @@ together:
 from __future__ import annotations
 
 import datetime as dt
-from dataclasses import dataclass, field, replace
+from dataclasses import field, replace
 from pathlib import Path
 from typing import Any, Mapping
 
@@ -34,13 +34,14 @@ from linter.parts import resolve_part_data
 from linter.rails import resolve_rails
 from linter.readers import read_netlist
 from linter.readers.bom import Bom, read_bom
+from linter.records import record
 from linter.waivers import STALE_WAIVER, apply_waivers
 
 __all__ = ["CheckRequest", "CheckResult", "AnalysisContext", "run_check", "load_inputs",
            "analyse", "run_rules"]
 
 
-@dataclass(frozen=True)
+@record
 class CheckRequest:
     """What to check: the netlist and the optional files beside it, as the user named them.
 
@@ -56,7 +57,7 @@ class CheckRequest:
     baseline: Path | None = None
 
 
-@dataclass(frozen=True)
+@record
 class CheckResult:
     """Everything a reporter needs: the circuit, the LED groups and the findings.
 
