@@ -47,6 +47,7 @@ __all__ = [
     "packed_location",
     "location_packer",
     "stored_location",
+    "stored_location_getter",
 ]
 
 PartKind = Literal[
@@ -319,6 +320,12 @@ def stored_location(obj: Part | Net) -> Any:
     """A Part's or Net's ``location`` as stored (packed or not): to pass it on to a new Part or
     Net without making a SourceLocation."""
     return type(obj).__dict__["location"].stored(obj)
+
+
+def stored_location_getter(cls: type[Part] | type[Net]) -> Callable[[object, type], Any]:
+    """``get(obj, cls)``: :func:`stored_location` of an instance of ``cls`` in one C call (for
+    a loop over many parts)."""
+    return cls.__dict__["location"]._get
 
 
 @dataclass(frozen=True)
