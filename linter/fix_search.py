@@ -27,7 +27,7 @@ __all__ = ["DEFAULT_TOLERANCE", "resolve", "with_resistor", "led_currents",
            "resistor_for_max", "resistor_for_min", "rail_for_min", "sub_circuit",
            "resolve_circuit", "resistor_record", "tolerance_of", "split_resistor",
            "signature", "signature_plain", "remembered", "resistor_walk", "solved_walk", "forget_board",
-           "is_remembered", "remember", "ASK"]
+           "is_remembered", "remember", "ASK", "resistor_ohms"]
 
 DEFAULT_TOLERANCE = 0.05
 """Resistor tolerance (fraction) when the part data gives none (DESIGN.md: else 5 %)."""
@@ -142,6 +142,17 @@ def tolerance_of(context: Any, ref: str) -> float:
     return DEFAULT_TOLERANCE
 
 
+def resistor_ohms(result: GroupResult, ref: str) -> float:
+    """The nominal ohms of resistor ``ref`` of the group, read from the records that hold
+    its figures (a follower's template's, under the template's name: the follower's own
+    records are not built)."""
+    origin = result.origin
+    if origin is None:
+        return result.resistor(ref).ohms
+    template, refs = origin
+    return next(r.ohms for r in template.resistors if refs[r.ref] == ref)
+
+
 def resistor_for_max(context: Any, result: GroupResult, ref: str, leds: tuple[str, ...],
                      limit: float) -> ResistorChoice | None:
     """The smallest resistor of the series made at ``ref``'s tolerance (IEC 60063) for
@@ -149,7 +160,7 @@ def resistor_for_max(context: Any, result: GroupResult, ref: str, leds: tuple[st
     def search() -> ResistorChoice | None:
         tolerance = tolerance_of(context, ref)
         series = eseries.series_for_tolerance(tolerance)
-        start = result.resistor(ref).ohms
+        start = resistor_ohms(result, ref)
         return resistor_for_current_solved(_solver(context, result, ref, leds, series), limit,
                                            start, series=series, tolerance=tolerance,
                                            max_steps=_MAX_STEPS)
@@ -170,7 +181,7 @@ def _resistor_for_min(context: Any, result: GroupResult, ref: str, leds: tuple[s
     tolerance = tolerance_of(context, ref)
     series = eseries.series_for_tolerance(tolerance)
     current = _solver(context, result, ref, leds, series)
-    ohms = result.resistor(ref).ohms
+    ohms = resistor_ohms(result, ref)
     for _ in range(_MAX_STEPS):
         ohms = eseries.below(ohms / 1.001, series)
         nom, low, high = current(ohms)

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import struct
 from collections import OrderedDict
+from dataclasses import replace
 from typing import Any, Callable, Iterable, Iterator
 
 from linter.corners import Corner, Levels
@@ -17,7 +18,8 @@ from linter.units import format_si
 
 __all__ = ["part_location", "solved_groups", "group_rail", "led_data", "resistor_data", "bjt_data",
            "corner_phrase", "at_corner", "amps", "volts", "ohms", "watts", "say", "memoised",
-           "sink_design", "sink_search", "forget_board"]
+           "sink_design", "sink_search", "forget_board", "figures_of", "renamer", "PerTemplate",
+           "renamed_corner"]
 
 
 def part_location(context: Any, ref: str) -> Any:
@@ -137,11 +139,11 @@ def corner_phrase(corner: Corner | None, rails: Iterable[str] | None = None,
 
 
 def _phrase(rails: list[tuple[str, tuple[str, float]]], corner: Corner,
-            focus: Iterable[str]) -> str:
-    """The words of ``rails`` (name, (level, V)) in order, then ``corner``'s LED bins and
-    ambient."""
+            focus: Iterable[str], bins: dict[str, str] | None = None) -> str:
+    """The words of ``rails`` (name, (level, V)) in order, then ``corner``'s LED bins (or
+    ``bins``, LED name to bin, when given) and ambient."""
     parts = [f"{name} {level} ({v:g} V)" for name, (level, v) in rails]
-    vf = _vf_phrase(dict(corner.vf), focus)
+    vf = _vf_phrase(dict(corner.vf) if bins is None else bins, focus)
     if vf:
         parts.append(vf)
     if corner.ambient_c != 25.0:
@@ -149,14 +151,26 @@ def _phrase(rails: list[tuple[str, tuple[str, float]]], corner: Corner,
     return ", ".join(parts) if parts else "the nominal corner"
 
 
-def at_corner(corner: Corner | None, result: Any, focus: Iterable[str] = ()) -> str:
+def at_corner(corner: Corner | None, result: Any, focus: Iterable[str] = (),
+              refs: Any = None) -> str:
     """``corner_phrase`` of a group's corner: the group's rail first, then any other rail
-    of the group that is off nominal (a sink's reference), LED bins, ambient."""
+    of the group that is off nominal (a sink's reference), LED bins, ambient.
+
+    ``refs`` (a mapping, see :func:`figures_of`): ``corner`` is a template's, the group
+    ``result`` a follower of it; the LED bins are named by the follower's references (in
+    the template corner's order, as the follower's own corner holds them), the same words
+    as ``at_corner`` of the follower's corner. ``focus`` names the follower's LEDs."""
     if corner is None:
         return corner_phrase(None)
     rail = getattr(result, "rail", None)
     rails = corner.rails
     key = _phrase_key(corner, rail)
+    if refs is not None and key is None:  # LEDs named: the follower's names, in order
+        ordered = [(rail, rails[rail])] if rail in rails else []
+        ordered += [(n, level_v) for n, level_v in rails.items()
+                    if n != rail and level_v[0] != "nom"]
+        return _phrase(ordered, corner, focus, {refs[name]: level
+                                               for name, level in corner.vf.items()})
     if key is not None:
         entry = _PHRASES.get(key)
         if entry is not None and entry[0] is rails:
@@ -199,6 +213,61 @@ _PACK_FLOAT = struct.Struct("<d").pack
 _PHRASES_KEPT = 4096
 """Corner phrases kept (all dropped when full)."""
 _PHRASES: dict[tuple, tuple[Any, str]] = {}
+
+
+def figures_of(result: Any) -> tuple[Any, Any]:
+    """(the result whose records hold ``result``'s figures, the map from that result's part
+    references to ``result``'s, or None for the same names).
+
+    A follower (``origin``, :mod:`linter.result_rename`) has its template's records under
+    renamed references; reading them through the template leaves the follower's own
+    records unbuilt. The follower's ``group`` (names, strings, setter, pins) is its own."""
+    origin = getattr(result, "origin", None)
+    return (result, None) if origin is None else origin
+
+
+def renamer(refs: Any) -> Callable[[str], str]:
+    """The name in the follower of a template's part reference (``refs`` of
+    :func:`figures_of`; None: the name itself)."""
+    return _same if refs is None else refs.__getitem__
+
+
+def _same(name: str) -> str:
+    return name
+
+
+class PerTemplate:
+    """``work(template_result)`` once per template result of one check.
+
+    A follower's answer is its template's (``work`` must read only what a follower shares
+    with its template: figures, positions, part data but the note, the group's shape, the
+    board); a result with no ``origin`` is its own template. Each entry keeps its template
+    alive, so that the ``id`` it is filed under stays its own."""
+
+    def __init__(self, work: Callable[[Any], Any]) -> None:
+        self.work = work
+        self.kept: dict[int, tuple[Any, Any]] = {}
+
+    def __call__(self, result: Any) -> Any:
+        origin = result.origin
+        base = result if origin is None else origin[0]
+        entry = self.kept.get(id(base))
+        if entry is not None and entry[0] is base:
+            return entry[1]
+        value = self.work(base)
+        self.kept[id(base)] = (base, value)
+        return value
+
+
+def renamed_corner(corner: Corner, refs: Any) -> Corner:
+    """A template's ``corner`` as its follower's holds it: the same corner with the part
+    names of its LED bins, gains and resistor levels renamed through ``refs`` (in the same
+    order); ``corner`` itself when ``refs`` is None."""
+    if refs is None:
+        return corner
+    return replace(corner, vf={refs[k]: v for k, v in corner.vf.items()},
+                   beta={refs[k]: v for k, v in corner.beta.items()},
+                   resistors={refs[k]: v for k, v in corner.resistors.items()})
 
 
 def say(ref: str, text: str) -> str:

@@ -7,7 +7,8 @@ from typing import Any, Iterable
 from linter import fix_search
 from linter.findings import Finding
 from linter.results import GroupResult, LedResult
-from linter.rulekit import amps, at_corner, led_data, ohms, say, solved_groups
+from linter.rulekit import (amps, at_corner, figures_of, led_data, ohms, renamer, say,
+                            solved_groups)
 from linter.rules import Rule, register
 
 SHARED = "shared-ballast"
@@ -105,24 +106,31 @@ class LedOvercurrent(Rule):
         found = _over(context, result) if overs is None else _over_of(context, result, overs)
         if not found:
             return None
-        leds = result.leds
+        base, refs = figures_of(result)
+        name = renamer(refs)
+        leds = base.leds  # the follower's figures, under the template's names
         over = [(leds[index], limit, level, generic) for index, limit, level, generic in found]
         level = "error" if any(item[2] == "error" for item in over) else "warning"
         hottest = max((x for x in over if x[2] == level), key=lambda x: x[0].current.max)
-        return self._finding(context, result, hottest, tuple(x[0].ref for x in over), level)
+        return self._finding(context, result, hottest, tuple(name(x[0].ref) for x in over),
+                             level)
 
     def _finding(self, context: Any, result: GroupResult,
                  hottest: tuple[LedResult, float, str, bool], parts: tuple[str, ...],
                  level: str) -> Finding:
+        """``hottest``'s LED record is the one holding the figures (a follower's
+        template's, :func:`~linter.rulekit.figures_of`); ``parts`` are the group's names."""
+        base, refs = figures_of(result)
         led, limit, _, generic = hottest
+        ref = renamer(refs)(led.ref)
         what = "maximum" if level == "error" else "recommended maximum"
         if generic:
             what += " (generic figure)"
-        where = at_corner(led.current.at_max, result, (led.ref,))
-        others = [p for p in parts if p != led.ref]
+        where = at_corner(led.current.at_max, result, (ref,), refs)
+        others = [p for p in parts if p != ref]
         also = f" (also {', '.join(others)})" if others else ""
-        message = say(led.ref, f"{amps(led.current.max)} at {where}, above its {amps(limit)} "
-                               f"{what}; {amps(led.current.nom)} nominal{also}")
+        message = say(ref, f"{amps(led.current.max)} at {where}, above its {amps(limit)} "
+                           f"{what}; {amps(led.current.nom)} nominal{also}")
         values = {"current_max_a": led.current.max, "current_nom_a": led.current.nom,
                   "current_min_a": led.current.min, "limit_a": limit}
         fix = self._fix(context, result, values)
@@ -132,12 +140,15 @@ class LedOvercurrent(Rule):
 
     def _fix(self, context: Any, result: GroupResult, values: dict) -> str | None:
         """The standard resistor that brings every LED of the group under its target."""
-        targets = [t for t in (target_current(context, x.ref) for x in result.leds) if t]
+        base, refs = figures_of(result)
+        # the template's part data (a follower's equals it but for the note)
+        targets = [t for t in (target_current(context, x.ref) for x in base.leds) if t]
         ref = current_resistor(context, result)
         if not targets or ref is None:
             return None
         target = min(targets)
-        leds = tuple(x.ref for x in result.leds)
+        name = renamer(refs)
+        leds = tuple(name(x.ref) for x in base.leds)
         try:
             choice = fix_search.resistor_for_max(context, result, ref, leds, target)
         except RuntimeError:
@@ -182,15 +193,18 @@ def _over_of(context: Any, result: GroupResult,
     entry = overs.get(id(base))
     if entry is not None and entry[0] is base:
         return entry[1]
-    found = _over(context, result)
+    found = _over(context, base)
     overs[id(base)] = (base, found)
     return found
 
 
 def current_resistor(context: Any, result: GroupResult) -> str | None:
-    """The resistor that sets the group's current: the setter, or a sink's emitter resistor."""
+    """The resistor that sets the group's current: the setter, or a sink's emitter resistor.
+    (A follower's resistors are read through its template, :func:`~linter.rulekit.figures_of`.)"""
     setter = result.group.setter
-    names = {r.ref for r in result.resistors}
+    base, refs = figures_of(result)
+    name = renamer(refs)
+    names = {name(r.ref) for r in base.resistors}
     if setter in names:
         return setter
     transistor = result.group.transistor

@@ -9,8 +9,8 @@ from linter.dissipation import Allowance, over, semiconductor_allowance
 from linter.findings import Finding
 from linter.fixes import resistor_for_current_solved
 from linter.results import GroupResult, LedResult
-from linter.rulekit import (amps, at_corner, led_data, ohms, part_location, say, solved_groups,
-                            volts, watts)
+from linter.rulekit import (amps, at_corner, figures_of, led_data, ohms, part_location, renamer,
+                            say, solved_groups, volts, watts)
 from linter.rules import Rule, register
 
 
@@ -52,8 +52,10 @@ class LedOverpower(Rule):
         share = context.settings.derating.transistor_power
         for result in solved_groups(context):
             hot: list[tuple[LedResult, Allowance]] = []
-            for led in result.leds:
-                data = led_data(context, led.ref)
+            base, refs = figures_of(result)  # a follower's records are left unbuilt
+            name = renamer(refs)
+            for led in base.leds:
+                data = led_data(context, name(led.ref))
                 if data is None or data.pd_max is None or "pd_max" in data.assumed:
                     continue
                 allowance = semiconductor_allowance(data.pd_max, ambient, share)
@@ -64,43 +66,51 @@ class LedOverpower(Rule):
 
     def _finding(self, context: Any, result: GroupResult,
                  hot: list[tuple[LedResult, Allowance]]) -> Finding:
-        """One finding per group: the LED furthest over its allowance quoted, all named."""
+        """One finding per group: the LED furthest over its allowance quoted, all named.
+        ``hot``'s records are those holding the figures (a follower's template's, see
+        :func:`~linter.rulekit.figures_of`); names are the group's."""
+        refs = figures_of(result)[1]
+        name = renamer(refs)
         led, allowance = max(hot, key=lambda item: item[0].power.max / item[1].allowed_w)
+        ref = name(led.ref)
         power = led.power
-        others = [x.ref for x, _ in hot if x.ref != led.ref]
+        others = [name(x.ref) for x, _ in hot if x.ref != led.ref]
         also = f" (also {', '.join(others)})" if others else ""
-        message = say(led.ref, f"{watts(power.max)} at "
-                               f"{at_corner(power.at_max, result, (led.ref,))}, above the "
+        message = say(ref, f"{watts(power.max)} at "
+                               f"{at_corner(power.at_max, result, (ref,), refs)}, above the "
                                f"{watts(allowance.allowed_w)} allowed "
                                f"({allowance.describe('pd_max')}); {watts(power.nom)} nominal"
                                f"{also}")
         values = {**allowance.values(power.max, power.nom),
                   "current_max_a": led.current.max, "vf_max_v": led.vf.max}
         return Finding(rule=self.id, severity=context.severity(self), message=message,
-                       parts=tuple(x.ref for x, _ in hot), group=result.id, values=values,
-                       fix=_fix(context, result, hot, led, allowance, values),
-                       location=part_location(context, led.ref))
+                       parts=tuple(name(x.ref) for x, _ in hot), group=result.id,
+                       values=values, fix=_fix(context, result, hot, led, allowance, values),
+                       location=part_location(context, ref))
 
 
 def _fix(context: Any, result: GroupResult, hot: list[tuple[LedResult, Allowance]],
          led: LedResult, allowance: Allowance, values: dict) -> str:
-    """The setter resistor found by solving again, else the current to stay under (I = P/Vf)."""
+    """The setter resistor found by solving again, else the current to stay under (I = P/Vf).
+    Records as :meth:`LedOverpower._finding`'s."""
+    base, refs = figures_of(result)
+    name = renamer(refs)
     vf_hot = led.power.max / led.current.max if led.current.max > 0 else led.vf.max
     limit = allowance.allowed_w / vf_hot
     values["fix_current_max_a"] = limit
-    plain = (f"keep {led.ref} at or below about {amps(limit)} at worst "
+    plain = (f"keep {name(led.ref)} at or below about {amps(limit)} at worst "
              f"({watts(allowance.allowed_w)} at {volts(vf_hot)})")
     setter = result.group.setter
-    if setter not in {r.ref for r in result.resistors}:
+    if setter not in {name(r.ref) for r in base.resistors}:
         return plain
-    limits = {x.ref: a.allowed_w for x, a in hot}
+    limits = {name(x.ref): a.allowed_w for x, a in hot}
     choice = _resistor_for_power(context, result, setter, limits)
     if choice is None:
         return plain
     values["fix_ohms"] = choice.ohms
     worst = choice.current_max_a * allowance.allowed_w
-    return (f"make {setter} {ohms(choice.ohms)} ({choice.series}): {led.ref} then dissipates at "
-            f"most {watts(worst)} ({watts(allowance.allowed_w)} allowed)")
+    return (f"make {setter} {ohms(choice.ohms)} ({choice.series}): {name(led.ref)} then "
+            f"dissipates at most {watts(worst)} ({watts(allowance.allowed_w)} allowed)")
 
 
 def _resistor_for_power(context: Any, result: GroupResult, ref: str,
@@ -119,7 +129,7 @@ def _resistor_for_power(context: Any, result: GroupResult, ref: str,
             return (max(s.nom / a for s, a in spans), min(s.min / a for s, a in spans),
                     max(s.max / a for s, a in spans))
 
-        return resistor_for_current_solved(ratio, 1.0, result.resistor(ref).ohms,
+        return resistor_for_current_solved(ratio, 1.0, fix_search.resistor_ohms(result, ref),
                                            series=series, tolerance=tolerance, max_steps=200)
 
     try:

@@ -6,7 +6,7 @@ from typing import Any, Iterable
 
 from linter.findings import Finding
 from linter.results import GroupResult, LedResult
-from linter.rulekit import at_corner, led_data, say, solved_groups, volts
+from linter.rulekit import at_corner, figures_of, led_data, renamer, say, solved_groups, volts
 from linter.rules import Rule, register
 
 
@@ -44,28 +44,36 @@ class LedReverse(Rule):
 
     def check(self, context: Any) -> Iterable[Finding]:
         for result in solved_groups(context):
-            for led in result.leds:
-                data = led_data(context, led.ref)
+            base, refs = figures_of(result)  # a follower's records are left unbuilt
+            name = renamer(refs)
+            for led in base.leds:
+                ref = name(led.ref)
+                data = led_data(context, ref)
                 if data is None or data.vr_max is None:
                     continue
                 if led.reverse_v > data.vr_max:
                     yield self._finding(context, result, led, data.vr_max,
-                                        "vr_max" in data.assumed)
+                                        "vr_max" in data.assumed, ref)
 
     def _finding(self, context: Any, result: GroupResult, led: LedResult, vr_max: float,
-                 generic: bool) -> Finding:
+                 generic: bool, ref: str | None = None) -> Finding:
+        """``led``: the record holding the figures (a follower's template's, see
+        :func:`~linter.rulekit.figures_of`); ``ref`` its name in ``result``'s group
+        (default: the record's)."""
+        refs = figures_of(result)[1] if ref is not None else None
+        ref = led.ref if ref is None else ref
         rating = f"{volts(vr_max)} rating" + (" (generic figure)" if generic else "")
-        message = say(led.ref, f"{volts(led.reverse_v)} reverse at "
-                               f"{at_corner(led.reverse_at, result, (led.ref,))}, above its "
-                               f"{rating} ({_why(result)})")
+        message = say(ref, f"{volts(led.reverse_v)} reverse at "
+                           f"{at_corner(led.reverse_at, result, (ref,), refs)}, above its "
+                           f"{rating} ({_why(result)})")
         values = {"reverse_v": led.reverse_v, "vr_max_v": vr_max}
-        part = context.circuit.parts.get(led.ref)
+        part = context.circuit.parts.get(ref)
         nets = tuple(pin.net for pin in part.pins if pin.net) if part is not None else ()
         anode = next((p.net for p in part.pins if p.name.upper() in ("A", "ANODE", "+")),
                      None) if part is not None else None
-        fix = _fix(result, led.ref, anode)
+        fix = _fix(result, ref, anode)
         return Finding(rule=self.id, severity=context.severity(self), message=message,
-                       parts=(led.ref,), nets=nets, group=result.id, values=values, fix=fix,
+                       parts=(ref,), nets=nets, group=result.id, values=values, fix=fix,
                        location=None if part is None else part.location)
 
 

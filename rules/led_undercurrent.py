@@ -2,14 +2,15 @@
 
 from __future__ import annotations
 
-from typing import Any, Iterable
+from typing import Any, Callable, Iterable
 
 from linter import fix_search
 from linter.config import RuleOption
 from linter.findings import Finding
 from linter.refs import fold_refs, natural_sorted
 from linter.results import GroupResult, LedResult
-from linter.rulekit import amps, at_corner, ohms, say, solved_groups, volts
+from linter.rulekit import (PerTemplate, amps, at_corner, figures_of, ohms, renamer, say,
+                            solved_groups, volts)
 from linter.rules import Rule, register
 from linter.rules.led_overcurrent import current_resistor, is_shared, target_current
 from linter.unionfind import UnionFind
@@ -62,22 +63,23 @@ class LedUndercurrent(Rule):
     def check(self, context: Any) -> Iterable[Finding]:
         yield from self._shorted(context)
         floor = float(context.option(self, "visible_floor"))
+        verdicts = PerTemplate(lambda base: _verdict(context, base, floor))
         for result in solved_groups(context):
-            finding = self._group_finding(context, result, floor)
+            finding = self._group_finding(context, result, floor, verdicts)
             if finding is not None:
                 yield finding
 
-    def _group_finding(self, context: Any, result: GroupResult, floor: float) -> Finding | None:
-        lit = [led for led in result.leds if led.lit_scenarios]
-        dark_nominal = [led for led in lit if led.current.nom < floor]
-        if dark_nominal:
-            return self._finding(context, result, dark_nominal, floor, nominal=True)
-        if is_shared(context, result):
+    def _group_finding(self, context: Any, result: GroupResult, floor: float,
+                       verdicts: Callable[[GroupResult], Any] | None = None) -> Finding | None:
+        """``verdicts`` (one check's :class:`~linter.rulekit.PerTemplate`): :func:`_verdict`
+        once per template; without it (the plain path) from the group's own figures."""
+        verdict = _verdict(context, result, floor) if verdicts is None else verdicts(result)
+        if verdict is None:
             return None
-        dim = [led for led in lit if led.current.min < floor]
-        if dim:
-            return self._finding(context, result, dim, floor, nominal=False)
-        return None
+        positions, nominal = verdict
+        base = figures_of(result)[0]
+        return self._finding(context, result, [base.leds[i] for i in positions], floor,
+                             nominal)
 
     def _shorted(self, context: Any) -> Iterable[Finding]:
         """LEDs whose two pins are joined through 0 Ω links: they can never light."""
@@ -99,26 +101,35 @@ class LedUndercurrent(Rule):
 
     def _finding(self, context: Any, result: GroupResult, leds: list[LedResult], floor: float,
                  nominal: bool) -> Finding:
+        """``leds``: the records holding the figures of the LEDs below the floor (a
+        follower's template's, :func:`~linter.rulekit.figures_of`)."""
+        refs = figures_of(result)[1]
+        name = renamer(refs)
         worst = min(leds, key=lambda x: x.current.nom if nominal else x.current.min)
+        worst_ref = name(worst.ref)
         current = worst.current.nom if nominal else worst.current.min
         where = "the nominal corner" if nominal else at_corner(worst.current.at_min, result,
-                                                               (worst.ref,))
+                                                               (worst_ref,), refs)
         state = ("does not conduct" if current < DARK_A
                  else f"gets {amps(current)}, below the {amps(floor)} visible floor")
         tail = "" if nominal else f"; {amps(worst.current.nom)} nominal"
-        others = [x.ref for x in leds if x.ref != worst.ref]
+        others = [name(x.ref) for x in leds if x.ref != worst.ref]
         also = f" (also {', '.join(others)})" if others else ""
-        message = say(worst.ref, f"{state} at {where}{tail}{also}")
+        message = say(worst_ref, f"{state} at {where}{tail}{also}")
         values = {"current_min_a": worst.current.min, "current_nom_a": worst.current.nom,
                   "current_max_a": worst.current.max, "floor_a": floor}
         severity = context.severity(self) if nominal else context.severity(self, "warning")
         return Finding(rule=self.id, severity=severity, message=message,
-                       parts=tuple(x.ref for x in leds), group=result.id, values=values,
+                       parts=tuple(name(x.ref) for x in leds), group=result.id, values=values,
                        fix=self._fix(context, result, floor, values))
 
     def _fix(self, context: Any, result: GroupResult, floor: float, values: dict) -> str | None:
-        leds = tuple(x.ref for x in result.leds if x.lit_scenarios)
-        targets = [t for t in (target_current(context, ref) for ref in leds) if t]
+        base, refs = figures_of(result)
+        lit = [x.ref for x in base.leds if x.lit_scenarios]
+        # the template's part data (a follower's equals it but for the note)
+        targets = [t for t in (target_current(context, ref) for ref in lit) if t]
+        name = renamer(refs)
+        leds = tuple(name(ref) for ref in lit)
         ceiling = min(targets) if targets else None
         ref = current_resistor(context, result)
         try:
@@ -147,6 +158,22 @@ class LedUndercurrent(Rule):
         values.update(fix_rail_min_v=needed)
         return (f"keep {name} at or above {volts(needed)} (its minimum is {volts(rail.min)}), "
                 f"or put fewer LEDs in the string")
+
+
+def _verdict(context: Any, result: GroupResult, floor: float
+             ) -> tuple[tuple[int, ...], bool] | None:
+    """(positions in ``result.leds`` of the lit LEDs below ``floor``, A; whether at the
+    nominal corner) of the group's finding, or None. Figures and the group's shape only: a
+    follower's (same figures in the same order, same topology, strings and nets in
+    kind) is its template's."""
+    lit = [(i, led) for i, led in enumerate(result.leds) if led.lit_scenarios]
+    dark_nominal = tuple(i for i, led in lit if led.current.nom < floor)
+    if dark_nominal:
+        return dark_nominal, True
+    if is_shared(context, result):
+        return None
+    dim = tuple(i for i, led in lit if led.current.min < floor)
+    return (dim, False) if dim else None
 
 
 class _Joins(UnionFind):

@@ -10,7 +10,8 @@ from linter.fixes import resistor_for_current_solved
 from linter.partdata import McuData
 from linter.refs import fold_refs
 from linter.results import GroupResult, PinResult
-from linter.rulekit import amps, at_corner, ohms, part_location, say, solved_groups
+from linter.rulekit import (amps, at_corner, figures_of, ohms, part_location, renamer, say,
+                            solved_groups)
 from linter.rules import Rule, register
 
 
@@ -51,7 +52,7 @@ class PinOvercurrent(Rule):
     def check(self, context: Any) -> Iterable[Finding]:
         contributions: dict[str, list[tuple[PinResult, GroupResult]]] = {}
         for result in solved_groups(context):
-            for pin in result.pins:
+            for pin in _pins(result):
                 if pin.current_max is not None and pin.current.max > pin.current_max:
                     yield self._pin_finding(context, result, pin)
             for part, pin in _largest_pin_per_part(result).items():
@@ -67,8 +68,10 @@ class PinOvercurrent(Rule):
         generic = isinstance(data, McuData) and "pin_current_max" in data.assumed
         direction = "sourced" if pin.sourcing else "sunk"
         limit = f"{amps(pin.current_max)} pin rating" + (" (generic figure)" if generic else "")
+        refs = figures_of(result)[1]
+        at = pin.current.at_max  # a follower's: its template's corner, named through refs
         message = say(pin.id, f"{amps(pin.current.max)} {direction} at "
-                              f"{at_corner(pin.current.at_max, result)}, above its {limit}; "
+                              f"{at_corner(at, result, (), refs)}, above its {limit}; "
                               f"{amps(pin.current.nom)} nominal ({', '.join(result.group.leds)})")
         values = {"current_max_a": pin.current.max, "current_nom_a": pin.current.nom,
                   "limit_a": pin.current_max}
@@ -104,11 +107,23 @@ class PinOvercurrent(Rule):
 def _largest_pin_per_part(result: GroupResult) -> dict[str, PinResult]:
     """The group's largest pin current per microcontroller part (a group counted once)."""
     largest: dict[str, PinResult] = {}
-    for pin in result.pins:
+    for pin in _pins(result):
         part = pin.id.split(".", 1)[0]
         if part not in largest or pin.current.max > largest[part].current.max:
             largest[part] = pin
     return largest
+
+
+def _pins(result: GroupResult) -> tuple[PinResult, ...]:
+    """The group's pin records; a follower's (:func:`~linter.rulekit.figures_of`) made
+    from its template's figures and its own pin drives (pin i is drive i, the follower's
+    own records left unbuilt), their spans the template's (name a corner's parts through
+    ``refs``)."""
+    base, refs = figures_of(result)
+    if refs is None:
+        return result.pins
+    return tuple(PinResult(drive.id, drive.net, pin.current, pin.sourcing, pin.current_max)
+                 for pin, drive in zip(base.pins, result.group.pins))
 
 
 def _to_move(pins: list[tuple[PinResult, GroupResult]], excess: float
@@ -128,7 +143,9 @@ def _pin_fix(context: Any, result: GroupResult, pin: PinResult, values: dict) ->
     switch = (f"or drive {', '.join(result.group.leds)} through a transistor switch "
               f"(the pin drives its base or gate through a resistor)")
     setter = result.group.setter
-    if setter not in {r.ref for r in result.resistors}:
+    base, refs = figures_of(result)
+    name = renamer(refs)
+    if setter not in {name(r.ref) for r in base.resistors}:
         return f"add a series resistor sized for {amps(pin.current_max)} at worst, {switch}"
     choice = _resistor_for_pin(context, result, setter, pin)
     if choice is None:
@@ -149,7 +166,7 @@ def _resistor_for_pin(context: Any, result: GroupResult, ref: str, pin: PinResul
             span = next(p for p in solved(value).pins if p.id == pin.id).current
             return span.nom, span.min, span.max
 
-        return resistor_for_current_solved(current, pin.current_max, result.resistor(ref).ohms,
+        return resistor_for_current_solved(current, pin.current_max, fix_search.resistor_ohms(result, ref),
                                            series=series, tolerance=tolerance, max_steps=200)
 
     try:

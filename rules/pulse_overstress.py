@@ -8,7 +8,8 @@ from typing import Any, Iterable
 from linter.findings import Finding
 from linter.partdata import LedData
 from linter.results import GroupResult, LedResult
-from linter.rulekit import amps, at_corner, led_data, part_location, say, solved_groups
+from linter.rulekit import (amps, at_corner, figures_of, led_data, part_location, renamer, say,
+                            solved_groups)
 from linter.rules import Rule, register
 from linter.units import format_si
 
@@ -73,24 +74,32 @@ class PulseOverstress(Rule):
             if not nets:
                 continue
             pulse = pulsed[nets[0]]
-            for led in result.leds:
-                data = led_data(context, led.ref)
+            base, refs = figures_of(result)  # a follower's records are left unbuilt
+            name = renamer(refs)
+            for led in base.leds:
+                data = led_data(context, name(led.ref))
                 if data is None:
                     continue
                 verdict = _judge(led.current.max, pulse.duty, pulse.period, data)
                 if verdict.reasons:
-                    yield self._finding(context, result, led, nets[0], verdict)
+                    yield self._finding(context, result, led, nets[0], verdict, name(led.ref))
 
     def _finding(self, context: Any, result: GroupResult, led: LedResult, net: str,
-                 verdict: _Verdict) -> Finding:
+                 verdict: _Verdict, ref: str | None = None) -> Finding:
+        """``led``: the record holding the figures (a follower's template's, see
+        :func:`~linter.rulekit.figures_of`); ``ref`` its name in ``result``'s group
+        (default: the record's)."""
+        refs = figures_of(result)[1] if ref is not None else None
+        ref = led.ref if ref is None else ref
         peak = led.current.max
-        message = say(led.ref, f"{amps(peak)} peak at {at_corner(led.current.at_max, result, (led.ref,))}"
-                               f" on pulsed net {net}: {'; '.join(verdict.reasons)}")
+        where = at_corner(led.current.at_max, result, (ref,), refs)
+        message = say(ref, f"{amps(peak)} peak at {where} on pulsed net {net}: "
+                           f"{'; '.join(verdict.reasons)}")
         severity = context.severity(self) if verdict.breach else context.severity(self, "warning")
         values = {"peak_a": peak, **verdict.values}
-        return Finding(rule=self.id, severity=severity, message=message, parts=(led.ref,),
+        return Finding(rule=self.id, severity=severity, message=message, parts=(ref,),
                        nets=(net,), group=result.id, values=values,
-                       fix=_fix(led.ref, peak, verdict), location=part_location(context, led.ref))
+                       fix=_fix(ref, peak, verdict), location=part_location(context, ref))
 
 
 def _judge(peak: float, duty: float, period: float | None, data: LedData) -> _Verdict:

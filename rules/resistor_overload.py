@@ -8,7 +8,8 @@ from linter.dissipation import Allowance, over, resistor_allowance
 from linter.findings import Finding
 from linter.fixes import resistor_rating
 from linter.results import GroupResult, ResistorResult
-from linter.rulekit import at_corner, part_location, say, solved_groups, watts
+from linter.rulekit import (PerTemplate, at_corner, figures_of, part_location, renamer, say,
+                            solved_groups, watts)
 from linter.rules import Rule, register
 
 
@@ -50,29 +51,48 @@ class ResistorOverload(Rule):
         share = context.settings.derating.resistor_power
         seen: set[str] = set()
         allowances: dict[float, Allowance] = {}  # by rating: ambient and share are the board's
-        for result in solved_groups(context):
-            for resistor in result.resistors:
-                if resistor.ref in seen or resistor.rating_w is None:
+
+        def rated(base: GroupResult) -> tuple:
+            """(resistor record, its allowance, whether over it) of each rated resistor of
+            a template, in order: figures and ratings only, a follower's are the same."""
+            out = []
+            for resistor in base.resistors:
+                if resistor.rating_w is None:
                     continue
-                seen.add(resistor.ref)
                 allowance = _allowance(resistor.rating_w, ambient, share, allowances)
-                if over(resistor.power.max, allowance):
-                    yield self._finding(context, result, resistor, allowance)
+                out.append((resistor, allowance, over(resistor.power.max, allowance)))
+            return tuple(out)
+
+        verdicts = PerTemplate(rated)
+        for result in solved_groups(context):
+            name = renamer(figures_of(result)[1])
+            for resistor, allowance, is_over in verdicts(result):
+                ref = name(resistor.ref)
+                if ref in seen:
+                    continue
+                seen.add(ref)
+                if is_over:
+                    yield self._finding(context, result, resistor, allowance, ref)
 
     def _finding(self, context: Any, result: GroupResult, resistor: ResistorResult,
-                 allowance: Allowance) -> Finding:
+                 allowance: Allowance, ref: str | None = None) -> Finding:
+        """``resistor``: the record holding the figures (a follower's template's, see
+        :func:`~linter.rulekit.figures_of`); ``ref`` its name in ``result``'s group
+        (default: the record's)."""
+        refs = figures_of(result)[1] if ref is not None else None
+        ref = resistor.ref if ref is None else ref
         power = resistor.power
         package = f"{resistor.package}, " if resistor.package else ""
         rating = allowance.describe(f"{package}rated")
-        message = say(resistor.ref, f"{watts(power.max)} at {at_corner(power.at_max, result)}, "
-                                    f"above the {watts(allowance.allowed_w)} allowed ({rating}); "
-                                    f"{watts(power.nom)} nominal")
+        message = say(ref, f"{watts(power.max)} at {at_corner(power.at_max, result, (), refs)}, "
+                           f"above the {watts(allowance.allowed_w)} allowed ({rating}); "
+                           f"{watts(power.nom)} nominal")
         values = {**allowance.values(power.max, power.nom, "rating_w"),
                   "current_max_a": resistor.current.max}
         return Finding(rule=self.id, severity=context.severity(self), message=message,
-                       parts=(resistor.ref,), group=result.id, values=values,
-                       fix=_fix(resistor.ref, power.max, allowance, values),
-                       location=part_location(context, resistor.ref))
+                       parts=(ref,), group=result.id, values=values,
+                       fix=_fix(ref, power.max, allowance, values),
+                       location=part_location(context, ref))
 
 
 def _allowance(rating_w: float, ambient_c: float, share: float,

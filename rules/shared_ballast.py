@@ -2,7 +2,8 @@
 
 from __future__ import annotations
 
-from typing import Any, Iterable
+from dataclasses import dataclass
+from typing import Any, Callable, Iterable
 
 from linter import eseries, fix_search
 from linter.fix_batch import solve_circuits
@@ -10,7 +11,8 @@ from linter.findings import Finding
 from linter.fixes import per_led_resistors
 from linter.refs import natural_key, natural_sorted
 from linter.results import GroupResult, LedResult
-from linter.rulekit import amps, at_corner, group_rail, led_data, ohms, solved_groups, watts
+from linter.rulekit import (PerTemplate, amps, at_corner, figures_of, group_rail, led_data, ohms,
+                            renamer, solved_groups, watts)
 from linter.rules import Rule, register
 from linter.rules.led_overcurrent import target_current
 
@@ -68,75 +70,76 @@ class SharedBallast(Rule):
     def check(self, context: Any) -> Iterable[Finding]:
         results = [result for result in solved_groups(context)
                    if result.group.topology == "parallel" and len(result.group.strings) > 1]
-        keys = _solve_first_splits(context, results)
+        verdicts = PerTemplate(lambda base: _verdict(context, base))
+        keys = _solve_first_splits(context, results, verdicts)
         severity = context.severity(self)  # the same for every finding of the board
         for result in results:
             yield self._finding(context, result, *keys.get(id(result), (fix_search.ASK, ASK)),
-                                severity=severity)
+                                severity=severity, verdicts=verdicts)
 
     def _finding(self, context: Any, result: GroupResult, key: Any = fix_search.ASK,
-                 first: Any = ASK, severity: str | None = None) -> Finding:
+                 first: Any = ASK, severity: str | None = None,
+                 verdicts: Callable[[GroupResult], "_Verdict"] | None = None) -> Finding:
         """``key``: the fix search's signature for the first resistor tried, when known;
-        ``first``: :func:`_first_split` of the group, when known."""
+        ``first``: :func:`_first_split` of the group, when known; ``verdicts`` (one
+        check's :class:`~linter.rulekit.PerTemplate`): the group's :class:`_Verdict` once
+        per template (without it, the plain path, worked out from the group's own
+        figures). The follower's records are not read: figures come from the template's
+        (:func:`~linter.rulekit.figures_of`), names from the follower's group and ``refs``."""
         group = result.group
-        hottest = _hottest(result.leds)
+        base, refs = figures_of(result)
+        verdict = _verdict(context, result) if verdicts is None else verdicts(result)
+        name = renamer(refs)
+        tied = verdict.tied
+        index = tied[0] if len(tied) == 1 else min(
+            tied, key=lambda i: natural_key(name(base.leds[i].ref)))
+        hottest = base.leds[index]
+        hottest_ref = name(hottest.ref)
         shared = group.setter or "one part"
         count = len(group.strings)
-        share = _share(result)
+        share = verdict.share
         values = {"count": float(count), "share_nom_a": share,
                   "hottest_current_max_a": hottest.current.max}
-        where = at_corner(hottest.current.at_max, result, (hottest.ref,))
+        where = at_corner(hottest.current.at_max, result, (hottest_ref,), refs)
         leds = tuple(natural_sorted(group.leds))
-        text = (f"{fold(leds)} share {shared}: {hottest.ref} takes up to "
+        text = (f"{fold(leds)} share {shared}: {hottest_ref} takes up to "
                 f"{amps(hottest.current.max)} ({where})")
-        data = led_data(context, hottest.ref)
+        data = led_data(context, hottest.ref)  # the template's: equal but for the note
         if data is not None and data.if_max:
             values["if_max_a"] = data.if_max
             text += f", {hottest.current.max / data.if_max:.1f}× its {amps(data.if_max)} maximum"
         text += f"; {amps(share)} each nominal"
-        text += self._shared_part(result, shared, values)
-        fix = self._fix(context, result, share, values, key, first)
+        if verdict.shared_part is not None:
+            current_max, power_max = verdict.shared_part
+            values.update(shared_current_max_a=current_max, shared_power_max_w=power_max)
+            text += (f"; {shared} carries up to {amps(current_max)} and dissipates up to "
+                     f"{watts(power_max)}")
+        fix = self._fix(context, result, share, values, key,
+                        verdict.first if first is ASK else first, verdict)
         if severity is None:
             severity = context.severity(self)
         return Finding(rule=self.id, severity=severity, message=text,
                        parts=(shared, *leds) if group.setter else leds,
                        group=result.id, values=values, fix=fix)
 
-    @staticmethod
-    def _shared_part(result: GroupResult, shared: str, values: dict) -> str:
-        names = {r.ref: r for r in result.resistors}
-        if shared in names:
-            part = names[shared]
-            current, power = part.current, part.power
-        elif shared in {t.ref for t in result.transistors}:
-            part = result.transistor(shared)
-            current, power = part.current, part.power
-        else:
-            return ""
-        values.update(shared_current_max_a=current.max, shared_power_max_w=power.max)
-        return (f"; {shared} carries up to {amps(current.max)} and dissipates up to "
-                f"{watts(power.max)}")
-
     def _fix(self, context: Any, result: GroupResult, share: float, values: dict,
-             key: Any = fix_search.ASK, first: Any = ASK) -> str | None:
+             key: Any, first: Any, verdict: "_Verdict") -> str | None:
         shared = result.group.setter
         if shared is None:
             return None
-        if shared in {r.ref for r in result.resistors}:
-            return self._per_led(context, result, shared, share, values, key, first)
+        if verdict.by_resistor:
+            return self._per_led(context, result, shared, values, key, first, verdict.limit)
         return self._per_string_sink(result, shared, share)
 
-    def _per_led(self, context: Any, result: GroupResult, shared: str, share: float,
-                 values: dict, key: Any = fix_search.ASK, first: Any = ASK) -> str | None:
+    def _per_led(self, context: Any, result: GroupResult, shared: str, values: dict,
+                 key: Any, first: tuple[float, float, str] | None,
+                 limit: float | None) -> str | None:
         """One resistor per string: nominal current near the share, worst case under the
-        LED's limit, confirmed by solving the split circuit."""
-        if first is ASK:
-            first = _first_split(context, result, shared, share)
+        LED's limit (``limit``, A, None when unknown), confirmed by solving the split
+        circuit."""
         if first is None:
             return None
         ohms_each, tolerance, series = first
-        limits = [t for t in (target_current(context, x.ref) for x in result.leds) if t]
-        limit = min(limits) if limits else None
         for _ in range(MAX_FIX_STEPS):
             currents = self._split_currents(context, result, shared, ohms_each, tolerance, key)
             key = fix_search.ASK  # the signature known ahead is the first value's only
@@ -170,6 +173,55 @@ class SharedBallast(Rule):
     def _per_string_sink(result: GroupResult, shared: str, share: float) -> str:
         return (f"give each of the {len(result.group.strings)} strings its own sink "
                 f"set to {amps(share)} in place of the shared {shared}")
+
+
+@dataclass(frozen=True, slots=True)
+class _Verdict:
+    """What a group's finding says that names no part, worked out on the result holding
+    its figures (a follower's template): ``tied`` the positions in its LEDs of the highest
+    maximum current to the nanoampere (the hottest is the one of them first in natural
+    order of the group's own names); ``share`` (A, :func:`_share`); ``shared_part`` the
+    shared part's (highest current A, highest power W), None when it is no resistor or
+    transistor of the group; ``by_resistor`` whether it is a resistor of the group;
+    ``first`` :func:`_first_split` (resistor only); ``limit`` the lowest target current of
+    the LEDs (A, None when unknown; resistor only).
+
+    A follower has its template's figures in the same order, its strings, setter and rail
+    under the renamed references, and part data equal to the template's but for the note
+    (not read): the template's verdict is the follower's."""
+
+    tied: tuple[int, ...]
+    share: float
+    shared_part: tuple[float, float] | None
+    by_resistor: bool
+    first: tuple[float, float, str] | None
+    limit: float | None
+
+
+def _verdict(context: Any, result: GroupResult) -> _Verdict:
+    """:class:`_Verdict` of ``result`` from its own records."""
+    leds = result.leds
+    rounded = [round(x.current.max * 1e9) for x in leds]
+    top = max(rounded)
+    tied = tuple(i for i, r in enumerate(rounded) if r == top)
+    share = _share(result)
+    shared = result.group.setter
+    by_resistor = False
+    shared_part = None
+    first = limit = None
+    resistor = next((r for r in result.resistors if r.ref == shared), None)
+    if resistor is not None:
+        by_resistor = True
+        shared_part = (resistor.current.max, resistor.power.max)
+        first = _first_split(context, result, shared, share)
+        if first is not None:
+            limits = [t for t in (target_current(context, x.ref) for x in leds) if t]
+            limit = min(limits) if limits else None
+    else:
+        transistor = next((t for t in result.transistors if t.ref == shared), None)
+        if transistor is not None:
+            shared_part = (transistor.current.max, transistor.power.max)
+    return _Verdict(tied, share, shared_part, by_resistor, first, limit)
 
 
 def _hottest(leds: Iterable[LedResult]) -> LedResult:
@@ -230,22 +282,29 @@ def _split_figures(solved: tuple[GroupResult, ...]) -> tuple[float, float, float
             max(x.current.max for x in leds))
 
 
-def _solve_first_splits(context: Any, results: list[GroupResult]) -> dict[int, tuple]:
+def _solve_first_splits(context: Any, results: list[GroupResult],
+                        verdicts: Callable[[GroupResult], _Verdict] | None = None
+                        ) -> dict[int, tuple]:
     """The first split of every group's search solved ahead, all in one batch per structure
     (:func:`linter.fix_batch.solve_circuits`) and remembered as the search would remember
     it; returns each group's (signature for that first question, :func:`_first_split`) by
     ``id(result)``, for the groups whose shared part is a resistor.
 
     Only questions not remembered yet are solved, each once. Should any fail, nothing is
-    kept: the searches then solve one by one as before.
+    kept: the searches then solve one by one as before. ``verdicts``: each group's
+    :class:`_Verdict` (default: worked out from its own records).
     """
+    if verdicts is None:
+        def verdicts(result: GroupResult) -> _Verdict:
+            return _verdict(context, result)
     keys: dict[int, Any] = {}
     pending: dict[bytes, tuple[GroupResult, str, float]] = {}
     for result in results:
         shared = result.group.setter
-        if shared is None or shared not in {r.ref for r in result.resistors}:
+        verdict = verdicts(result)
+        if shared is None or not verdict.by_resistor:
             continue
-        first = _first_split(context, result, shared, _share(result))
+        first = verdict.first
         if first is None:
             keys[id(result)] = (fix_search.ASK, None)
             continue

@@ -8,8 +8,8 @@ from linter.findings import Finding
 from linter.fixes_sink import EMITTER_V_FLOOR
 from linter.partdata import Rail
 from linter.results import GroupResult, TransistorResult
-from linter.rulekit import (amps, at_corner, bjt_data, ohms, say, sink_design, solved_groups,
-                            volts)
+from linter.rulekit import (amps, at_corner, bjt_data, figures_of, ohms, renamer, say,
+                            sink_design, solved_groups, volts)
 from linter.rules import Rule, register
 from linter.rules.string_headroom import reference_rail
 
@@ -57,8 +57,11 @@ class SinkCompliance(Rule):
         for result in solved_groups(context):
             if result.group.topology not in REGULATORS:
                 continue
-            for transistor in result.transistors:
-                if transistor.ref != result.group.transistor or transistor.rail_min is None:
+            base, refs = figures_of(result)  # a follower's records are left unbuilt
+            rename = renamer(refs)
+            for transistor in base.transistors:
+                if rename(transistor.ref) != result.group.transistor \
+                        or transistor.rail_min is None:
                     continue
                 rail = context.rails.get(transistor.headroom_rail or "")
                 if rail is None:
@@ -68,8 +71,12 @@ class SinkCompliance(Rule):
 
     def _finding(self, context: Any, result: GroupResult, q: TransistorResult,
                  rail: Rail) -> Finding:
+        """``q``: the record holding the figures (a follower's template's, see
+        :func:`~linter.rulekit.figures_of`); names are the group's."""
+        base, refs = figures_of(result)
+        ref = renamer(refs)(q.ref)
         name = q.headroom_rail
-        where = at_corner(q.saturated_at or q.rail_min_at, result)
+        where = at_corner(q.saturated_at or q.rail_min_at, result, (), refs)
         values = {"rail_min_needed_v": q.rail_min, "rail_min_v": rail.min,
                   "current_nom_a": q.current.nom}
         text = (f"leaves regulation at {where}: it needs {name} ≥ {volts(q.rail_min)}, "
@@ -79,14 +86,17 @@ class SinkCompliance(Rule):
             text += (f"; the LEDs get {amps(q.current_when_saturated)} there instead of "
                      f"{amps(q.current.nom)} nominal")
         fix = self._fix(context, result, q, rail, values)
-        parts = (q.ref, *result.group.leds)
-        return Finding(rule=self.id, severity=context.severity(self), message=say(q.ref, text),
+        parts = (ref, *result.group.leds)
+        return Finding(rule=self.id, severity=context.severity(self), message=say(ref, text),
                        parts=parts, group=result.id, values=values, fix=fix)
 
     def _fix(self, context: Any, result: GroupResult, q: TransistorResult, rail: Rail,
              values: dict) -> str:
         string = max(result.group.strings, key=len)
-        vf = [result.led(ref).vf.max for ref in string]
+        base, refs = figures_of(result)
+        name = renamer(refs)
+        leds = {name(x.ref): x for x in base.leds}
+        vf = [leds[ref].vf.max for ref in string]
         vce_sat = q.vce_sat or 0.0
         v_emitter = q.rail_min - sum(vf) - vce_sat
         allowed = rail.min - sum(vf) - vce_sat
@@ -112,10 +122,11 @@ class SinkCompliance(Rule):
         others = [context.rails[n] for n in result.group.rails
                   if n in context.rails and n != q.headroom_rail and not context.rails[n].is_ground]
         reference = others[0] if others else reference_rail(context, rail)
+        transistor = bjt_data(context, renamer(figures_of(result)[1])(q.ref))
         design = sink_design(rail.min, vf_sum, q.current.nom, reference.nom,
                              v_rail_max=rail.max, reference_name=reference.name,
                              reference_tolerance=(reference.max - reference.min) / 2 / reference.nom,
-                             transistor=bjt_data(context, q.ref), resistor_tolerance=0.01)
+                             transistor=transistor, resistor_tolerance=0.01)
         if design is None or not design.regulates:
             return None
         values.update(fix_r_top_ohms=design.r_top, fix_r_bottom_ohms=design.r_bottom,

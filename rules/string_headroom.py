@@ -12,8 +12,8 @@ from linter.findings import Finding
 from linter.fixes import SinkDesign, rail_for_resistor
 from linter.partdata import Rail
 from linter.results import GroupResult, LedResult
-from linter.rulekit import (amps, at_corner, group_rail, ohms, sink_search, solved_groups, volts,
-                            watts)
+from linter.rulekit import (amps, at_corner, figures_of, group_rail, ohms, renamer, sink_search,
+                            solved_groups, volts, watts)
 from linter.rules import Rule, register
 from linter import fix_search
 
@@ -104,8 +104,7 @@ class StringHeadroom(Rule):
         _REFERENCES.clear()  # the board's rails are read afresh for each check
         swings: dict[int, tuple[GroupResult, Swing | None]] = {}
         for result in solved_groups(context):
-            setter = result.group.setter
-            if result.group.topology in SKIPPED or all(r.ref != setter for r in result.resistors):
+            if result.group.topology in SKIPPED or not _set_by_resistor(figures_of(result)[0]):
                 continue
             finding = self._group_finding(context, result, ratio, severity, swings)
             if finding is not None:
@@ -118,32 +117,38 @@ class StringHeadroom(Rule):
         """The group's finding, or None. ``swings`` (one check's: the same ``context``,
         ``limit`` and rule settings throughout) keeps each :class:`Swing` by the template
         result it was worked out for (see :meth:`_swing_of`); without it (the plain path)
-        the swing is worked out from the group's own figures."""
+        the swing is worked out from the group's own figures. A follower's records are not
+        read: its figures are its template's (:func:`~linter.rulekit.figures_of`), its
+        names its group's and the template's renamed by ``refs``."""
         swing = (self._swing(context, result, limit) if swings is None
                  else self._swing_of(context, result, limit, swings))
         if swing is None:
             return None
-        leds = result.leds
+        base, refs = figures_of(result)
+        name = renamer(refs)
+        leds = base.leds
         worst = leds[swing.worst]
-        ref = worst.ref
+        ref = name(worst.ref)
         group = result.group
         setter = group.setter
         string = next(s for s in group.strings if ref in s)
         label = ref if len(string) == 1 else f"{string[0]}–{string[-1]}"
         current = worst.current
-        text = (f"{label}: {swing.low} ({at_corner(current.at_min, result)}) to "
-                f"{swing.high} ({at_corner(current.at_max, result)}), {swing.middle}{setter}"
-                f"{swing.tail}")
+        text = (f"{label}: {swing.low} ({at_corner(current.at_min, result, (), refs)}) to "
+                f"{swing.high} ({at_corner(current.at_max, result, (), refs)}), "
+                f"{swing.middle}{setter}{swing.tail}")
         fix = None if swing.fix is None else swing.fix.text(setter)
         if severity is None:
             severity = context.severity(self)
+        # the swing's values are shared by the template's followers: no one changes them
         return Finding(rule=self.id, severity=severity, message=text,
-                       parts=(*(leds[i].ref for i in swing.swinging), setter),
-                       group=result.id, values=dict(swing.values), fix=fix)
+                       parts=(*(name(leds[i].ref) for i in swing.swinging), setter),
+                       group=result.id, values=swing.values, fix=fix)
 
     def _swing_of(self, context: Any, result: GroupResult, limit: float,
                   swings: dict[int, tuple[GroupResult, "Swing | None"]]) -> "Swing | None":
-        """:meth:`_swing` of ``result``, worked out once per template result.
+        """:meth:`_swing` of ``result``, worked out once per template result, from the
+        template's own records.
 
         A result renamed from a template's (``origin``, :mod:`linter.result_rename`) has
         the template's figures LED by LED, resistor by resistor, in the same order, and
@@ -157,7 +162,7 @@ class StringHeadroom(Rule):
         entry = swings.get(id(base))
         if entry is not None and entry[0] is base:
             return entry[1]
-        swing = self._swing(context, result, limit)
+        swing = self._swing(context, base, limit)
         swings[id(base)] = (base, swing)
         return swing
 
@@ -349,6 +354,12 @@ def fix_answer(question: FixQuestion) -> FixAnswer:
     before, marked, after = text.partition(_SETTER)
     return FixAnswer(before if marked else None, after if marked else text,
                      tuple(values.items()))
+
+
+def _set_by_resistor(result: GroupResult) -> bool:
+    """Whether the group's setter is one of its resistors (by the result's own records)."""
+    setter = result.group.setter
+    return any(r.ref == setter for r in result.resistors)
 
 
 def _ratio_text(ratio: float, limit: float) -> str:

@@ -9,7 +9,8 @@ from linter.dissipation import Allowance, over, semiconductor_allowance
 from linter.findings import Finding
 from linter.partdata import BjtData, MosfetData
 from linter.results import GroupResult, TransistorResult
-from linter.rulekit import (amps, at_corner, ohms, part_location, say, solved_groups, volts,
+from linter.rulekit import (PerTemplate, amps, at_corner, figures_of, ohms, part_location,
+                            renamer, say, solved_groups, volts,
                             watts)
 from linter.rules import Rule, register
 
@@ -58,49 +59,71 @@ class TransistorOverload(Rule):
         ambient = context.settings.ambient.max
         share = context.settings.derating.transistor_power
         seen: set[str] = set()
-        for result in solved_groups(context):
-            for transistor in result.transistors:
+
+        def rated(base: GroupResult) -> tuple:
+            """(transistor record, its allowance, whether over it, whether pd_max is
+            generic) of each transistor of a template with a pd_max, in order: figures and
+            part data (a follower's equal but for the note) only."""
+            out = []
+            for transistor in base.transistors:
                 data = context.part_data.get(transistor.ref)
-                if transistor.ref in seen or not isinstance(data, (BjtData, MosfetData)) \
-                        or data.pd_max is None:
+                if not isinstance(data, (BjtData, MosfetData)) or data.pd_max is None:
                     continue
-                seen.add(transistor.ref)
                 allowance = semiconductor_allowance(data.pd_max, ambient, share)
-                if over(transistor.power.max, allowance):
-                    generic = "pd_max" in data.assumed
-                    yield self._finding(context, result, transistor, allowance, generic)
+                out.append((transistor, allowance, over(transistor.power.max, allowance),
+                            "pd_max" in data.assumed))
+            return tuple(out)
+
+        verdicts = PerTemplate(rated)
+        for result in solved_groups(context):
+            name = renamer(figures_of(result)[1])
+            for transistor, allowance, is_over, generic in verdicts(result):
+                ref = name(transistor.ref)
+                if ref in seen:
+                    continue
+                seen.add(ref)
+                if is_over:
+                    yield self._finding(context, result, transistor, allowance, generic, ref)
 
     def _finding(self, context: Any, result: GroupResult, transistor: TransistorResult,
-                 allowance: Allowance, generic: bool) -> Finding:
+                 allowance: Allowance, generic: bool, ref: str | None = None) -> Finding:
+        """``transistor``: the record holding the figures (a follower's template's, see
+        :func:`~linter.rulekit.figures_of`); ``ref`` its name in ``result``'s group
+        (default: the record's)."""
+        refs = figures_of(result)[1] if ref is not None else None
+        ref = transistor.ref if ref is None else ref
         power = transistor.power
         drop = "Vds" if transistor.kind in ("nmos", "pmos") else "Vce"
         rating = allowance.describe("pd_max" + (" (generic figure)" if generic else ""))
-        message = say(transistor.ref,
-                      f"{watts(power.max)} at {at_corner(power.at_max, result)}, above the "
-                      f"{watts(allowance.allowed_w)} allowed ({rating}); {drop} up to "
+        message = say(ref,
+                      f"{watts(power.max)} at {at_corner(power.at_max, result, (), refs)}, "
+                      f"above the {watts(allowance.allowed_w)} allowed ({rating}); {drop} up to "
                       f"{volts(transistor.vce.max)} at up to {amps(transistor.current.max)}")
         values = {**allowance.values(power.max, power.nom),
                   "vce_max_v": transistor.vce.max, "current_max_a": transistor.current.max}
-        fix = _fix(context, result, transistor, allowance, values)
+        fix = _fix(context, result, transistor, allowance, values, ref)
         return Finding(rule=self.id, severity=context.severity(self), message=message,
-                       parts=(transistor.ref,), group=result.id, values=values, fix=fix,
-                       location=part_location(context, transistor.ref))
+                       parts=(ref,), group=result.id, values=values, fix=fix,
+                       location=part_location(context, ref))
 
 
 def _fix(context: Any, result: GroupResult, transistor: TransistorResult,
-         allowance: Allowance, values: dict) -> str:
+         allowance: Allowance, values: dict, ref: str | None = None) -> str:
+    """``ref``: the transistor's name in ``result``'s group (default: the record's)."""
+    ref = transistor.ref if ref is None else ref
     needed = allowance.rating_needed(transistor.power.max)
     if needed is None:
         return (f"no pd_max is left at {allowance.ambient_c:g} °C ambient: take the dissipation "
-                f"off {transistor.ref} (a series resistor or more LEDs in the string)")
+                f"off {ref} (a series resistor or more LEDs in the string)")
     values["fix_pd_max_w"] = needed
     text = f"use a transistor (package) with pd_max of at least {watts(needed)}"
-    collector = _collector_resistor(context, result, transistor, allowance, values)
+    collector = _collector_resistor(context, result, transistor, allowance, values, ref)
     return text if collector is None else f"{collector}; or {text}"
 
 
 def _collector_resistor(context: Any, result: GroupResult, transistor: TransistorResult,
-                        allowance: Allowance, values: dict) -> str | None:
+                        allowance: Allowance, values: dict,
+                        ref: str | None = None) -> str | None:
     """A series resistor at the collector of a regulating transistor, when the rail allows.
 
     While the transistor regulates, Ic is fixed and a resistor R at its collector lowers Vce
@@ -108,6 +131,7 @@ def _collector_resistor(context: Any, result: GroupResult, transistor: Transisto
     Ic ≥ P_max / Vce_max, so R = (P_max − P_allowed) / (P_max/Vce_max)² is enough (rounded
     up to E24, IEC 60063). The lowest rail that keeps it regulating rises by Ic_max·R.
     """
+    ref = transistor.ref if ref is None else ref
     if result.group.topology not in REGULATING or transistor.rail_min is None:
         return None
     power, vce = transistor.power.max, transistor.vce.max
@@ -121,7 +145,7 @@ def _collector_resistor(context: Any, result: GroupResult, transistor: Transisto
         return None
     values.update(fix_collector_ohms=ohms_needed, fix_rail_min_v=new_min)
     left = power - current_at_power ** 2 * ohms_needed
-    return (f"put {ohms(ohms_needed)} (E24) in series with the collector of {transistor.ref}: "
+    return (f"put {ohms(ohms_needed)} (E24) in series with the collector of {ref}: "
             f"it takes {volts(current_at_power * ohms_needed)} and leaves about "
-            f"{watts(max(left, 0.0))} in {transistor.ref}; {transistor.headroom_rail} may then "
+            f"{watts(max(left, 0.0))} in {ref}; {transistor.headroom_rail} may then "
             f"fall to {volts(new_min)} (minimum {volts(rail.min)})")

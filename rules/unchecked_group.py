@@ -6,7 +6,7 @@ from typing import Any, Iterable
 
 from linter.findings import Finding
 from linter.refs import fold_refs
-from linter.rulekit import part_location
+from linter.rulekit import figures_of, part_location, renamed_corner
 from linter.rules import Rule, register
 from linter.rules.floating_led import FLOATING_PHRASES
 
@@ -63,9 +63,11 @@ class UncheckedGroup(Rule):
             return f"drive path not recognised ({why}); current not checked"
         if result.status != "solved":
             return f"not solved ({result.reason or 'no reason recorded'}); current not checked"
-        if result.not_converged:
-            count = len(result.not_converged)
+        base, refs = figures_of(result)  # a follower's records are left unbuilt
+        if base.not_converged:
+            count = len(base.not_converged)
+            first = renamed_corner(base.not_converged[0], refs)
             return (f"the solver did not converge at {count} corner{'s' if count > 1 else ''} "
-                    f"(first: {result.not_converged[0].label()}); figures leave "
+                    f"(first: {first.label()}); figures leave "
                     f"{'them' if count > 1 else 'it'} out")
         return None
