@@ -37,6 +37,8 @@ from typing import Literal, Mapping
 
 import numpy as np
 
+from linter.records import record
+
 __all__ = ["AxisKind", "Axis", "FULL_PRODUCT_AXES", "NO_CHANGE_REL", "NO_CHANGE_ABS",
            "LEVEL_NAMES", "Levels", "Corner", "vertex_codes", "probe_codes", "worst_case_codes",
            "distinct_codes"]
@@ -62,7 +64,7 @@ LEVEL_NAMES: dict[str, dict[int, str]] = {
 """How each level is named in corner descriptions."""
 
 
-@dataclass(frozen=True)
+@record
 class Axis:
     """One independent parameter: ``kind`` and the part or rail it belongs to."""
 

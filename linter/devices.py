@@ -20,11 +20,11 @@ and white, from memory) Vf falls as the LED warms.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
 
 import numpy as np
 
 from linter.partdata import LedData
+from linter.records import record
 
 __all__ = [
     "T_REF_C",
@@ -94,7 +94,7 @@ def limited_exp(x: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
 
 # --- LED -----------------------------------------------------------------------------------
 
-@dataclass(frozen=True)
+@record
 class LedDefaults:
     """Generic Shockley figures for a colour: ideality n, series resistance rs (Ω),
     tempco (V/K). From memory, typical of small indicator LEDs."""
@@ -120,7 +120,7 @@ LED_DEFAULTS: dict[str, LedDefaults] = {
 """Colour → generic figures (from memory). Unknown colours use ``red``'s, and say so."""
 
 
-@dataclass(frozen=True)
+@record
 class LedCurve:
     """An LED's fitted curve V = n·Vt·ln(I/Is + 1) + I·Rs at 25 °C, with its Vf corners.
 

@@ -11,17 +11,17 @@ ambient maximum, the hottest the board is said to see.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
 
 from linter.fixes import derated_resistor_rating, derated_transistor_rating, derating_factor
 from linter.fixes_rating import (RESISTOR_FULL_RATING_UNTIL_C, RESISTOR_ZERO_RATING_AT_C,
                                  TRANSISTOR_FULL_RATING_UNTIL_C, TRANSISTOR_ZERO_RATING_AT_C)
+from linter.records import record
 from linter.units import format_si
 
 __all__ = ["Allowance", "resistor_allowance", "semiconductor_allowance", "over"]
 
 
-@dataclass(frozen=True)
+@record
 class Allowance:
     """A part's allowed worst-case dissipation.
 

@@ -10,8 +10,8 @@ worst-case dissipation may use.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
 
+from linter.records import record
 from linter.units import format_si
 
 __all__ = [
@@ -96,7 +96,7 @@ def derated_transistor_rating(pd_max_w: float, ambient_c: float,
     return pd_max_w * factor * share
 
 
-@dataclass(frozen=True)
+@record
 class RatingChoice:
     """A resistor package to buy for a worst-case dissipation.
 

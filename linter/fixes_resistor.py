@@ -10,10 +10,10 @@ variant takes the solver as a callable instead.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
 from typing import Callable
 
 from linter import eseries
+from linter.records import record
 from linter.units import format_si
 
 __all__ = [
@@ -40,7 +40,7 @@ _RATIO_SLACK = 1e-9
 """Relative margin (dimensionless) below which the swing limit counts as unreachable."""
 
 
-@dataclass(frozen=True)
+@record
 class ResistorChoice:
     """A standard resistor and the currents it gives (A); nom/min None when not computed."""
 
@@ -157,7 +157,7 @@ def resistor_for_current_solved(current: CurrentFunction, i_target_max: float, r
     return ResistorChoice(ohms, series, tolerance, i_max, i_nom, i_min)
 
 
-@dataclass(frozen=True)
+@record
 class PerLedFix:
     """Replace a shared resistor by ``count`` resistors, one per LED (or per string)."""
 

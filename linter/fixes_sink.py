@@ -15,7 +15,7 @@ from __future__ import annotations
 
 import itertools
 import math
-from dataclasses import dataclass, replace
+from dataclasses import replace
 from functools import lru_cache
 from typing import Iterable
 
@@ -23,6 +23,7 @@ import numpy as np
 
 from linter import eseries
 from linter.partdata import BjtData
+from linter.records import record
 from linter.units import format_si
 
 __all__ = ["GENERIC_NPN", "SinkDesign", "SinkSearch", "sink_design", "sink_search",
@@ -65,7 +66,7 @@ def rail_for_sink(vf_string_max: float, v_emitter: float, vce_sat: float) -> flo
     return vf_string_max + v_emitter + vce_sat
 
 
-@dataclass(frozen=True)
+@record
 class SinkDesign:
     """A designed NPN sink. Resistances in Ω, voltages in V, currents in A, powers in W.
 
@@ -275,7 +276,7 @@ def current_ratio(design: SinkDesign) -> float:
     return math.inf if not low > 0 else design.current_max_a / low
 
 
-@dataclass(frozen=True)
+@record
 class SinkSearch:
     """What :func:`sink_search` found: ``design`` the first sink tried whose swing
     (:func:`current_ratio`) is within the limit, or None; ``preferred`` the sink at the

@@ -8,8 +8,9 @@ datasheet); :mod:`linter.parts` names each use in the part's ``assumed`` and ``n
 from __future__ import annotations
 
 import re
-from dataclasses import dataclass
 from typing import Iterable
+
+from linter.records import record
 
 __all__ = [
     "GenericLed", "GENERIC_LEDS", "UNKNOWN_COLOR_LED", "LED_TEST_CURRENT", "LED_VR_MAX",
@@ -24,7 +25,7 @@ LED_VR_MAX = 5.0
 """V (from memory): the usual reverse-voltage rating of indicator LEDs."""
 
 
-@dataclass(frozen=True)
+@record
 class GenericLed:
     """Typical figures of one LED colour at 20 mA and 25 °C (from memory)."""
 

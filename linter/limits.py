@@ -36,17 +36,18 @@ import contextvars
 import os
 import re
 import stat
-from dataclasses import dataclass, fields, replace
+from dataclasses import fields, replace
 from pathlib import Path
 from typing import Iterator, Mapping
 
 from linter.errors import InputError
+from linter.records import record
 
 __all__ = ["Limits", "DEFAULTS", "ENVIRONMENT", "parse_limit", "from_environment", "effective",
            "active", "applied", "read_input"]
 
 
-@dataclass(frozen=True)
+@record
 class Limits:
     """The limits in force (see the module docstring for what each one bounds)."""
 

@@ -17,7 +17,7 @@ that extra rows can move it out of the way and find the current the sink would r
 from __future__ import annotations
 
 import functools
-from dataclasses import dataclass, field, replace
+from dataclasses import field, replace
 
 import numpy as np
 
@@ -27,6 +27,7 @@ from linter.devices import (VT_REF, LedCurve, bjt_is_from_vbe, led_curve,
 from linter.groups import Group
 from linter.model import Circuit, Part
 from linter.partdata import BjtData, LedData, McuData, MosfetData, PartDataMap, Rail, ResistorData
+from linter.records import record
 from linter.solve import Network
 from linter.unionfind import UnionFind
 
@@ -54,7 +55,7 @@ class ModelGap(ValueError):
     """A group cannot be modelled: a figure is missing with no generic value."""
 
 
-@dataclass(frozen=True)
+@record
 class ResistorSpec:
     """A resistor element: ``role`` part / rs (an LED's inner series R) / pin (output R)."""
 
@@ -68,7 +69,7 @@ class ResistorSpec:
     package: str | None = None
 
 
-@dataclass(frozen=True)
+@record
 class DiodeSpec:
     """An LED (``curve`` set) or plain diode (``i_s``, ``ideality``); ``anode``/``cathode``
     are the outer nodes (the LED's terminals), the element sits on the inner ones."""
@@ -84,7 +85,7 @@ class DiodeSpec:
     tempco: float = -0.002
 
 
-@dataclass(frozen=True)
+@record
 class BjtSpec:
     """A bipolar transistor element (nodes C, B, E) and its figures."""
 
@@ -100,7 +101,7 @@ class BjtSpec:
     data: BjtData
 
 
-@dataclass(frozen=True)
+@record
 class MosfetSpec:
     """A MOSFET element (nodes D, G, S), level-1 VTO (V, magnitude), KP (A/V²), λ (1/V)."""
 
@@ -113,7 +114,7 @@ class MosfetSpec:
     data: MosfetData
 
 
-@dataclass(frozen=True)
+@record
 class PinSpec:
     """A driven microcontroller pin: its source node, output resistor, supply."""
 
@@ -127,7 +128,7 @@ class PinSpec:
     current_max: float | None
 
 
-@dataclass(frozen=True)
+@record
 class FixedSpec:
     """A fixed node: ``rail`` (at its corner voltage), ``pin`` (pin source) or ``headroom``;
     ``name`` is its node key: ``("f", net)``, ``("pin", pin id)`` or ``("h", net)`` (tuples,
@@ -140,7 +141,7 @@ class FixedSpec:
     pin: int = -1
 
 
-@dataclass(frozen=True, eq=False)
+@record(eq=False)
 class GroupModel:
     """A group ready to solve; element lists are in the network's element order."""
 

@@ -7,10 +7,11 @@ A :class:`PartSpec` holds the figures one part number's table gives, already in 
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import field
 from typing import Any, Mapping
 
 from linter.model import SourceLocation
+from linter.records import record
 from linter.tomldoc import TomlDoc, suggestion, table_name
 
 __all__ = ["PartSpec", "PART_KEYS", "SPEC_KINDS", "LED_COLORS", "normal_color", "read_part_specs"]
@@ -57,7 +58,7 @@ def normal_color(text: str) -> str | None:
     return folded if folded in LED_COLORS else None
 
 
-@dataclass(frozen=True)
+@record
 class PartSpec:
     """One part number's data: its kind and figures (SI floats), and where it was written."""
 

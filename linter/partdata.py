@@ -10,8 +10,9 @@ sensible generic value exists the field is None and the consumer says it could n
 
 from __future__ import annotations
 
-from dataclasses import dataclass
 from typing import Literal, Mapping
+
+from linter.records import record
 
 __all__ = [
     "LedData",
@@ -31,7 +32,7 @@ LedColor = Literal[
 ]
 
 
-@dataclass(frozen=True)
+@record
 class LedData:
     """An LED's datasheet figures (25 °C unless said).
 
@@ -66,7 +67,7 @@ class LedData:
     note: str | None = None
 
 
-@dataclass(frozen=True)
+@record
 class BjtData:
     """A bipolar transistor: polarity, gain range (hfe at the operating current), Vbe at
     ``vbe_current`` (V, A), Vce_sat (V), ratings vce_max (V), ic_max (A), pd_max (W at 25 °C).
@@ -89,7 +90,7 @@ class BjtData:
     note: str | None = None
 
 
-@dataclass(frozen=True)
+@record
 class MosfetData:
     """A MOSFET used as a switch: threshold vgs_th (V), rds_on (Ω) at gate drive rds_on_vgs
     (V), ratings vds_max (V), id_max (A), pd_max (W at 25 °C). ``spice_vto`` (V) and
@@ -109,7 +110,7 @@ class MosfetData:
     note: str | None = None
 
 
-@dataclass(frozen=True)
+@record
 class McuData:
     """A microcontroller's output pins: each pin is the supply behind ``output_resistance``
     (Ω). pin_current_max and package_current_max in A; supply_pins / ground_pins name the
@@ -126,7 +127,7 @@ class McuData:
     note: str | None = None
 
 
-@dataclass(frozen=True)
+@record
 class ResistorData:
     """A resistor: ohms (Ω) as the analysis uses it, tolerance (fraction), power rating (W at
     70 °C, before derating), package (``0603``), and where the rating came from
@@ -146,7 +147,7 @@ class ResistorData:
 PartData = LedData | BjtData | MosfetData | McuData | ResistorData
 
 
-@dataclass(frozen=True)
+@record
 class Rail:
     """A net of known voltage: min, nom, max in V. ``inferred`` when read from the net's name
     rather than stated in the settings or a SPICE source; ``origin`` says where it came from."""
@@ -174,7 +175,7 @@ class Rail:
         return f"{self.nom:g} V ({self.min:g}–{self.max:g} V)"
 
 
-@dataclass(frozen=True)
+@record
 class Ambient:
     """Ambient temperature range in °C; datasheet figures are at ``reference`` (25 °C)."""
 

@@ -12,7 +12,6 @@ nominal — then the Vf-sensitivity row, then the headroom copies of the corners
 
 from __future__ import annotations
 
-from dataclasses import dataclass
 from typing import Any
 
 import numpy as np
@@ -20,6 +19,7 @@ import numpy as np
 from linter.corners import LEVEL_NAMES, Corner, Levels
 from linter.netbuild import GroupModel
 from linter.partdata import Ambient
+from linter.records import record
 from linter.reduce import _rails_by_name, _top_rail
 from linter.results import GroupResult, LedResult, PinResult, ResistorResult, Span, TransistorResult
 
@@ -28,7 +28,7 @@ __all__ = ["bucket_results"]
 _NAN = float("nan")
 
 
-@dataclass(frozen=True, eq=False)
+@record(eq=False)
 class _Spans:
     """Spans of k elements of every group: arrays (G, k); ``empty`` where no row counts."""
 

@@ -15,14 +15,14 @@ currents, so its conductance entries are those of the N device.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
-
 import numpy as np
+
+from linter.records import record
 
 __all__ = ["Scatter", "StampPlan", "junction_nodes"]
 
 
-@dataclass(frozen=True, eq=False)
+@record(eq=False)
 class Scatter:
     """Signed entries (column → target), sorted by target, every target present.
 
@@ -90,7 +90,7 @@ def _mosfet_entries(nodes: np.ndarray, f_first: int, j_first: int, mm: int, f: l
             j.append((c, row, column, float(sign)))
 
 
-@dataclass(frozen=True, eq=False)
+@record(eq=False)
 class StampPlan:
     """The residual and Jacobian scatters of one network."""
 

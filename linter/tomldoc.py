@@ -11,11 +11,11 @@ from __future__ import annotations
 
 import math
 import re
-from dataclasses import dataclass
 from typing import Any, Iterable, NoReturn
 
 from linter.errors import InputError
 from linter.model import SourceLocation
+from linter.records import record
 from linter.tomlpos import KeyLocator, KeyPath
 from linter.units import ValueParseError, parse_number, parse_quantity
 
@@ -49,7 +49,7 @@ def suggestion(word: str, choices: Iterable[str]) -> str:
     return f"; did you mean {close[0]!r}?" if close else ""
 
 
-@dataclass(frozen=True)
+@record
 class TomlDoc:
     """One decoded TOML file and how to point at its keys."""
 

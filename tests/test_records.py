@@ -37,7 +37,7 @@ def _package_records() -> list[type]:
         if not name.startswith("linter"):
             continue
         for value in vars(module).values():
-            init = getattr(value, "__init__", None)
+            init = getattr(value, "__dict__", {}).get("__init__")   # its own, not a base's
             if (isinstance(value, type) and dataclasses.is_dataclass(value)
                     and getattr(getattr(init, "__code__", None), "co_filename", None)
                     == records.__file__):

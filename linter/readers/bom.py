@@ -27,6 +27,7 @@ from typing import Iterator
 from linter.errors import BomError
 from linter.model import SourceLocation
 from linter.readers import decode_text
+from linter.records import record
 
 __all__ = ["BomLine", "Bom", "COLUMN_ALIASES", "read_bom", "parse_bom", "expand_references"]
 
@@ -55,7 +56,7 @@ _MAX_REFERENCE_DIGITS = 18
 """Digits a range's numbers may have (read as integers only below Python's conversion limit)."""
 
 
-@dataclass(frozen=True)
+@record
 class BomLine:
     """One row of the BOM: the references it lists and what it says about them.
 
@@ -82,7 +83,7 @@ class BomLine:
         return SourceLocation(self.source, self.line, self.column)
 
 
-@dataclass(frozen=True)
+@record
 class Bom:
     """A read BOM: its rows in file order and the fields its header provides."""
 

@@ -13,10 +13,11 @@ builds every member catch a member without a branch.
 from __future__ import annotations
 
 from abc import ABC, abstractmethod
-from dataclasses import dataclass
 from enum import Enum
 from pathlib import Path
 from typing import TYPE_CHECKING, assert_never
+
+from linter.records import record
 
 if TYPE_CHECKING:
     from linter.engine import CheckResult
@@ -24,7 +25,7 @@ if TYPE_CHECKING:
 __all__ = ["Reporter", "ReportFormat", "ReportOptions"]
 
 
-@dataclass(frozen=True)
+@record
 class ReportOptions:
     """How a report is asked for; each format uses what means something to it.
 

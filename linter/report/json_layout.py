@@ -16,8 +16,9 @@ from __future__ import annotations
 
 import json
 import math
-from dataclasses import dataclass
 from typing import Any, Iterable, Iterator
+
+from linter.records import record
 
 __all__ = ["Lines", "INDENT", "layered_chunks", "compact_json", "plain_json"]
 
@@ -55,7 +56,7 @@ def plain_json(data: Any) -> str:
         return compact_json(plain_data(data))
 
 
-@dataclass(frozen=True)
+@record
 class Lines:
     """A JSON array given as the texts of its entries, written one entry a line."""
 
