@@ -58,36 +58,74 @@ def folded_specs(specs: Mapping[str, PartSpec]) -> dict[str, PartSpec]:
 
 
 def resolve_part_data(circuit: Circuit, settings: "Settings") -> tuple[Circuit, dict[str, PartData]]:
-    """A Circuit with kinds and part numbers from part data applied, and part data by ref."""
-    parts = dict(circuit.parts)
+    """A Circuit with kinds and part numbers from part data applied, and part data by ref.
+
+    Everything but the note is worked out once per *reading*: the part's kind, value and its
+    reading, part number, cell, properties mapping and model (everything :func:`find_spec`
+    and the records read but the reference and, for a microcontroller, the pins); a record
+    whose note names the part is renamed for each. :func:`resolve_part_data_plain` is the
+    same, part by part.
+    """
+    parts: dict[str, Part] | None = None
     data: dict[str, PartData] = {}
     folded = folded_specs(settings.parts)
-    leds: dict[tuple, tuple[LedData, str | None]] = {}
-    resistors: dict[tuple, tuple[ResistorData, str | None]] = {}
+    readings: dict[tuple, tuple[PartSpec | None, str, str | None, PartData | None, str | None]] = {}
+    tolerance = settings.assume.resistor_tolerance
     for ref, part in circuit.parts.items():
-        spec = find_spec(part, settings.parts, folded)
-        if spec is not None:
-            number = part.part_number or spec.part_number
-            if part.kind != spec.kind or part.part_number != number:
-                part = replace(part, kind=spec.kind, part_number=number,
-                               location=stored_location(part))  # (packed or not, as read)
-                parts[ref] = part
-        record = _record(part, spec, settings, leds, resistors)
-        if record is not None:
-            data[ref] = record
-    return replace(circuit, parts=parts), data
+        properties, model = part.properties, part.model
+        key = (part.kind, part.value, part.value_si, part.part_number, part.cell,
+               id(properties) if properties else 0, id(model))
+        reading = readings.get(key)
+        if reading is None:
+            reading = readings[key] = _reading(part, settings, folded, tolerance)
+        spec, kind, number, record, note = reading
+        if kind != part.kind or number != part.part_number:
+            part = replace(part, kind=kind, part_number=number,
+                           location=stored_location(part))  # (packed or not, as read)
+            if parts is None:
+                parts = dict(circuit.parts)
+            parts[ref] = part
+        if record is None:
+            if kind == "mcu":  # (its record reads the pins: made for each)
+                data[ref] = _mcu_data(part, spec)
+            continue
+        data[ref] = record if note is None else _renamed(record, f"{ref}: {note}")
+    return replace(circuit, parts=circuit.parts if parts is None else parts), data
 
 
-def _record(part: Part, spec: PartSpec | None, settings: "Settings",
-            leds: dict[tuple, tuple[LedData, str | None]],
-            resistors: dict[tuple, tuple[ResistorData, str | None]] | None = None,
-            ) -> PartData | None:
+def _reading(part: Part, settings: "Settings", folded: Mapping[str, PartSpec], tolerance: float,
+             ) -> tuple[PartSpec | None, str, str | None, PartData | None, str | None]:
+    """For one reading (see :func:`resolve_part_data`): the part data found, the kind and part
+    number the part then has, its record (None for a microcontroller or a kind without one),
+    and the record's note without the part's name (None when the note does not name it)."""
+    spec = find_spec(part, settings.parts, folded)
+    kind, number = part.kind, part.part_number
+    if spec is not None:
+        number = part.part_number or spec.part_number
+        if part.kind != spec.kind or part.part_number != number:
+            part = replace(part, kind=spec.kind, part_number=number)
+            kind = part.kind
+    if kind == "mcu":
+        return spec, kind, number, None, None
+    record = _plain_record(part, spec, tolerance)
+    note = getattr(record, "note", None)
+    prefix = f"{part.ref}: "
+    if note is None or not note.startswith(prefix):
+        return spec, kind, number, record, None
+    return spec, kind, number, record, note[len(prefix):]
+
+
+def _renamed(record: PartData, note: str) -> PartData:
+    """``dataclasses.replace(record, note=note)``."""
+    return replace(record, note=note)
+
+
+def _plain_record(part: Part, spec: PartSpec | None, default_tolerance: float) -> PartData | None:
+    """The part's record, made for it alone (no sharing)."""
     if part.kind == "led":
-        return _shared_led_data(part, spec, leds)
+        return led_data(part, spec)
     if part.kind == "resistor":
-        if resistors is None:
-            return resistor_data(part, spec, settings.assume.resistor_tolerance)
-        return _shared_resistor_data(part, spec, settings.assume.resistor_tolerance, resistors)
+        return resistor_data(part, spec, default_tolerance)
     if part.kind in ("npn", "pnp"):
         return _bjt_data(part, spec)
     if part.kind in ("nmos", "pmos"):
@@ -97,36 +135,21 @@ def _record(part: Part, spec: PartSpec | None, settings: "Settings",
     return None
 
 
-def _shared_led_data(part: Part, spec: PartSpec | None,
-                     known: dict[tuple, tuple[LedData, str | None]]) -> LedData:
-    """:func:`led_data`, worked out once for every LED with the same part data, texts and
-    model; only the note, which names the part, is made for each (``known`` keeps the
-    records and their notes without the reference)."""
-    key = (id(spec), part.properties.get("color"), part.value, part.part_number,
-           part.properties.get("description"), part.cell, part.model)
-    found = known.get(key)
-    if found is None:
-        record = led_data(part, spec)
-        known[key] = (record, record.note.removeprefix(f"{part.ref}: ") if record.note else None)
-        return record
-    record, note = found
-    return record if note is None else replace(record, note=f"{part.ref}: {note}")
-
-
-def _shared_resistor_data(part: Part, spec: PartSpec | None, default_tolerance: float,
-                          known: dict[tuple, tuple[ResistorData, str | None]]) -> ResistorData:
-    """:func:`resistor_data`, worked out once for every resistor with the same part data,
-    value and BOM facts (everything it reads but the reference, which only the note names)."""
-    properties = part.properties
-    key = (id(spec), part.value_si, part.value, part.part_number, properties.get("tolerance"),
-           properties.get("package"), properties.get("footprint"), properties.get("power"))
-    found = known.get(key)
-    if found is None:
-        record = resistor_data(part, spec, default_tolerance)
-        known[key] = (record, record.note.removeprefix(f"{part.ref}: ") if record.note else None)
-        return record
-    record, note = found
-    return record if note is None else replace(record, note=f"{part.ref}: {note}")
+def resolve_part_data_plain(circuit: Circuit, settings: "Settings",
+                            ) -> tuple[Circuit, dict[str, PartData]]:
+    """:func:`resolve_part_data` part by part, nothing shared: the reference for its tests."""
+    parts = dict(circuit.parts)
+    data: dict[str, PartData] = {}
+    for ref, part in circuit.parts.items():
+        spec = find_spec(part, settings.parts)
+        if spec is not None:
+            number = part.part_number or spec.part_number
+            if part.kind != spec.kind or part.part_number != number:
+                part = parts[ref] = replace(part, kind=spec.kind, part_number=number)
+        record = _plain_record(part, spec, settings.assume.resistor_tolerance)
+        if record is not None:
+            data[ref] = record
+    return replace(circuit, parts=parts), data
 
 
 def _model_params(part: Part) -> Mapping[str, float]:
