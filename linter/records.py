@@ -10,7 +10,8 @@ field names and sets ``__dataclass_params__`` to what ``dataclass(frozen=True, e
 records. What the methods do is the generated methods' behaviour, rule for rule:
 
 * ``__init__(self, <fields in order>)``: positional or keyword, defaults and default
-  factories, each field stored with ``object.__setattr__``, then ``__post_init__()`` if the
+  factories, the fields stored in order (into the instance's dictionary, where
+  ``object.__setattr__`` puts them, or through the slots), then ``__post_init__()`` if the
   class has one; the same signature for :func:`inspect.signature`;
 * ``__repr__``: ``Qualname(field=repr, …)`` over the fields with ``repr=True``, ``...`` for a
   recursive reference;
@@ -133,33 +134,47 @@ def _init(cls: type, fields: tuple[dataclasses.Field, ...]) -> Callable:
         elif f.default is not dataclasses.MISSING:
             defaults[f.name] = f.default
     post_init = hasattr(cls, "__post_init__")
-    store = object.__setattr__
     title = f"{cls.__qualname__}.__init__()"
 
-    def __init__(self: Any, *args: Any, **kwargs: Any) -> None:
+    def complete(args: tuple, kwargs: dict) -> tuple | list:
+        """Every field's value in order: the arguments, then the defaults and factories."""
         given = len(args)
         if given > count:
             raise TypeError(f"{title} takes {count + 1} positional arguments but "
                             f"{given + 1} were given")
-        for name, value in zip(names, args):
-            store(self, name, value)
-        if given < count or kwargs:
-            for name in names[given:]:
-                if name in kwargs:
-                    value = kwargs.pop(name)
-                elif name in defaults:
-                    value = defaults[name]
-                elif name in factories:
-                    value = factories[name]()
-                else:
-                    raise TypeError(f"{title} missing 1 required argument: {name!r}")
-                store(self, name, value)
-            for name in kwargs:
-                if name in names:
-                    raise TypeError(f"{title} got multiple values for argument {name!r}")
-                raise TypeError(f"{title} got an unexpected keyword argument {name!r}")
-        if post_init:
-            self.__post_init__()
+        values = list(args)
+        for name in names[given:]:
+            if name in kwargs:
+                values.append(kwargs.pop(name))
+            elif name in defaults:
+                values.append(defaults[name])
+            elif name in factories:
+                values.append(factories[name]())
+            else:
+                raise TypeError(f"{title} missing 1 required argument: {name!r}")
+        for name in kwargs:
+            if name in names:
+                raise TypeError(f"{title} got multiple values for argument {name!r}")
+            raise TypeError(f"{title} got an unexpected keyword argument {name!r}")
+        return values
+
+    if "__slots__" in cls.__dict__:   # each field stored through its slot (a frozen class's
+        setters = tuple(cls.__dict__[name].__set__ for name in names)   # setattr refuses)
+
+        def __init__(self: Any, *args: Any, **kwargs: Any) -> None:
+            if kwargs or len(args) != count:
+                args = complete(args, kwargs)
+            for setter, value in zip(setters, args):
+                setter(self, value)
+            if post_init:
+                self.__post_init__()
+    else:   # the fields go into the instance's dictionary in order, as object.__setattr__ puts them
+        def __init__(self: Any, *args: Any, **kwargs: Any) -> None:
+            if kwargs or len(args) != count:
+                args = complete(args, kwargs)
+            self.__dict__.update(zip(names, args))
+            if post_init:
+                self.__post_init__()
 
     parameter = inspect.Parameter
     __init__.__signature__ = inspect.Signature(  # type: ignore[attr-defined]
