@@ -24,13 +24,16 @@ def severity_rank(severity: str) -> int:
     return {"info": 0, "warning": 1, "error": 2}[severity]
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Finding:
     """A rule's verdict.
 
     ``values`` are SI floats keyed by name (``current_max_a``); ``fix`` is a concrete,
     computed remedy in one sentence, or None where none can be computed. The fingerprint is
     built from rule, parts and nets, never from line numbers, so it survives unrelated edits.
+
+    ``values`` is read-only: findings of identical channels may share one mapping (a
+    board's many findings are kept until the report; slots keep each small too).
     """
 
     rule: str

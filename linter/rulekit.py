@@ -19,7 +19,7 @@ from linter.units import format_si
 __all__ = ["part_location", "solved_groups", "group_rail", "led_data", "resistor_data", "bjt_data",
            "corner_phrase", "at_corner", "amps", "volts", "ohms", "watts", "say", "memoised",
            "sink_design", "sink_search", "forget_board", "figures_of", "renamer", "PerTemplate",
-           "renamed_corner"]
+           "renamed_corner", "nameless_at_corner"]
 
 
 def part_location(context: Any, ref: str) -> Any:
@@ -213,6 +213,15 @@ _PACK_FLOAT = struct.Struct("<d").pack
 _PHRASES_KEPT = 4096
 """Corner phrases kept (all dropped when full)."""
 _PHRASES: dict[tuple, tuple[Any, str]] = {}
+
+
+def nameless_at_corner(corner: Corner | None, result: Any) -> str | None:
+    """:func:`at_corner` of ``corner`` (no focus) when its words name no part (its LEDs
+    share one bin, or it has none): then the same for every follower of ``result`` (they
+    share its rail and its corners' rails, bins and ambient); else None."""
+    if corner is not None and _phrase_key(corner, getattr(result, "rail", None)) is None:
+        return None
+    return at_corner(corner, result)
 
 
 def figures_of(result: Any) -> tuple[Any, Any]:

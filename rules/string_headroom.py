@@ -12,8 +12,8 @@ from linter.findings import Finding
 from linter.fixes import SinkDesign, rail_for_resistor
 from linter.partdata import Rail
 from linter.results import GroupResult, LedResult
-from linter.rulekit import (amps, at_corner, figures_of, group_rail, ohms, renamer, sink_search,
-                            solved_groups, volts, watts)
+from linter.rulekit import (amps, at_corner, figures_of, group_rail, nameless_at_corner, ohms,
+                            renamer, sink_search, solved_groups, volts, watts)
 from linter.rules import Rule, register
 from linter import fix_search
 
@@ -134,8 +134,12 @@ class StringHeadroom(Rule):
         string = next(s for s in group.strings if ref in s)
         label = ref if len(string) == 1 else f"{string[0]}–{string[-1]}"
         current = worst.current
-        text = (f"{label}: {swing.low} ({at_corner(current.at_min, result, (), refs)}) to "
-                f"{swing.high} ({at_corner(current.at_max, result, (), refs)}), "
+        low_at, high_at = swing.low_at, swing.high_at
+        if low_at is None:
+            low_at = at_corner(current.at_min, result, (), refs)
+        if high_at is None:
+            high_at = at_corner(current.at_max, result, (), refs)
+        text = (f"{label}: {swing.low} ({low_at}) to {swing.high} ({high_at}), "
                 f"{swing.middle}{setter}{swing.tail}")
         fix = None if swing.fix is None else swing.fix.text(setter)
         if severity is None:
@@ -196,7 +200,8 @@ class StringHeadroom(Rule):
         if fix is not None:
             values.update(fix.values)
         return Swing(tuple(swinging), worst_index, amps(worst.current.min),
-                     amps(worst.current.max),
+                     amps(worst.current.max), nameless_at_corner(worst.current.at_min, result),
+                     nameless_at_corner(worst.current.at_max, result),
                      f"{_ratio_text(ratio, limit)}× (limit {limit:g}×) on ", f"{head}{slope}",
                      values, fix)
 
@@ -289,7 +294,8 @@ class FixAnswer:
 class Swing:
     """What a group's finding says that names no part: the positions (in the result's
     LEDs) of the swinging LEDs and of the worst, the texts of its lowest and highest
-    current, the text from the ratio to just before the setter's name (``middle``) and
+    current and of their corners (``low_at``, ``high_at``; None where the words name
+    LEDs: each group names its own), the text from the ratio to just before the setter's name (``middle``) and
     after it (``tail``: headroom and slope), the finding's values in order, and its fix
     (None when the group's rail is unknown)."""
 
@@ -297,6 +303,8 @@ class Swing:
     worst: int
     low: str
     high: str
+    low_at: str | None
+    high_at: str | None
     middle: str
     tail: str
     values: dict

@@ -1,0 +1,64 @@
+"""rulekit's helpers for reading a follower through its template.
+
+Expected values: a follower's own corner (the template's corner with its part names
+renamed, as linter.result_rename makes it) through the plain ``at_corner`` and
+``Corner.label`` — the plain path of our own code. Corners and names invented.
+"""
+
+from __future__ import annotations
+
+from types import SimpleNamespace
+
+from linter import rulekit
+from linter.corners import Corner, Levels
+
+RAILS = {"+12V": ("max", 13.2), "+5V": ("nom", 5.0)}
+
+
+def _corner(names, bins, ambient=40.0, beta=None, resistors=None):
+    return Corner("on", RAILS, ambient, Levels(tuple(names), tuple(bins)),
+                  beta or {}, resistors or {})
+
+
+def test_at_corner_through_refs_names_the_followers_leds_in_the_template_order():
+    refs = {"D7": "D19", "D8": "D22", "D9": "D20", "R3": "R40", "Q1": "Q12"}
+    result = SimpleNamespace(rail="+12V")
+    cases = [(("vf_min", "vf_max", "vf_max"), ("D19",)), (("vf_min", "vf_max", "vf_max"), ()),
+             (("vf_min", "vf_max", "vf_typ"), ("D22",)), (("vf_max",) * 3, ("D19",))]
+    for bins, focus in cases:
+        template = _corner(("D7", "D8", "D9"), bins)
+        own = _corner(("D19", "D22", "D20"), bins)  # the follower's corner
+        assert rulekit.at_corner(template, result, focus, refs) == \
+            rulekit.at_corner(own, result, focus)
+        named = len(set(bins)) > 1
+        assert (rulekit.nameless_at_corner(template, result) is None) == named
+        if not named:
+            assert rulekit.nameless_at_corner(template, result) == \
+                rulekit.at_corner(own, result, focus)
+    template = _corner(("D7", "D8"), ("vf_min", "vf_max"), beta={"Q1": "hfe_min"},
+                       resistors={"R3": "low"})
+    own = _corner(("D19", "D22"), ("vf_min", "vf_max"), beta={"Q12": "hfe_min"},
+                  resistors={"R40": "low"})
+    assert rulekit.renamed_corner(template, refs).label() == own.label()
+    assert rulekit.renamed_corner(template, None) is template
+    assert rulekit.nameless_at_corner(None, result) == rulekit.at_corner(None, result)
+
+
+def test_figures_of_and_renamer():
+    plain = SimpleNamespace(origin=None)
+    assert rulekit.figures_of(plain) == (plain, None)
+    assert rulekit.renamer(None)("D1") == "D1"
+    template = SimpleNamespace(origin=None)
+    follower = SimpleNamespace(origin=(template, {"D1": "D9"}))
+    assert rulekit.figures_of(follower) == (template, {"D1": "D9"})
+    assert rulekit.renamer({"D1": "D9"})("D1") == "D9"
+
+
+def test_per_template_works_once_per_template():
+    calls = []
+    memo = rulekit.PerTemplate(lambda base: calls.append(base) or len(calls))
+    template = SimpleNamespace(origin=None)
+    followers = [SimpleNamespace(origin=(template, {})) for _ in range(3)]
+    assert [memo(r) for r in (template, *followers)] == [1, 1, 1, 1]
+    other = SimpleNamespace(origin=None)
+    assert memo(other) == 2 and calls == [template, other]
