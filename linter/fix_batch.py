@@ -22,8 +22,8 @@ from typing import Any, Callable, Iterator, Mapping, Sequence
 from linter.netbuild import ModelGap, build_model
 from linter.results import GroupResult
 
-__all__ = ["Overlay", "solve_variants", "solve_circuits", "solve_resistor_values", "SeriesWalk",
-           "FIRST_WINDOW", "MAX_WINDOW"]
+__all__ = ["Overlay", "solve_variants", "solve_circuits", "solve_resistor_values",
+           "resistor_models", "SeriesWalk", "FIRST_WINDOW", "MAX_WINDOW"]
 
 FIRST_WINDOW = (2, 8)
 """Values solved with the first one asked: (below it, above it) along the walk. Most walks
@@ -154,11 +154,58 @@ def solve_circuits(context: Any, problems: Sequence[tuple[Any, Mapping[str, Any]
 def solve_resistor_values(context: Any, result: GroupResult, ref: str,
                           values: Sequence[float]) -> list[GroupResult]:
     """The group solved with resistor ``ref`` at each of ``values`` (Ω), in one batch; the
-    same results as :func:`linter.fix_search.with_resistor` value by value."""
+    same results as :func:`linter.fix_search.with_resistor` value by value.
+
+    The models come from :func:`resistor_models` (one built, the others that one with the
+    resistor's value changed); when it declines, every model is built
+    (:func:`solve_variants`)."""
     from linter.fix_search import resistor_record
 
-    return solve_variants(context, result,
-                          [({ref: resistor_record(context, ref, ohms)}, {}) for ohms in values])
+    variants = [({ref: resistor_record(context, ref, ohms)}, {}) for ohms in values]
+    models = resistor_models(context, result, ref, [data[ref] for data, _ in variants])
+    if models is None:
+        return solve_variants(context, result, variants)
+    answers: list = [None] * len(models)
+    _solve_buckets(list(enumerate(models)), answers, context.settings.ambient)
+    return answers
+
+
+def resistor_models(context: Any, result: GroupResult, ref: str,
+                    records: Sequence[Any]) -> list | None:
+    """The models of ``result``'s group with resistor ``ref``'s part data replaced by each
+    of ``records`` (records that differ in ``ohms`` alone): the first built by
+    :func:`linter.netbuild.build_model`, each other one that model with the resistor's
+    ``ohms`` replaced, which is all the builder reads differently from such a record (the
+    resistor's value goes into its element, nowhere else: not into the structure
+    signature, the notes or the axes). None, for the plain path (every model built), when
+    a record differs otherwise, a value would not build (not above 0 Ω) or the first model
+    does not build or does not hold ``ref`` as one part resistor.
+    ``tests/test_fix_batch_models.py`` compares both field by field.
+    """
+    from dataclasses import replace
+
+    if not records:
+        return None
+    first = records[0]
+    if any(not (record.ohms > 0) or replace(record, ohms=first.ohms) != first
+           for record in records):
+        return None
+    rail_map = dict(context.rails)
+    try:
+        model = build_model(result.group, context.circuit,
+                            Overlay(context.part_data, {ref: first}), rail_map)
+    except ModelGap:
+        return None
+    places = [i for i, spec in enumerate(model.resistors) if spec.ref == ref]
+    if len(places) != 1 or model.resistors[places[0]].role != "part":
+        return None
+    place = places[0]
+    models = [model]
+    for record in records[1:]:
+        resistors = list(model.resistors)
+        resistors[place] = replace(resistors[place], ohms=float(record.ohms))
+        models.append(replace(model, resistors=tuple(resistors)))
+    return models
 
 
 Step = Callable[[float], float]
