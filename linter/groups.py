@@ -4,12 +4,19 @@ A group is the small DC network that sets the current of one or more LEDs: the L
 series and shunt parts around them, the transistor or pin that drives them, and the rails
 at its edge. Topology finds groups in a Circuit; the analysis builds one network per group
 and solves it at every corner; rules read the solved groups.
+
+A large board has tens of thousands of groups, so :class:`Group`, :class:`Scenario` and
+:class:`PinDrive` keep their fields in slots (no dictionary per record) and their
+``__init__`` is written out, storing each field through the class's slot descriptor (as
+:mod:`linter.model` does for its records): about twice as fast as the generated one. Fields,
+defaults, equality, hashing, repr, immutability, pickling and :func:`dataclasses.replace`
+are the dataclass's own (``tests/test_topology_records.py``).
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from typing import Literal, Mapping
+from typing import Any, Callable, Literal, Mapping
 
 __all__ = ["TOPOLOGIES", "Topology", "PinDrive", "Scenario", "Group"]
 
@@ -32,8 +39,27 @@ Topology = Literal[
 
 TOPOLOGIES: tuple[str, ...] = Topology.__args__  # type: ignore[attr-defined]
 
+_TOPOLOGY_SET: frozenset[str] = frozenset(TOPOLOGIES)
 
-@dataclass(frozen=True)
+
+class _NewDict:
+    """Default of a field whose default is a new empty dict (dataclasses' own ``<factory>``)."""
+
+    __slots__ = ()
+
+    def __repr__(self) -> str:
+        return "<factory>"
+
+
+_NEW_DICT: Any = _NewDict()
+
+
+def _slot_setters(cls: type, *names: str) -> tuple[Callable[[Any, Any], None], ...]:
+    """The ``__set__`` of each named slot of ``cls``: stores a field even on a frozen instance."""
+    return tuple(cls.__dict__[name].__set__ for name in names)
+
+
+@dataclass(frozen=True, slots=True, init=False)
 class PinDrive:
     """A microcontroller output pin inside a group: ``part`` ``pin`` on ``net``.
 
@@ -46,13 +72,23 @@ class PinDrive:
     net: str
     supply: str | None = None
 
+    def __init__(self, part: str, pin: str, net: str, supply: str | None = None) -> None:
+        _set_pin_part(self, part)
+        _set_pin_pin(self, pin)
+        _set_pin_net(self, net)
+        _set_pin_supply(self, supply)
+
     @property
     def id(self) -> str:
         """``U1.PA4``: how pins are named in reports."""
         return f"{self.part}.{self.pin}"
 
 
-@dataclass(frozen=True)
+_set_pin_part, _set_pin_pin, _set_pin_net, _set_pin_supply = _slot_setters(
+    PinDrive, "part", "pin", "net", "supply")
+
+
+@dataclass(frozen=True, slots=True, init=False)
 class Scenario:
     """One state of the pins that drive a group, and the LEDs meant to be lit in it.
 
@@ -65,8 +101,20 @@ class Scenario:
     levels: Mapping[str, Literal["high", "low"]] = field(default_factory=dict, hash=False)
     lit: tuple[str, ...] | None = None
 
+    def __init__(self, name: str, levels: Mapping[str, Literal["high", "low"]] = _NEW_DICT,
+                 lit: tuple[str, ...] | None = None) -> None:
+        _set_scenario_name(self, name)
+        _set_scenario_levels(self, {} if levels is _NEW_DICT else levels)
+        _set_scenario_lit(self, lit)
 
-@dataclass(frozen=True)
+
+_set_scenario_name, _set_scenario_levels, _set_scenario_lit = _slot_setters(
+    Scenario, "name", "levels", "lit")
+_ON: tuple[Scenario, ...] = (Scenario("on"),)
+"""The default scenarios of a Group (one tuple, as the generated ``__init__`` shares it)."""
+
+
+@dataclass(frozen=True, slots=True, init=False)
 class Group:
     """One LED group.
 
@@ -113,13 +161,41 @@ class Group:
     rails: tuple[str, ...]
     setter: str | None = None
     pins: tuple[PinDrive, ...] = ()
-    scenarios: tuple[Scenario, ...] = (Scenario("on"),)
+    scenarios: tuple[Scenario, ...] = _ON
     reason: str | None = None
     transistor: str | None = None
     drive: str | None = None
 
-    def __post_init__(self) -> None:
-        if self.topology not in TOPOLOGIES:
-            raise ValueError(f"group {self.id}: unknown topology {self.topology!r}")
-        if not self.scenarios:
-            raise ValueError(f"group {self.id}: needs at least one scenario")
+    def __init__(self, id: str, topology: str, leds: tuple[str, ...],  # noqa: A002 (field)
+                 strings: tuple[tuple[str, ...], ...], parts: tuple[str, ...],
+                 nets: tuple[str, ...], rails: tuple[str, ...], setter: str | None = None,
+                 pins: tuple[PinDrive, ...] = (), scenarios: tuple[Scenario, ...] = _ON,
+                 reason: str | None = None, transistor: str | None = None,
+                 drive: str | None = None) -> None:
+        try:
+            known = topology in _TOPOLOGY_SET
+        except TypeError:  # (an unhashable value: not a topology either)
+            known = False
+        if not known:
+            raise ValueError(f"group {id}: unknown topology {topology!r}")
+        if not scenarios:
+            raise ValueError(f"group {id}: needs at least one scenario")
+        _set_id(self, id)
+        _set_topology(self, topology)
+        _set_leds(self, leds)
+        _set_strings(self, strings)
+        _set_parts(self, parts)
+        _set_nets(self, nets)
+        _set_rails(self, rails)
+        _set_setter(self, setter)
+        _set_pins(self, pins)
+        _set_scenarios(self, scenarios)
+        _set_reason(self, reason)
+        _set_transistor(self, transistor)
+        _set_drive(self, drive)
+
+
+(_set_id, _set_topology, _set_leds, _set_strings, _set_parts, _set_nets, _set_rails,
+ _set_setter, _set_pins, _set_scenarios, _set_reason, _set_transistor, _set_drive) = \
+    _slot_setters(Group, "id", "topology", "leds", "strings", "parts", "nets", "rails",
+                  "setter", "pins", "scenarios", "reason", "transistor", "drive")

@@ -19,6 +19,7 @@ RANGE_DASH = "\u2013"
 MIN_RUN = 3
 """The shortest run of consecutive designators that is folded into a range."""
 
+_ASCII_DIGITS = "0123456789"
 _CHUNKS = re.compile(r"(\d+)")
 _SPLIT = _CHUNKS.split
 _LETTERS_NUMBER = re.compile(r"(\D*)(\d+)").fullmatch
@@ -30,13 +31,20 @@ def natural_key(ref: str) -> tuple[tuple[str | tuple[int, str], ...], str]:
 
     A digit run is compared by its length without leading zeros, then its digits: the order
     of the numbers, without converting them (a run of thousands of digits is no error). The
-    common designator (letters, then one number) is read with one match; a name with one or
-    two numbers elsewhere from its split without a loop; any other name in one loop over its
-    chunks (the same key each way: ``tests/test_refs_key.py``).
+    common designator (letters, then ASCII digits) is read with two string methods (letters
+    are never digits, so what ``rstrip`` leaves is the text before the only digit run); other
+    names with one number at the end with one match; a name with one or two numbers elsewhere
+    from its split without a loop; any other name in one loop over its chunks (the same key
+    each way: ``tests/test_refs_key.py``).
 
     >>> sorted(["D10", "D2", "d1", "R1"], key=natural_key)
     ['d1', 'D2', 'D10', 'R1']
     """
+    letters = ref.rstrip(_ASCII_DIGITS)
+    if letters.isalpha() and len(letters) < len(ref):  # letters (no digit among them), digits
+        digits = ref[len(letters):]
+        significant = digits.lstrip("0")
+        return (letters.casefold(), (len(significant), significant), ""), ref
     simple = _LETTERS_NUMBER(ref)
     if simple is not None:
         prefix, digits = simple.groups()

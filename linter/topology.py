@@ -32,6 +32,8 @@ other transistors (one divider biasing several sinks) belongs to each of their g
 
 from __future__ import annotations
 
+from itertools import compress, repeat
+from operator import attrgetter, eq
 from typing import Mapping
 
 from linter.gc_pause import paused_gc
@@ -47,6 +49,9 @@ from linter.topology_transistor import classify_transistor
 from linter.topology_walk import Cluster, grow_cluster
 
 __all__ = ["find_groups"]
+
+_KIND_OF = attrgetter("kind")
+_REF_OF = attrgetter("ref")
 
 
 def find_groups(circuit: Circuit, rails: Mapping[str, Rail],
@@ -89,10 +94,12 @@ def _groups(circuit: Circuit, rails: Mapping[str, Rail],
 
 
 def _groups_with(index: CircuitIndex, circuit: Circuit, quick: bool) -> tuple[Group, ...]:
-    leds = [part.ref for part in circuit.parts.values() if part.kind == "led"]  # (Circuit.leds)
-    order = {ref: position for position, ref in enumerate(leds)}  # netlist order of the LEDs
+    parts = circuit.parts  # the LEDs, as Circuit.leds picks them, by built-in maps:
+    leds = list(map(_REF_OF, compress(parts.values(),
+                                      map(eq, map(_KIND_OF, parts.values()), repeat("led")))))
+    order = dict(zip(leds, range(len(leds))))  # netlist order of the LEDs
     ranked = sorted(leds, key=natural_key)  # (keys made here and let go of: not cached)
-    index.led_rank = {ref: position for position, ref in enumerate(ranked)}
+    index.led_rank = dict(zip(ranked, range(len(ranked))))
     placed: set[str] = set()
     groups: list[Group] = []
     for led in ranked:

@@ -23,6 +23,8 @@ Capacitors are open at DC: their pins are left out of every net.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from itertools import compress
+from operator import attrgetter
 from typing import Any, Callable, Literal, Mapping
 
 from linter.model import Circuit, Part, Pin
@@ -88,6 +90,25 @@ class NetSplit:
 
 
 _NO_CONTROLS: frozenset[str] = frozenset()
+
+_KIND_OF = attrgetter("kind")
+_PINS_OF = attrgetter("pins")
+
+
+def role_of(kind: str, pin_count: int) -> Role:
+    """How a walk treats a part of ``kind`` with ``pin_count`` pins."""
+    if kind in SERIES_KINDS:
+        return "series" if pin_count == 2 else "foreign"
+    return _ROLE_BY_KIND.get(kind, "foreign")
+
+
+class _RoleTable(dict):
+    """(kind, pin count) → :func:`role_of`, filled on first use (a board has a few dozen
+    pairs: the roles of all its parts are then one built-in map)."""
+
+    def __missing__(self, pair: tuple[str, int]) -> Role:
+        role = self[pair] = role_of(*pair)
+        return role
 
 
 """Digit runs (as :mod:`linter.refs` splits designators)."""
@@ -156,6 +177,8 @@ class CircuitIndex:
         self.led_rank: dict[str, int] = {}  # LED → its place in natural order (set by topology)
         self._rail_keys = {net: natural_key(net) for net in rails}
         self._rail_tuples: dict[tuple[str, ...], tuple[str, ...]] = {}
+        self.walk_tables = (rails, circuit.nets, self._roles, circuit.parts, self.series_pins)
+        """What a chain walk reads at each step: rails, nets, roles, parts, series_pins."""
 
     def natural_sorted(self, names: set[str] | list[str]) -> list[str]:
         """``names`` (no repeats) in natural order, as ``sorted(names, key=natural_key)``.
@@ -191,6 +214,7 @@ class CircuitIndex:
         self._supplies.clear()
         self._rail_tuples.clear()
         self._from_parts = None
+        self.walk_tables = ()
 
     # -- parts -------------------------------------------------------------------------
     def part(self, ref: str) -> Part:
@@ -198,10 +222,21 @@ class CircuitIndex:
         return self.circuit.parts[ref]
 
     def _all_kinds(self) -> dict[str, str]:
-        """Every part's kind, with part data applied (one pass: a few dictionary operations
-        a part cost less than filling a cache part by part)."""
-        kinds = {ref: part.kind for ref, part in self.circuit.parts.items()}
-        for ref, data in self.part_data.items():
+        """Every part's kind, with part data applied.
+
+        Made by built-in maps over the parts (no Python-level step a part); the part data
+        are walked only where their type can change a kind (transistor or microcontroller
+        data), picked by :func:`itertools.compress` over the records' types.
+        """
+        parts = self.circuit.parts
+        kinds = dict(zip(parts, map(_KIND_OF, parts.values())))
+        records = self.part_data
+        types = set(map(type, records.values()))
+        telling = {kind for kind in types if issubclass(kind, (BjtData, MosfetData, McuData))}
+        if not telling:
+            return kinds
+        picked = compress(records.items(), map(telling.__contains__, map(type, records.values())))
+        for ref, data in picked:
             kind = kinds.get(ref)
             if kind is None:
                 continue
@@ -212,11 +247,11 @@ class CircuitIndex:
         return kinds
 
     def _all_roles(self) -> dict[str, Role]:
-        """Every part's role, from its kind and its pin count."""
-        kinds, by_kind = self._kinds, _ROLE_BY_KIND
-        return {ref: (("series" if len(part.pins) == 2 else "foreign")
-                      if (kind := kinds[ref]) in SERIES_KINDS else by_kind.get(kind, "foreign"))
-                for ref, part in self.circuit.parts.items()}
+        """Every part's role, from its kind and its pin count (:class:`_RoleTable`), by
+        built-in maps over the parts."""
+        parts = self.circuit.parts
+        counts = map(len, map(_PINS_OF, parts.values()))
+        return dict(zip(parts, map(_RoleTable().__getitem__, zip(self._kinds.values(), counts))))
 
     # -- nets --------------------------------------------------------------------------
     def _pins_on(self, net: str) -> tuple[tuple[str, str], ...]:

@@ -101,8 +101,8 @@ def quick_group(index: CircuitIndex, led: str, order: Mapping[str, int],
         return None  # (both ends on one net: the general path says why)
     rails = index.rails
     found: list[PinDrive] = []
-    start_done = _end_pins(index, start, rails, found)
-    end_done = _end_pins(index, end, rails, found)
+    start_done = start in rails or _end_pins(index, start, rails, found)  # (rails: no call)
+    end_done = end in rails or _end_pins(index, end, rails, found)
     if not (start_done and end_done):
         if found or start_done == end_done:
             return None

@@ -81,15 +81,14 @@ def terminal_word(index: CircuitIndex, ref: str, role: str) -> str:
     return words[role]
 
 
-def _extend(index: CircuitIndex, ref: str, pin: Pin, seen: set[str]) -> tuple[list[str], list]:
-    """Parts and nets beyond ``ref``'s ``pin`` while the nets are series nodes."""
+def _extend(tables: tuple, ref: str, pin: Pin, seen: set[str]) -> tuple[list[str], list]:
+    """Parts and nets beyond ``ref``'s ``pin`` while the nets are series nodes
+    (``tables``: :attr:`CircuitIndex.walk_tables`)."""
     parts: list[str] = []
-    nets: list[str | None] = []
-    series_pins, all_parts = index.series_pins, index.circuit.parts
-    rails, declared_nets, roles = index.rails, index.circuit.nets, index.roles
+    nets: list[str | None] = [pin.net]
+    rails, declared_nets, roles, all_parts, series_pins = tables
     while True:
         net = pin.net
-        nets.append(net)
         if net is None or net in rails:
             return parts, nets
         # the common series node (a listed net of two series pins) as series_pins answers it
@@ -103,15 +102,16 @@ def _extend(index: CircuitIndex, ref: str, pin: Pin, seen: set[str]) -> tuple[li
                 return parts, nets
         (ref_a, pin_a), (ref_b, pin_b) = pair
         if ref_a == ref and pin_a == pin.name:
-            following, following_pin = ref_b, pin_b
+            ref, following_pin = ref_b, pin_b
         else:
-            following, following_pin = ref_a, pin_a
-        if following in seen:
+            ref, following_pin = ref_a, pin_a
+        if ref in seen:
             return parts, nets
-        seen.add(following)
-        parts.append(following)
-        first, second = all_parts[following].pins  # (series parts have two pins)
-        ref, pin = following, (second if first.name == following_pin else first)
+        seen.add(ref)
+        parts.append(ref)
+        first, second = all_parts[ref].pins  # (series parts have two pins)
+        pin = second if first.name == following_pin else first
+        nets.append(pin.net)
 
 
 def walk_chain(index: CircuitIndex, start: str) -> Chain:
@@ -121,10 +121,11 @@ def walk_chain(index: CircuitIndex, start: str) -> Chain:
     is ``Chain(parts=("R1", "D1"), nets=("+5V", "A1", "GND"))`` (or its reverse, depending on
     the pin order of ``start``).
     """
-    first, second = index.circuit.parts[start].pins
+    tables = index.walk_tables
+    first, second = tables[3][start].pins
     seen = {start}
-    ahead_parts, ahead_nets = _extend(index, start, second, seen)
-    back_parts, back_nets = _extend(index, start, first, seen)
+    ahead_parts, ahead_nets = _extend(tables, start, second, seen)
+    back_parts, back_nets = _extend(tables, start, first, seen)
     back_parts.reverse()
     back_parts.append(start)
     back_parts += ahead_parts
