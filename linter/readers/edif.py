@@ -104,16 +104,15 @@ def _circuit(doc: Document) -> Circuit:
     del edif
     places = _locations(doc, [leaf.instance.form for leaf in leaves] +
                         [wire.form for _, wire in ordered])  # one pass
-    maker = _PartMaker(flat, net_names, doc)
-    parts = _parts(leaves, refs, places, maker)
-    nets = _nets(maker.joined, chosen, net_names, flat, doc, ordered, places[len(refs):])
+    parts = _parts(leaves, refs, places, flat, net_names, doc)
+    nets = _nets(parts, chosen, net_names, flat, doc, ordered, places[len(refs):])
     return Circuit(source=source, format="edif", parts=parts, nets=nets, design=design)
 
 
-def _parts(leaves: list[Leaf], refs: list[str], places: list[SourceLocation],
-           maker: "_PartMaker") -> dict[str, Part]:
+def _parts(leaves: list[Leaf], refs: list[str], places: list[SourceLocation], flat: FlatDesign,
+           net_names: dict[int, str], doc: Document) -> dict[str, Part]:
     """Parts by reference; each leaf is let go of once its part is made."""
-    make = maker.part
+    make = _PartMaker(flat, net_names, doc).part
     parts = {}
     for index, (ref, place) in enumerate(zip(refs, places)):
         parts[ref] = make(leaves[index], ref, place)
@@ -259,8 +258,6 @@ class _PartMaker:
         self.pins: dict[tuple[str, str | None], Pin] = {}
         self.names: dict[int, tuple[str, ...]] = {}
         self.kept: list[object] = []  # what the ids above name, kept alive: ids stay unique
-        self.joined: dict[str, list[tuple[str, str]]] = {name: [] for name in net_names.values()}
-        """(ref, pin name) pairs of each net, in part order and pin order, as parts are made."""
 
     def part(self, leaf: Leaf, ref: str, location: SourceLocation) -> Part:
         key = (id(leaf.cell), id(leaf.view), id(leaf.instance.properties))
@@ -284,16 +281,15 @@ class _PartMaker:
         if reading[1]:
             raise self.doc.error(leaf.instance.form, f"{ref}: {reading[1]}")
         path = "/".join(leaf.names) if leaf.parents else leaf.instance.name.display
-        return Part(ref, kind, value, self.pins_of(leaf, ref), location, reading[0], path, cell,
+        return Part(ref, kind, value, self.pins_of(leaf), location, reading[0], path, cell,
                     fields.part_number, fields.properties)
 
-    def pins_of(self, leaf: Leaf, ref: str) -> tuple[Pin, ...]:
-        """The leaf's pins; each pin on a net listed under it in :attr:`joined` as (ref, pin)."""
+    def pins_of(self, leaf: Leaf) -> tuple[Pin, ...]:
         names = self.names.get(id(leaf.view))
         if names is None:
             names = self.names[id(leaf.view)] = tuple(name for _, _, name in pin_names(leaf.view))
             self.kept.append(leaf.view)
-        parent, net_names, known, joined = self.flat.parent, self.net_names, self.pins, self.joined
+        parent, net_names, known = self.flat.parent, self.net_names, self.pins
         pins = []
         for node, name in enumerate(names, leaf.pins):
             while parent[node] != node:  # the root, halving the path on the way
@@ -303,8 +299,6 @@ class _PartMaker:
             if pin is None:
                 pin = known[(name, net)] = Pin(name, net)
             pins.append(pin)
-            if net is not None:
-                joined[net].append((ref, name))
         return tuple(pins)
 
 
@@ -333,12 +327,16 @@ def _ohms(kind: str, value: str | None) -> float | None:
         return None
 
 
-def _nets(joined: dict[str, list[tuple[str, str]]], chosen: dict[int, NetWire],
-          names: dict[int, str], flat: FlatDesign, doc: Document,
-          ordered: list[tuple[int, NetWire]], places: list[SourceLocation]) -> dict[str, Net]:
+def _nets(parts: dict[str, Part], chosen: dict[int, NetWire], names: dict[int, str],
+          flat: FlatDesign, doc: Document, ordered: list[tuple[int, NetWire]],
+          places: list[SourceLocation]) -> dict[str, Net]:
     """Nets in declaration order (``ordered``: the chosen wires by order, ``places``: where
-    each was declared; ``joined``: each net's (ref, pin) pairs, :attr:`_PartMaker.joined`);
-    refuses a net with fewer than two connections."""
+    each was declared); refuses a net with fewer than two connections."""
+    joined: dict[str, list[tuple[str, str]]] = {name: [] for name in names.values()}
+    for ref, part in parts.items():
+        for pin in part.pins:
+            if pin.net is not None:
+                joined[pin.net].append((ref, pin.name))
     outside = Counter(names.get(flat.find(node))  # the top cell's own ports are nodes 0, 1...
                       for node in range(len(pin_names(flat.top_view))))
     aliases: dict[int, dict[str, None]] = {}  # insertion-ordered sets: a ground net merges
