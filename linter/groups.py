@@ -18,7 +18,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any, Callable, Literal, Mapping
 
-__all__ = ["TOPOLOGIES", "Topology", "PinDrive", "Scenario", "Group"]
+__all__ = ["TOPOLOGIES", "Topology", "PinDrive", "Scenario", "Group", "NO_LEVELS"]
 
 Topology = Literal[
     "resistor",          # one LED and its own resistor from a rail
@@ -107,6 +107,27 @@ class Scenario:
         _set_scenario_levels(self, {} if levels is _NEW_DICT else levels)
         _set_scenario_lit(self, lit)
 
+
+class _NoLevels(dict):
+    """An empty ``levels`` that refuses to be filled: one shared by every scenario without pin
+    levels (a board has tens of thousands of them; a dict each was 64 bytes). It is a dict
+    (equal to ``{}``, printed, pickled and written to JSON as one), so nothing reading
+    levels sees a difference; any change raises TypeError."""
+
+    __slots__ = ()
+
+    def _refuse(self, *args: object, **kwargs: object) -> None:
+        raise TypeError("NO_LEVELS is shared and cannot change")
+
+    __setitem__ = __delitem__ = __ior__ = _refuse  # type: ignore[assignment]
+    clear = pop = popitem = setdefault = update = _refuse  # type: ignore[assignment]
+
+    def __reduce__(self) -> tuple:
+        return (dict, ())  # (a copy or a pickle is a plain empty dict)
+
+
+NO_LEVELS: Mapping[str, Literal["high", "low"]] = _NoLevels()
+"""The shared empty ``levels`` of :class:`Scenario` (see :class:`_NoLevels`)."""
 
 _set_scenario_name, _set_scenario_levels, _set_scenario_lit = _slot_setters(
     Scenario, "name", "levels", "lit")

@@ -37,7 +37,7 @@ from operator import attrgetter, eq
 from typing import Mapping
 
 from linter.gc_pause import paused_gc
-from linter.groups import Group, Scenario
+from linter.groups import NO_LEVELS, Group, Scenario
 from linter.model import Circuit
 from linter.partdata import PartData, Rail
 from linter.refs import natural_key
@@ -168,7 +168,8 @@ def _classify_rails(draft: Draft, bank: Bank, top: Rail, bottom: Rail) -> Group:
                                   f"({bank.top}, {bank.bottom})")
     if top.nom < bottom.nom:
         setter = bank.shared[0] if bank.shared else None
-        return draft.group("reversed", setter=setter, scenarios=(Scenario("on", {}, ()),),
+        return draft.group("reversed", setter=setter,
+                           scenarios=(Scenario("on", NO_LEVELS, ()),),
                            reason=f"anode side on {bank.top} ({top}), cathode side on "
                                   f"{bank.bottom} ({bottom})")
     single = "resistor" if len(bank.strings[0].leds) == 1 else "string"

@@ -7,7 +7,7 @@ strings by their first LED).
 
 from __future__ import annotations
 
-from linter.groups import Group, PinDrive, Scenario
+from linter.groups import NO_LEVELS, Group, PinDrive, Scenario
 from linter.refs import natural_key
 from linter.topology_index import CircuitIndex
 from linter.topology_shape import Bank, Strand
@@ -67,7 +67,8 @@ class Draft:
         return Group(
             f"G-{first}", topology, leds, self.strings(), tuple(sorted(parts, key=natural_key)),
             tuple(sorted_nets), index.rails_among(sorted_nets),
-            setter, pins, scenarios or (Scenario("on", {}, leds),), reason, transistor, drive)
+            setter, pins, scenarios or (Scenario("on", NO_LEVELS, leds),), reason, transistor,
+            drive)
 
     def unrecognised(self, reason: str) -> Group:
         return self.group("unrecognised", reason=reason)

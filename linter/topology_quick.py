@@ -26,7 +26,7 @@ from __future__ import annotations
 
 from typing import Mapping
 
-from linter.groups import Group, PinDrive, Scenario
+from linter.groups import NO_LEVELS, Group, PinDrive, Scenario
 from linter.refs import natural_key
 from linter.topology_index import CircuitIndex
 from linter.topology_draft import resistor_label
@@ -126,7 +126,7 @@ def quick_group(index: CircuitIndex, led: str, order: Mapping[str, int],
         if top_rail.nom <= bottom_rail.nom:
             return None  # (same voltage or reversed: the general path)
         label = "resistor" if len(strand.leds) == 1 else "string"
-        scenario = Scenario("on", {}, leds_t)
+        scenario = Scenario("on", NO_LEVELS, leds_t)
     elif top_rail is None and bottom_rail is not None and bottom_rail.nom <= 0.0:
         label, level, pin_net = "pin-source", "high", top
     elif bottom_rail is None and top_rail is not None and top_rail.nom > 0.0:
@@ -249,7 +249,7 @@ def _through_transistor(index: CircuitIndex, chain: Chain, c_net: str,
             setter, reason = None, f"nothing but {ref} limits the current"
     leds_t = _unplaced(leds, strand.leds, order, placed)
     level = "high" if low else "low"
-    scenario = Scenario("on", {pin.id: level for pin in control.pins}, leds_t)
+    scenario = Scenario("on", {pin.id: level for pin in control.pins} or NO_LEVELS, leds_t)
     reason = "; ".join([text for text in [reason, *control.notes] if text]) or None
     pins_t = _sorted_pins(control.pins)
     parts = set(control.parts)
@@ -328,4 +328,4 @@ def _bank_on_node(index: CircuitIndex, chain: Chain, node: str, order: Mapping[s
     first = min(leds_t, key=rank.__getitem__) if len(leds_t) > 1 else leds_t[0]
     return Group(f"G-{first}", label, leds_t, strings, tuple(sorted(seen, key=natural_key)),
                  tuple(sorted_nets), index.rails_among(sorted_nets), setter, (),
-                 (Scenario("on", {}, leds_t),), reason, None, None)
+                 (Scenario("on", NO_LEVELS, leds_t),), reason, None, None)

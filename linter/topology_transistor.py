@@ -10,7 +10,7 @@ The base or gate network (:func:`linter.topology_walk.walk_control`) joins the g
 
 from __future__ import annotations
 
-from linter.groups import Group, Scenario
+from linter.groups import NO_LEVELS, Group, Scenario
 from linter.topology_draft import Draft, resistor_label
 from linter.topology_index import CircuitIndex
 from linter.topology_shape import Bank, NotABank, Strand, find_bank
@@ -141,7 +141,8 @@ def classify_transistor(draft: Draft, ref: str) -> Group:
     if label == "unrecognised":
         return draft.unrecognised(reason or "")
     level = "high" if low else "low"
-    scenario = Scenario("on", {pin.id: level for pin in control.pins}, draft.leds)
+    scenario = Scenario("on", {pin.id: level for pin in control.pins} or NO_LEVELS,
+                        draft.leds)
     reason = "; ".join([text for text in [reason, *control.notes] if text]) or None
     return draft.group(label, setter=setter, scenarios=(scenario,), reason=reason,
                        transistor=ref, drive=control.drive)

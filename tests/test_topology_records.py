@@ -116,3 +116,27 @@ def test_group_refuses_what_its_plain_twin_refuses() -> None:
         group.id = "G-y"  # type: ignore[misc]
     assert not hasattr(group, "__dict__")  # slots: no dictionary per group
     assert not hasattr(Scenario("on"), "__dict__") and not hasattr(PinDrive("", "", ""), "__dict__")
+
+
+def test_shared_empty_levels_read_as_an_empty_dict() -> None:
+    import json
+
+    from linter.groups import NO_LEVELS
+    # what a reader of levels sees is what an empty dict gives (the plain value, ``{}``)
+    assert NO_LEVELS == {} and isinstance(NO_LEVELS, dict) and not NO_LEVELS
+    assert repr(NO_LEVELS) == repr({}) and json.dumps(NO_LEVELS) == json.dumps({})
+    assert NO_LEVELS.get("U1.PA0") is None and list(NO_LEVELS.items()) == []
+    assert Scenario("on", NO_LEVELS, ("D1",)) == Scenario("on", {}, ("D1",))
+    assert _text(Scenario("on", NO_LEVELS)) == _text(_PlainScenario("on", {}))
+    for copied in (pickle.loads(pickle.dumps(NO_LEVELS)), copy.copy(NO_LEVELS),
+                   copy.deepcopy(NO_LEVELS), NO_LEVELS | {}, NO_LEVELS.copy()):
+        assert type(copied) is dict and copied == {}
+    for change in (lambda m: m.__setitem__("x", "high"), lambda m: m.update(x="high"),
+                   lambda m: m.setdefault("x", "high"), lambda m: m.pop("x"),
+                   lambda m: m.popitem(), lambda m: m.clear(), lambda m: m.__delitem__("x")):
+        with pytest.raises(TypeError):
+            change(NO_LEVELS)
+    with pytest.raises(TypeError):
+        levels = NO_LEVELS
+        levels |= {"x": "high"}
+    assert NO_LEVELS == {}
