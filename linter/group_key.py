@@ -2,7 +2,8 @@
 
 :func:`group_key` lists everything :func:`linter.netbuild.build_model` and the reduction read
 about a group, with its part references and its plain net names replaced by their order of
-first appearance (rail nets stay as they are, with their :class:`~linter.partdata.Rail`).
+first appearance (rail nets stay as they are, with their :class:`~linter.partdata.Rail`'s
+fields as a tuple, which hashes without calling Python code).
 Two groups with equal keys build isomorphic models: the same network, figures, axes and
 scenarios, differing only in those names; their results differ only in the names, which
 :mod:`linter.result_rename` puts back.
@@ -63,7 +64,7 @@ class _Encoder:
             return None
         rail = self.rails.get(net)
         if rail is not None:
-            return ("r", net, rail)
+            return ("r", net, self.data(rail))
         found = self.nets.get(net)
         if found is None:
             found = self.nets[net] = len(self.nets)
@@ -80,6 +81,8 @@ class DataKeys:
         self.kept: list[Any] = []
         self.interned: dict[Any, Any] = {}
         self.supplies: dict[tuple[int, int], tuple[Any, tuple[tuple[str, str | None], ...]]] = {}
+        self._rails: Mapping[str, Rail] | None = None
+        self._rail_codes: dict[str | None, Any] = {}
 
     def supply_pins(self, part: Part, data: Any) -> tuple[tuple[str, str | None], ...]:
         """(name, net) of the pins of microcontroller ``part`` that ``data`` (its part data,
@@ -105,6 +108,17 @@ class DataKeys:
             found = self.by_id[id(data)] = made
             self.kept.append(data)
         return found
+
+    def rail_codes(self, rails: Mapping[str, Rail]) -> dict[str | None, Any]:
+        """A new dict coding None as None and each rail net ``name`` as ``("r", name,
+        key(rail))``; the first one made for a ``rails`` mapping is kept (by identity,
+        with the mapping) and copied for the next calls."""
+        if self._rails is not rails:
+            self._rails = rails
+            self._rail_codes = {None: None, **{
+                name: ("r", name, self.key(rail)) for name, rail in rails.items()
+                if rail is not None}}
+        return dict(self._rail_codes)
 
 
 _MISSING = object()
@@ -187,46 +201,48 @@ def group_key(group: Group, circuit: Circuit, part_data: PartDataMap,
     ``refs`` the group's part references in their order in the key.
 
     ``data_keys``, kept across the calls of one analysis, reads each part data record
-    once and finds each microcontroller's supply pins once. The same key as
-    :func:`group_key_plain` (tests/test_analysis_memo.py compares them on the demo and on
-    generated boards), with the encoder's steps written in line."""
+    and each rail once and finds each microcontroller's supply pins once; a group's net
+    codes start from a copy of the rail nets' codes, plain nets numbered after them. The
+    same key as :func:`group_key_plain` (tests/test_analysis_memo.py compares them on the
+    demo and on generated boards), with the encoder's steps written in line."""
     keys = DataKeys() if data_keys is None else data_keys
     data_key = keys.key
+    known_data = keys.by_id.get
     parts_get = circuit.parts.get
     data_get = part_data.get
-    rail_get = rails.get
-    refs: dict[str, int] = {}
-    for ref in group.parts:
-        if ref not in refs:
-            refs[ref] = len(refs)
-    codes: dict[str | None, Any] = {None: None}
-    plain = 0
-
-    def net(name: str | None) -> Any:
-        nonlocal plain
-        found = codes.get(name, _MISSING)
-        if found is _MISSING:
-            rail = rail_get(name)
-            if rail is not None:
-                found = codes[name] = ("r", name, rail)
-            else:
-                found = codes[name] = plain
-                plain += 1
-        return found
+    refs = {ref: index for index, ref in enumerate(dict.fromkeys(group.parts))}
+    codes = keys.rail_codes(rails)   # None and every rail net coded; plain nets numbered
+    base = len(codes)
 
     def part_key(ref: str) -> tuple:
         part = parts_get(ref)
         if part is None:
             return _MISSING_PART
         kind = part.kind
-        if kind in _JOINING:
-            return (kind, tuple([net(p.net) for p in part.pins]))
-        if kind not in _ADDERS:
+        joining = kind in _JOINING
+        if not joining and kind not in _ADDERS:
             return (kind,)
+        pins = []
+        for pin in part.pins:
+            name = pin.net
+            code = codes.get(name, _MISSING)
+            if code is _MISSING:
+                code = codes[name] = len(codes) - base
+            pins.append((pin.name, code))
+        if joining:
+            return (kind, tuple([code for _, code in pins]))
         model = part.model
+        data = data_get(ref)
+        code = known_data(id(data), _MISSING)
         return (kind, part.value_si, part.part_number,
                 tuple(model.params.items()) if model is not None else None,
-                tuple([(p.name, net(p.net)) for p in part.pins]), data_key(data_get(ref)))
+                tuple(pins), data_key(data) if code is _MISSING else code)
+
+    def net(name: str | None) -> Any:
+        code = codes.get(name, _MISSING)
+        if code is _MISSING:
+            code = codes[name] = len(codes) - base
+        return code
 
     inside = [part_key(ref) for ref in group.parts]
     outside = []

@@ -27,6 +27,7 @@ from linter.model import DeviceModel, Pin
 from linter.netbuild import build_model
 from linter.partdata import BjtData, LedData, McuData, MosfetData, Rail, ResistorData
 from linter.solve_memo import _DATA_FIELDS, electrical_keys, representatives
+from linter.results import GroupResult
 from linter.topology import find_groups
 
 ROOT = Path(__file__).resolve().parent.parent
@@ -53,7 +54,8 @@ def _plain(x):
     if isinstance(x, Group):
         return x
     if dataclasses.is_dataclass(x):  # compared fields only (``origin`` says how it was made)
-        return (type(x).__name__,
+        # a follower's lazily built result is a GroupResult subclass (result_rename)
+        return ("GroupResult" if isinstance(x, GroupResult) else type(x).__name__,
                 {f.name: _plain(getattr(x, f.name)) for f in dataclasses.fields(x) if f.compare})
     if hasattr(x, "items"):
         return ("map", [(k, _plain(v)) for k, v in x.items()])   # key order counts too
@@ -367,3 +369,16 @@ def test_followers_name_their_template(tmp_path: Path) -> None:
     plain = analysis.analyse(groups, context.circuit, context.part_data, context.rails,
                              context.settings.ambient, memoise=False)
     assert all(r.origin is None for r in plain)
+
+
+def test_group_key_with_one_data_keys_across_rails_mappings() -> None:
+    # the rail nets' codes are kept per rails mapping (by identity): a DataKeys used with
+    # another mapping, and back, gives the plain key of each (reference: group_key_plain)
+    groups, c, data, rails = _channels(2)
+    other = {**rails, "V5": Rail("V5", 5.1, 4.75, 5.25)}
+    shared = DataKeys()
+    for table in (rails, other, rails, other):
+        for group in groups:
+            assert group_key(group, c, data, table, shared) == group_key_plain(group, c, data, table)
+    assert (group_key(groups[0], c, data, rails, shared)[0]
+            != group_key(groups[0], c, data, other, shared)[0])
