@@ -62,7 +62,7 @@ class Cluster:
     seen: set[str] = field(default_factory=set)
 
 
-@dataclass
+@dataclass(slots=True)
 class Control:
     """A transistor's base or gate network and how it drives the transistor."""
 
@@ -268,27 +268,30 @@ def walk_control(index: CircuitIndex, transistor: str, net: str | None,
     if net is None:
         control.problems.append(f"{transistor}: {word} is not connected")
         return control
+    rails, split, supply_net = index.rails, index.split, index.supply_net
+    nets, parts = control.nets, control.parts
     queue: deque[str] = deque([net])
     visited = {net}
     while queue:
         here = queue.popleft()
-        control.nets.append(here)
-        if here in index.rails:
+        nets.append(here)
+        if here in rails:
             control.rails.append(here)
             continue
         if here in path_nets:
             control.problems.append(f"{transistor}: {word} network reaches net {here} of the "
                                     f"LED path (feedback is not recognised)")
             continue
-        pins = _mcu_pins(index, here)
-        if pins:
-            control.pins.extend(pins)
+        pins_here = split(here)
+        if pins_here.mcu:  # (as _mcu_pins gives them)
+            control.pins.extend([PinDrive(ref, pin, here, supply_net(ref))
+                                 for ref, pin in pins_here.mcu])
             continue
-        for following in _control_step(index, control, transistor, here):
+        for following in _control_step(index, control, transistor, here, pins_here):
             if following not in visited:
                 visited.add(following)
                 queue.append(following)
-        if len(control.parts) > MAX_CONTROL_PARTS:
+        if len(parts) > MAX_CONTROL_PARTS:
             control.problems.append(f"{transistor}: {word} network has more than "
                                     f"{MAX_CONTROL_PARTS} parts")
             break
@@ -296,19 +299,26 @@ def walk_control(index: CircuitIndex, transistor: str, net: str | None,
     return control
 
 
-def _control_step(index: CircuitIndex, control: Control, transistor: str, net: str) -> list[str]:
-    """Parts on one net of a control network; returns the nets beyond them."""
+_CONTROL_KINDS = frozenset({"resistor", "link", "diode"})
+"""Kinds a control walk passes through (two-pin ones)."""
+
+
+def _control_step(index: CircuitIndex, control: Control, transistor: str, net: str,
+                  split: NetSplit) -> list[str]:
+    """Parts on one net of a control network (``split``: the net's pins split); returns the
+    nets beyond them."""
     beyond: list[str] = []
-    split = index.split(net)
     if len(split.rest) + len(split.controls) == 1:
         control.problems.append(f"{transistor}: net {net} has no path to a rail or pin")
+    kind_of, all_parts, parts = index.kind, index.circuit.parts, control.parts
     for ref, pin_name in split.rest:
-        if ref == transistor or ref in control.parts:
+        if ref == transistor or ref in parts:
             continue
-        kind = index.kind(ref)
-        if kind in ("resistor", "link", "diode") and len(index.part(ref).pins) == 2:
-            control.parts.append(ref)
-            other = index.other_pin(ref, pin_name).net
+        kind = kind_of(ref)
+        if kind in _CONTROL_KINDS and len(pins := all_parts[ref].pins) == 2:
+            parts.append(ref)
+            first, second = pins  # (the other pin, as CircuitIndex.other_pin gives it)
+            other = (second if first.name == pin_name else first).net
             if other is None:
                 control.problems.append(f"{ref}: pin is not connected")
             else:
