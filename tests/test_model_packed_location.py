@@ -62,3 +62,15 @@ def test_files_are_kept_apart():
     first, second = packed_location("a.cir", 5, 1), packed_location("b.cir", 5, 1)
     assert Net("N", (), first).location.file == "a.cir"
     assert Net("N", (), second).location.file == "b.cir"
+
+
+def test_past_the_numbered_files_places_stay_source_locations(monkeypatch):
+    # 1,024 files numbered already (the packing's own limit): a new file is not packed.
+    import linter.model as model
+
+    monkeypatch.setattr(model, "_PLACE_FILES", [f"f{n}" for n in range(1024)])
+    monkeypatch.setattr(model, "_FILE_NUMBERS", {f"f{n}": n for n in range(1024)})
+    place = packed_location("new.cir", 3, 4)
+    assert type(place) is SourceLocation and place == SourceLocation("new.cir", 3, 4)
+    assert Part("R1", "resistor", None, (), place).location == SourceLocation("new.cir", 3, 4)
+    assert Net("N", (), packed_location("f1023", 5, 6)).location == SourceLocation("f1023", 5, 6)
