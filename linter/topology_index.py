@@ -150,6 +150,8 @@ class CircuitIndex:
     split : callable, net -> NetSplit
         The net's pins split into microcontroller pins, transistor controls, the rest
         (cached).
+    mcu_on : callable, net -> tuple of (ref, pin name)
+        The microcontroller pins on the net, as ``split(net).mcu`` (cached).
     """
 
     kind: Callable[[str], str]
@@ -157,6 +159,7 @@ class CircuitIndex:
     sort_key: Callable[[str], tuple]
     pins_on: Callable[[str], tuple[tuple[str, str], ...]]
     split: Callable[[str], NetSplit]
+    mcu_on: Callable[[str], tuple[tuple[str, str], ...]]
 
     def __init__(self, circuit: Circuit, rails: Mapping[str, Rail],
                  part_data: Mapping[str, PartData]) -> None:
@@ -174,6 +177,7 @@ class CircuitIndex:
         self.sort_key = _Memo(natural_key).__getitem__
         self.pins_on = _Memo(self._pins_on).__getitem__
         self.split = _Memo(self._split).__getitem__
+        self.mcu_on = _Memo(self._mcu_on).__getitem__
         self.led_rank: dict[str, int] = {}  # LED → its place in natural order (set by topology)
         self._rail_keys = {net: natural_key(net) for net in rails}
         self._rail_tuples: dict[tuple[str, ...], tuple[str, ...]] = {}
@@ -203,7 +207,7 @@ class CircuitIndex:
         index and everything it remembered (tens of MiB on a large board) would wait for the
         garbage collector, which topology pauses, instead of going when the groups are made.
         """
-        for lookup in (self.sort_key, self.pins_on, self.split):
+        for lookup in (self.sort_key, self.pins_on, self.split, self.mcu_on):
             memo = lookup.__self__  # type: ignore[attr-defined]
             memo.clear()
             memo.compute = None
@@ -293,6 +297,12 @@ class CircuitIndex:
         return NetSplit(tuple(mcu), tuple(controls),
                         pins if len(rest) == len(pins) else tuple(rest), tuple(foreign),
                         frozenset(controls) if controls else _NO_CONTROLS)
+
+    def _mcu_on(self, net: str) -> tuple[tuple[str, str], ...]:
+        """``split(net).mcu`` without the rest of the split (a walk that only asks whether a
+        net is a pin's makes no NetSplit)."""
+        roles = self._roles
+        return tuple([pair for pair in self.pins_on(net) if roles[pair[0]] == "mcu"])
 
     def _is_control(self, ref: str, pin_name: str) -> bool:
         terminals = self.transistor_pins(ref)

@@ -43,7 +43,7 @@ def _end_pins(index: CircuitIndex, net: str | None, rails: Mapping,
         return False
     if net in rails:
         return True
-    mcu = index.split(net).mcu
+    mcu = index.mcu_on(net)
     if not mcu:
         return False
     supply = index.supply_net
@@ -203,7 +203,7 @@ def _through_transistor(index: CircuitIndex, chain: Chain, c_net: str,
         e_rail, emitter_resistors = e_net, ()
     else:
         e_pins = index.pins_on(e_net)
-        if len(e_pins) != 2 or index.split(e_net).mcu:
+        if len(e_pins) != 2 or index.mcu_on(e_net):
             return None
         (ref_a, pin_a), (ref_b, pin_b) = e_pins
         other = ref_b if (ref_a, pin_a) == (ref, terminals["e"].name) else ref_a
