@@ -107,3 +107,23 @@ def _plain_key(ref: str):
 @example("D")  # no digits
 def test_natural_key_string_method_path(name: str) -> None:
     assert natural_key(name) == _plain_key(name)
+
+
+def test_mcu_on_is_the_splits_mcu_pins() -> None:
+    # expected: split(net).mcu, the plain path of our own code, on every net of the demo
+    from pathlib import Path
+
+    from linter.config import load_settings
+    from linter.parts import resolve_part_data
+    from linter.rails import resolve_rails
+    from linter.readers import read_netlist
+
+    demo = Path(__file__).resolve().parents[1] / "fixtures" / "demo"
+    for name in ("dust_extractor_panel.edif", "dust_extractor_panel.cir"):
+        path = demo / name
+        settings_ = load_settings(path, None, ())
+        circuit, part_data = resolve_part_data(read_netlist(path), settings_)
+        index = CircuitIndex(circuit, resolve_rails(circuit, settings_), part_data)
+        found = {net: index.mcu_on(net) for net in circuit.nets}
+        assert found == {net: index.split(net).mcu for net in circuit.nets}
+        assert any(found.values())  # the demo has microcontroller pins
