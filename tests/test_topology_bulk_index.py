@@ -73,6 +73,7 @@ def test_kinds_and_roles_are_the_plain_ones(specs, stray_data) -> None:
     assert list(index.roles) == list(parts)  # one entry a part, in netlist order
 
 
+@settings(deadline=None)
 @given(st.lists(st.sampled_from(["led", "resistor", "npn"]), max_size=8))
 def test_led_list_is_circuit_leds(kinds) -> None:
     from linter.topology import find_groups
@@ -96,6 +97,7 @@ def _plain_key(ref: str):
                  for index, chunk in enumerate(chunks)), ref
 
 
+@settings(deadline=None)
 @given(st.text(alphabet=st.sampled_from("DdRß\u0130\u01c5_ 0123456789\u0661"), max_size=8))
 @example("D1")
 @example("D007")
@@ -109,21 +111,28 @@ def test_natural_key_string_method_path(name: str) -> None:
     assert natural_key(name) == _plain_key(name)
 
 
-def test_mcu_on_is_the_splits_mcu_pins() -> None:
+def test_mcu_on_is_the_splits_mcu_pins(tmp_path) -> None:
     # expected: split(net).mcu, the plain path of our own code, on every net of the demo
+    # (EDIF and SPICE, with its BOM and settings) and of a generated board
+    import sys
     from pathlib import Path
 
-    from linter.config import load_settings
-    from linter.parts import resolve_part_data
-    from linter.rails import resolve_rails
-    from linter.readers import read_netlist
+    from linter.engine import CheckRequest, load_inputs
 
-    demo = Path(__file__).resolve().parents[1] / "fixtures" / "demo"
-    for name in ("dust_extractor_panel.edif", "dust_extractor_panel.cir"):
-        path = demo / name
-        settings_ = load_settings(path, None, ())
-        circuit, part_data = resolve_part_data(read_netlist(path), settings_)
-        index = CircuitIndex(circuit, resolve_rails(circuit, settings_), part_data)
-        found = {net: index.mcu_on(net) for net in circuit.nets}
-        assert found == {net: index.split(net).mcu for net in circuit.nets}
-        assert any(found.values())  # the demo has microcontroller pins
+    root = Path(__file__).resolve().parents[1]
+    if str(root) not in sys.path:
+        sys.path.insert(0, str(root))
+    from bench.gen_board import generate, write_all
+
+    demo = root / "fixtures" / "demo"
+    files = write_all(generate(400, 5), tmp_path)
+    requests = [CheckRequest(demo / name, bom=demo / "bom.csv")
+                for name in ("dust_extractor_panel.edif", "dust_extractor_panel.cir")]
+    requests.append(CheckRequest(files["edif"], bom=files["bom"]))
+    for request in requests:
+        context = load_inputs(request)
+        index = CircuitIndex(context.circuit, context.rails, context.part_data)
+        nets = context.circuit.nets
+        found = {net: index.mcu_on(net) for net in nets}
+        assert found == {net: index.split(net).mcu for net in nets}
+        assert any(found.values())  # each has microcontroller pins

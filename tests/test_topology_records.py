@@ -11,7 +11,7 @@ from dataclasses import FrozenInstanceError, dataclass, field, fields, replace
 from typing import Mapping
 
 import pytest
-from hypothesis import given
+from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from linter.groups import TOPOLOGIES, Group, PinDrive, Scenario
@@ -64,6 +64,7 @@ _names = st.text(alphabet="DRU1_.", min_size=1, max_size=4)
 _tuples = st.lists(_names, max_size=3).map(tuple)
 
 
+@settings(deadline=None)
 @given(_names, _names, _names, st.none() | _names)
 def test_pin_drive_is_its_plain_twin(part: str, pin: str, net: str, supply: str | None) -> None:
     record, plain = PinDrive(part, pin, net, supply), _PlainPin(part, pin, net, supply)
@@ -73,6 +74,7 @@ def test_pin_drive_is_its_plain_twin(part: str, pin: str, net: str, supply: str 
     assert PinDrive(part, pin, net) == PinDrive(part, pin, net, None)
 
 
+@settings(deadline=None)
 @given(_names, st.none() | st.dictionaries(_names, st.sampled_from(["high", "low"])),
        st.none() | _tuples)
 def test_scenario_is_its_plain_twin(name: str, levels, lit) -> None:
@@ -86,6 +88,7 @@ def test_scenario_is_its_plain_twin(name: str, levels, lit) -> None:
     assert hash(record) == hash(Scenario(name, {"other": "high"}, lit))  # levels not hashed
 
 
+@settings(deadline=None)
 @given(st.sampled_from(TOPOLOGIES), _tuples, _tuples, st.none() | _names,
        st.booleans(), st.none() | _names)
 def test_group_is_its_plain_twin(topology, leds, parts, setter, with_pin, reason) -> None:
