@@ -84,9 +84,9 @@ def run_many(args: argparse.Namespace) -> int:
         options = ReportOptions(verbose=args.verbose, quiet=args.quiet, color=color)
         text = _render(fmt, outcomes, options)
     if args.output is not None:
-        from linter.output import write_atomically
+        from linter.cli import write_report
 
-        write_atomically(args.output, text)
+        write_report(args.output, text)
     else:
         sys.stdout.write(text)
     for outcome in outcomes:

@@ -52,3 +52,26 @@ def test_report_through_a_fifo_is_the_file_report(tmp_path: Path) -> None:
     assert stat.S_ISFIFO(os.stat(fifo).st_mode)    # still the pipe, not a file renamed over it
     assert received == [expected_file.read_bytes()]
     assert sorted(p.name for p in tmp_path.iterdir()) == ["pipe", "report.json"]
+
+
+@pytest.mark.skipif(not hasattr(os, "mkfifo"), reason="no named pipes on this system")
+def test_combined_report_of_several_boards_through_a_fifo(tmp_path: Path) -> None:
+    """The several-boards path (one combined report) writes a pipe in place too."""
+    boards = [str(DEMO / "dust_extractor_panel.edif"), str(DEMO / "dust_extractor_panel.edif")]
+    many = ["check", *boards, "--format", "json"]
+    expected_file = tmp_path / "report.json"
+    code = main([*many, "--output", str(expected_file)])
+    fifo = tmp_path / "pipe"
+    os.mkfifo(fifo)
+    received: list[bytes] = []
+
+    def read() -> None:
+        with open(fifo, "rb") as stream:
+            received.append(stream.read())
+
+    reader = threading.Thread(target=read, daemon=True)
+    reader.start()
+    assert main([*many, "--output", str(fifo)]) == code
+    reader.join(timeout=60)
+    assert stat.S_ISFIFO(os.stat(fifo).st_mode)
+    assert received == [expected_file.read_bytes()]
