@@ -6,8 +6,9 @@ scenario at every corner of every group of a batch in one vectorised Newton run
 (:mod:`linter.batchsolve`) and reduces the rows to spans with the corner of each extreme.
 Work is done once per electrically distinct group: a group whose key
 (:mod:`linter.group_key`) repeats an earlier group's takes that result with its own names
-(:mod:`linter.result_rename`), and groups of a batch with equal solver inputs are solved once
-(:mod:`linter.solve_memo`).
+(:mod:`linter.result_rename`: a :class:`~linter.result_rename.FollowerResult`, whose records
+are built from the template's on first access), and groups of a batch with equal solver
+inputs are solved once (:mod:`linter.solve_memo`).
 :func:`operating_point` solves one group at one named corner (for tests and for rules that
 need a particular point).
 """
@@ -215,9 +216,9 @@ def analyse(groups: Iterable[Group], circuit: Circuit, part_data: PartDataMap,
 
     With ``memoise`` (the default), a group whose :func:`~linter.group_key.group_key` equals
     an earlier group's is neither built nor solved: its result is the earlier one's with its
-    own names (:mod:`linter.result_rename`); and groups of one bucket with the same solver
-    inputs are solved once (:mod:`linter.solve_memo`). ``memoise=False`` builds and solves
-    every group (the plain reference path).
+    own names (:mod:`linter.result_rename`), its records built when first read; and groups of
+    one bucket with the same solver inputs are solved once (:mod:`linter.solve_memo`).
+    ``memoise=False`` builds and solves every group (the plain reference path).
 
     Parameters
     ----------
@@ -251,7 +252,7 @@ def analyse(groups: Iterable[Group], circuit: Circuit, part_data: PartDataMap,
                 if made is None:
                     made = compiled[template] = Template(
                         results[template], work.templates[template][1])  # type: ignore[arg-type]
-                results[index] = made.renamed(groups[index], refs)
+                results[index] = made.follower(groups[index], refs)
             followers.clear()
     return tuple(r for r in results if r is not None)
 

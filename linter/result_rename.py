@@ -13,17 +13,25 @@ at such a corner, every part record) and which do not. A follower gets new recor
 the first kind, each made once per distinct template record; the others (spans and corners
 that name no part, empty level mappings, every rail mapping, float and text) are the
 template's own objects, shared.
+
+The analysis makes followers with :meth:`Template.follower`: a :class:`FollowerResult` holding
+its group, the top-level figures, ``origin`` and the Template, which builds its records on
+first access (rules and reports that work per template through ``origin`` never read a
+follower's records, so those are never made). :meth:`Template.renamed` builds every record at
+once (the plain twin; tests/test_result_rename_lazy.py holds the two equal field by field).
 """
 
 from __future__ import annotations
 
+from dataclasses import fields
+from operator import attrgetter
 from typing import Any, Callable, Mapping
 
 from linter.corners import Corner, Levels
 from linter.groups import Group
 from linter.results import GroupResult, LedResult, PinResult, ResistorResult, Span, TransistorResult
 
-__all__ = ["Template", "renamed"]
+__all__ = ["Template", "FollowerResult", "renamed", "built_fields"]
 
 
 def _clone(record, changes: dict):
@@ -143,6 +151,9 @@ class Template:
                            x.rating_w, x.package) for x in result.resistors]
         self.pins = [(at[id(x.current)], x.sourcing, x.current_max) for x in result.pins]
         self.not_converged = [at[id(c)] for c in result.not_converged]
+        self.transistors = [(x, tuple((name, at[id(getattr(x, name))]) for name in _TRANSISTOR))
+                            for x in result.transistors]
+        del self._at    # positions are in the tables now; ids are of no use later
 
     def _visit(self, value: Any, found: "_Found") -> None:
         """Puts ``value`` (and what it quotes) in ``shared`` when it names no part, else in
@@ -169,9 +180,30 @@ class Template:
             found.mappings.append(value)
 
     def renamed(self, group: Group, refs: Mapping[str, str]) -> GroupResult:
-        """The template's result for ``group``; ``refs`` maps the template's part references
-        to the group's. Pin i of the result is the group's pin drive i (both in the group's
-        pin order)."""
+        """The template's result for ``group``, every record built now (the plain twin of
+        :meth:`follower`); ``refs`` maps the template's part references to the group's.
+        Pin i of the result is the group's pin drive i (both in the group's pin order)."""
+        result = self.result
+        leds, resistors, transistors, pins, not_converged = self.records(group, refs)
+        return _group_result(
+            group, result.status, result.rail, leds, resistors, transistors, pins,
+            result.corners, result.scheme, not_converged, self.notes(refs), result.reason,
+            (result, refs))
+
+    def follower(self, group: Group, refs: Mapping[str, str]) -> "FollowerResult":
+        """:meth:`renamed` with the records left to be built on first access (see
+        :class:`FollowerResult`): now only the group, the top-level figures and the origin."""
+        result = self.result
+        made = _NEW(FollowerResult)
+        for setter, value in zip(_EAGER_SETTERS, (
+                group, result.status, result.rail, result.corners, result.scheme,
+                result.reason, (result, refs), self)):
+            setter(made, value)
+        return made
+
+    def records(self, group: Group, refs: Mapping[str, str]) -> tuple[tuple, ...]:
+        """(leds, resistors, transistors, pins, not_converged) of the template renamed for
+        ``group`` through ``refs``; objects naming no part are the template's own."""
         get = refs.__getitem__
         named = [tuple(map(get, names)) for names in self.names]
         at = self.leds_names
@@ -184,27 +216,22 @@ class Template:
                   for scenario, rails, ambient, vf, beta, resistors in self.corners]
         table += [_span(nom, low, high, table[at_min], table[at_max])
                   for nom, low, high, at_min, at_max in self.spans]
-        result = self.result
-        return _group_result(
-            group, result.status, result.rail,
+        return (
             tuple([_led(get(ref), part, table[i], table[vf], table[p], lit, rev, table[rev_at],
                         di, assumed)
                    for ref, part, i, vf, p, lit, rev, rev_at, di, assumed in self.leds]),
             tuple([_resistor(get(ref), ohms, tol, table[i], table[p], rating, package)
                    for ref, ohms, tol, i, p, rating, package in self.resistors]),
-            tuple([self._transistor(x, get, table) for x in result.transistors]),
+            tuple([_clone(x, {"ref": get(x.ref), **{name: table[i] for name, i in where}})
+                   for x, where in self.transistors]),
             tuple([_pin(drive.id, drive.net, table[i], sourcing, rating)
                    for (i, sourcing, rating), drive in zip(self.pins, group.pins)]),
-            result.corners, result.scheme, tuple([table[i] for i in self.not_converged]),
-            tuple([f"{get(ref)}: {text}" for ref, text in self.note_parts]), result.reason,
-            (result, refs))
+            tuple([table[i] for i in self.not_converged]))
 
-    def _transistor(self, x: TransistorResult, get, table: list) -> TransistorResult:
-        at = self._at
-        changes: dict[str, Any] = {"ref": get(x.ref)}
-        for name in (*_SPANS[TransistorResult], *_CORNERS[TransistorResult]):
-            changes[name] = table[at[id(getattr(x, name))]]
-        return _clone(x, changes)
+    def notes(self, refs: Mapping[str, str]) -> tuple[str, ...]:
+        """The template model's notes with each one's part reference renamed."""
+        get = refs.__getitem__
+        return tuple([f"{get(ref)}: {text}" for ref, text in self.note_parts])
 
 
 class _Found:
@@ -226,6 +253,119 @@ _CORNERS: dict[type, tuple[str, ...]] = {
     LedResult: ("reverse_at",), ResistorResult: (), PinResult: (),
     TransistorResult: ("saturated_at", "rail_min_at")}
 """The fields of each record that hold a Corner (or None)."""
+_TRANSISTOR = (*_SPANS[TransistorResult], *_CORNERS[TransistorResult])
+
+
+_RECORDS = ("leds", "resistors", "transistors", "pins", "not_converged")
+"""A follower's fields built together on first access of any (they quote one table)."""
+_LAZY = (*_RECORDS, "notes")
+_SLOT = {name: GroupResult.__dict__[name] for name in _LAZY}
+"""GroupResult's slot descriptors of the lazy fields (the subclass's properties hide them)."""
+_COMPARED = tuple(f.name for f in fields(GroupResult) if f.compare)
+_compared = attrgetter(*_COMPARED)
+
+
+class FollowerResult(GroupResult):
+    """A follower's :class:`~linter.results.GroupResult` whose records are built from its
+    :class:`Template` on first access.
+
+    Made by :meth:`Template.follower` holding only the group, status, rail, corners,
+    scheme, reason, ``origin`` (the template result and the refs map) and the Template.
+    Reading any of ``leds``, ``resistors``, ``transistors``, ``pins`` or ``not_converged``
+    builds those five at once (:meth:`Template.records`, as :meth:`Template.renamed` does)
+    into GroupResult's own slots; ``notes`` is built on its own; ``converged`` reads the
+    template's corners while the records are unbuilt. Every other behaviour is
+    GroupResult's: equality with any GroupResult by the compared fields (so a follower
+    equals its eagerly built twin), the same hash and repr, ``as_dict`` and
+    ``dataclasses.replace`` (which reads every field, so builds the records). Pickled as
+    its Template, group and refs, it unpickles unbuilt.
+    """
+
+    __slots__ = ("_template",)
+
+    def __eq__(self, other: object) -> bool:
+        if isinstance(other, GroupResult):
+            return _compared(self) == _compared(other)
+        return NotImplemented
+
+    __hash__ = GroupResult.__hash__
+
+    def __repr__(self) -> str:
+        text = GroupResult.__repr__(self)
+        head = type(self).__qualname__
+        return "GroupResult" + text[len(head):] if text.startswith(head) else text
+
+    @property
+    def converged(self) -> bool:
+        """True when every corner converged (the template's count while unbuilt)."""
+        try:
+            failed = _NOT_CONVERGED(self)
+        except AttributeError:
+            failed = self.origin[0].not_converged
+        return self.status == "solved" and not failed
+
+    def __reduce_ex__(self, protocol: Any) -> Any:
+        """Pickled as its Template, group and refs (a Template is pickled once for all its
+        followers), unpickled unbuilt; one made otherwise (``replace``, unpickling) has no
+        Template and is pickled field by field."""
+        try:
+            template = self._template
+        except AttributeError:
+            return super().__reduce_ex__(protocol)
+        return (_follower, (template, _SLOT_GROUP(self), self.origin[1]))
+
+    def _build_records(self) -> None:
+        group = _SLOT_GROUP(self)
+        for name, value in zip(_RECORDS, self._template.records(group, self.origin[1])):
+            _SLOT[name].__set__(self, value)
+
+    def _build_notes(self) -> None:
+        _SLOT["notes"].__set__(self, self._template.notes(self.origin[1]))
+
+
+def _lazy(name: str, build: Callable[[FollowerResult], None]) -> property:
+    """A property over GroupResult's slot ``name``: the slot's value, built by ``build``
+    when the slot is still empty; setting it sets the slot (``__init__``, ``replace``,
+    unpickling)."""
+    slot = _SLOT[name]
+    read_slot = slot.__get__
+
+    def read(self: FollowerResult) -> Any:
+        try:
+            return read_slot(self)
+        except AttributeError:
+            build(self)
+            return read_slot(self)
+    return property(read, slot.__set__, doc=f"``{name}``, built on first access.")
+
+
+for _name in _RECORDS:
+    setattr(FollowerResult, _name, _lazy(_name, FollowerResult._build_records))
+FollowerResult.notes = _lazy("notes", FollowerResult._build_notes)  # type: ignore[assignment]
+del _name
+_NOT_CONVERGED = _SLOT["not_converged"].__get__
+_SLOT_GROUP = GroupResult.__dict__["group"].__get__
+_EAGER_SETTERS = tuple(GroupResult.__dict__[name].__set__ for name in (
+    "group", "status", "rail", "corners", "scheme", "reason", "origin")) + (
+    FollowerResult.__dict__["_template"].__set__,)
+
+
+def _follower(template: Template, group: Group, refs: Mapping[str, str]) -> FollowerResult:
+    """:meth:`Template.follower` (for unpickling)."""
+    return template.follower(group, refs)
+
+
+def built_fields(result: GroupResult) -> tuple[str, ...]:
+    """The record fields of ``result`` that exist: all of them but in a
+    :class:`FollowerResult` whose records nobody has read yet."""
+    built = []
+    for name, slot in _SLOT.items():
+        try:
+            slot.__get__(result)
+        except AttributeError:
+            continue
+        built.append(name)
+    return tuple(built)
 
 
 def renamed(result: GroupResult, group: Group, refs: Mapping[str, str],

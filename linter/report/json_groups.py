@@ -175,7 +175,7 @@ def _records(records: Iterable[Any], write: Any, corners: CornerTexts) -> str:
 
 def group_line(group: Any) -> str:
     """The JSON ``groups`` entry of one group, on one line (see the module docstring)."""
-    if type(group) is not GroupResult:
+    if not isinstance(group, GroupResult):
         return compact_json(plain_data(group.as_dict()))
     corners = CornerTexts()
     shape = group.group

@@ -105,7 +105,7 @@ def shown_entry(record: Any) -> Mapping[str, Any]:
     them (id, topology, rail, setter, parts; each LED's ref, part, current, Vf and power;
     each resistor's ref, ohms, power and rating), without the rest (the corners, chiefly).
     A record other than a solved group gives its whole entry."""
-    if type(record) is not GroupResult:
+    if not isinstance(record, GroupResult):
         return group_entry(record)
     shape = record.group
     return {
