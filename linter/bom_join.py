@@ -71,7 +71,7 @@ def apply_bom(circuit: Circuit, bom: Bom) -> tuple[Circuit, tuple[BomDiscrepancy
             else:
                 found[ref] = line
         _share_refs(line, refs)
-    parts = {}
+    parts = dict(circuit.parts)  # (made at its full size at once; joined parts replace theirs)
     facts: dict[int, dict[str, str]] = {}  # BOM line (by identity) -> its facts
     # (line, everything the comparison and the properties read of a part) -> what the part gets
     joins: dict[tuple, tuple[bool, bool, Mapping[str, str], str | None]] = {}
@@ -83,7 +83,6 @@ def apply_bom(circuit: Circuit, bom: Bom) -> tuple[Circuit, tuple[BomDiscrepancy
                 problems.append(BomDiscrepancy(
                     "missing-from-bom", (ref,),
                     f"{ref} is in the netlist but not in the BOM", part.location))
-            parts[ref] = part
             continue
         properties, model = part.properties, part.model
         key = (id(line), part.value, part.value_si, part.kind, part.part_number,
