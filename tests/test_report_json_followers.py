@@ -18,7 +18,7 @@ import pytest
 
 from linter.engine import CheckRequest, run_check
 from linter.groups import PinDrive
-from linter.report.json_followers import MARK, GroupLines, follower_form
+from linter.report.json_followers import MARK, GroupLines, follower_form, note_parts, untouched
 from linter.report.json_groups import group_line
 from linter.result_rename import renamed
 from linter.results import GroupResult
@@ -38,7 +38,7 @@ def _lines_equal_plain(groups) -> GroupLines:
     lines = GroupLines(groups)
     for group in sorted(groups, key=lambda g: g.id):  # any order: forms are made on demand
         assert lines.line(group) == group_line(group), group.id
-    assert not lines._forms and not lines._left  # each form dropped after its last follower
+    assert not lines._forms and not lines._left and not lines._lines  # all dropped at the end
     return lines
 
 
@@ -156,3 +156,140 @@ def test_a_form_is_made_once_per_template_and_dropped_after_its_last_follower() 
         assert (id(template) in lines._forms) == (count < 3)
     assert lines.line(template) == group_line(template)
     assert lines.filled == 3
+
+
+# --- followers whose records are made on first access: the report must not read them ----
+
+_LAZY_FIELDS = ("leds", "resistors", "transistors", "pins", "not_converged", "notes")
+_SLOTS = {name: GroupResult.__dict__[name] for name in _LAZY_FIELDS}
+
+
+class _Watched(GroupResult):
+    """A follower as a lazy one stands: only its group, scalars and origin stored; a record
+    field (or ``notes``) is taken from its eagerly renamed twin on first access, and every
+    access is counted in ``READS``."""
+
+    __slots__ = ("_twin",)
+    READS: dict[str, int] = {}
+
+
+def _watched_field(name: str) -> property:
+    slot = _SLOTS[name]
+
+    def read(self: _Watched):
+        _Watched.READS[name] = _Watched.READS.get(name, 0) + 1
+        try:
+            return slot.__get__(self)
+        except AttributeError:
+            slot.__set__(self, getattr(self._twin, name))
+            return slot.__get__(self)
+    return property(read, slot.__set__)
+
+
+for _name in _LAZY_FIELDS:
+    setattr(_Watched, _name, _watched_field(_name))
+
+
+def _watched(twin: GroupResult) -> _Watched:
+    """A lazy stand-in for the renamed result ``twin`` (nothing but its scalars stored)."""
+    made = object.__new__(_Watched)
+    for name in ("group", "status", "rail", "corners", "scheme", "reason", "origin"):
+        GroupResult.__dict__[name].__set__(made, getattr(twin, name))
+    _Watched.__dict__["_twin"].__set__(made, twin)
+    return made
+
+
+def _lazy_lines_equal_plain(groups) -> GroupLines:
+    """Writes every line with the followers as lazy stand-ins: no follower field may be
+    read; then each line is held to the plain writer's line of the eager record."""
+    lazy = [_watched(g) if g.origin is not None else g for g in groups]
+    _Watched.READS.clear()
+    lines = GroupLines(lazy)
+    written = [lines.line(group) for group in lazy]
+    assert _Watched.READS == {}
+    assert not lines._forms and not lines._left and not lines._lines
+    for group, line in zip(groups, written):
+        assert line == group_line(group), group.id
+    return lines
+
+
+@pytest.mark.parametrize("parts, seed, part_data", [(1000, 5, True), (2500, 7, True),
+                                                    (1000, 5, False)])
+def test_lazy_followers_are_written_without_reading_their_records(
+        tmp_path: Path, parts: int, seed: int, part_data: bool) -> None:
+    files = write_all(generate(parts, seed=seed), tmp_path / "board")
+    if not part_data:  # no part data: generic figures everywhere
+        files["settings"].unlink()
+    result = run_check(CheckRequest(netlist=files["edif"],
+                                    bom=files["bom"] if part_data else None))
+    groups = [g if g.origin is None else renamed(g.origin[0], g.group, g.origin[1],
+                                                 _note_parts(g))
+              for g in result.groups]  # eager twins, whatever the analysis made
+    followers = sum(g.origin is not None for g in groups)
+    assert followers > len(groups) / 2
+    assert any(g.notes for g in groups if g.origin is not None)  # notes are filled too
+    assert _lazy_lines_equal_plain(groups).filled == followers
+
+
+def _note_parts(follower: GroupResult) -> tuple[tuple[str, str], ...]:
+    """The template's notes as (reference, text): each follower note is its template's
+    with the reference renamed (checked here against the follower's own notes)."""
+    template, refs = follower.origin
+    parts = note_parts(template.notes, refs)
+    assert parts is not None
+    assert tuple(f"{refs[ref]}: {text}" for ref, text in parts) == tuple(follower.notes)
+    return parts
+
+
+def test_lazy_odd_names_and_either_order_give_the_plain_lines() -> None:
+    template, parts = _template()
+    followers = [_follower(template, parts, [ODD_NAMES[(index + k) % len(ODD_NAMES)]
+                                             for k in range(5)],
+                           "G-" + ODD_NAMES[index], ODD_NAMES[(index + 3) % len(ODD_NAMES)])
+                 for index in range(len(ODD_NAMES))]
+    assert _lazy_lines_equal_plain([template, *followers]).filled == len(followers)
+    assert _lazy_lines_equal_plain([*followers, template]).filled == len(followers)
+    middle = len(followers) // 2
+    assert _lazy_lines_equal_plain([*followers[:middle], template,
+                                    *followers[middle:]]).filled == len(followers)
+
+
+def test_a_lazy_follower_partly_read_is_written_alike() -> None:
+    template, parts = _template()
+    follower = _follower(template, parts, ["D7", "D8", "R7", "Q7", "U7"], "G-D7", "P7")
+    for read in (("leds",), ("notes",), ("pins", "notes"), _LAZY_FIELDS):
+        lazy = _watched(follower)
+        for name in read:
+            getattr(lazy, name)
+        lines = GroupLines([template, lazy])
+        assert lines.line(lazy) == group_line(follower)
+        assert lines.filled == 1
+
+
+def test_note_references_are_told_only_when_one_name_fits() -> None:
+    names = ("D1", "D10", "R1", "R1: a")
+    assert note_parts(("D1: generic rs", "D10: generic vf"), names) == (
+        ("D1", "generic rs"), ("D10", "generic vf"))
+    assert note_parts((), names) == ()
+    assert note_parts(("R1: a: b",), names) is None      # R1 and "R1: a" both fit
+    assert note_parts(("Q1: generic beta",), names) is None  # no name fits
+    assert note_parts(("D1 generic",), names) is None
+    assert note_parts((7,), names) is None
+
+
+def test_a_template_note_no_name_fits_sends_its_followers_the_plain_way() -> None:
+    template, parts = _template()
+    follower = _follower(template, parts, ["D7", "D8", "R7", "Q7", "U7"], "G-D7", "P7")
+    odd = replace(template, notes=("X9: generic rs",))  # names no part of the group
+    assert follower_form(odd, follower.origin[1]) is None
+    moved = replace(follower, origin=(odd, follower.origin[1]))
+    assert _lines_equal_plain([odd, moved]).filled == 0
+
+
+def test_a_note_reference_inside_the_text_is_filled_escaped() -> None:
+    template, parts = _template()
+    names = ['D"7', "D\\8", "R\n7", "Q\u00b57", "U%s"]
+    follower = _follower(template, parts, names, "G-D7", "P7")
+    assert follower.notes == ('D"7: generic rs',)
+    assert _lazy_lines_equal_plain([template, follower]).filled == 1
+    assert untouched(_watched(follower)) and not untouched(follower)
