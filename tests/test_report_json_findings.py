@@ -87,3 +87,39 @@ def test_odd_findings_give_the_plain_line(monkeypatch: pytest.MonkeyPatch) -> No
     for _ in range(2):
         _assert_plain(odd, circuit)
     assert len(json_findings._KEY_FORMS) <= 2  # the memory starts again past its size
+
+
+def test_remembered_values_texts_keep_zero_signs_and_unknowns(
+        monkeypatch: pytest.MonkeyPatch) -> None:
+    """The same key set and equal numbers one after another: a remembered text must not
+    stand for a zero of the other sign, and NaN or infinity stay null."""
+    monkeypatch.setattr(json_findings, "VALUES_TEXTS_MAX", 3)
+    circuit = sample_circuit()
+    nan = math.nan
+    odd = [  # invented figures
+        Finding("r", "info", "m", values={"a": 0.0, "b": 1.5}),
+        Finding("r", "info", "m", values={"a": -0.0, "b": 1.5}),
+        Finding("r", "info", "m", values={"b": 1.5, "a": 0.0}),
+        Finding("r", "info", "m", values={"a": 2.5, "b": 1.5}),
+        Finding("r", "info", "m", values={"a": 2.5, "b": 1.5}),   # remembered
+        Finding("r", "info", "m", values={"a": 2, "b": np.float64(1.5)}),  # equal numbers
+        Finding("r", "info", "m", values={"a": nan, "b": 1.5}),
+        Finding("r", "info", "m", values={"a": nan, "b": 1.5}),   # the very same NaN
+        Finding("r", "info", "m", values={"a": -math.inf, "b": 1e-300}),
+        Finding("r", "info", "m", values={"a": 1.0, "b": 3.0, "c": 7.0}),
+        Finding("r", "info", "m", values={"a%s": 1.0, "%(b)s": 3.0}),  # format marks in keys
+    ]
+    for _ in range(2):
+        _assert_plain(odd, circuit)
+    assert 0 < len(json_findings._VALUES_TEXTS) <= 3
+
+
+def test_odd_locations_give_the_plain_line() -> None:
+    circuit = sample_circuit()
+    odd = [  # invented: a file name with quotes and a percent sign, numbers not plain ints
+        Finding("r", "info", "m", location=SourceLocation('a "b" %d.edif', 3, 9)),
+        Finding("r", "info", "m", location=SourceLocation("c.edif", True, 2)),
+        Finding("r", "info", "m", location=SourceLocation("c.edif", np.int64(4), 2)),
+        Finding("r", "info", "m", location=SourceLocation("c.edif", 5, 2.0)),
+    ]
+    _assert_plain(odd, circuit)

@@ -11,6 +11,7 @@ the plain record; tests/test_report_json_findings.py holds both to the same byte
 from __future__ import annotations
 
 import math
+from operator import itemgetter
 from typing import TYPE_CHECKING, Any, Mapping
 
 from linter.findings import Finding
@@ -53,18 +54,25 @@ def finding_dict(finding: Finding, circuit: "Circuit") -> dict[str, Any]:
 
 KEY_FORMS_MAX = 1024
 """Key sets remembered at most (then the memory starts again)."""
-_KEY_FORMS: dict[tuple, tuple[tuple[str, ...], tuple[str, ...]] | None] = {}
-"""Per tuple of a values mapping's keys (in its order): the keys sorted and each one's
-``"key": `` text; None where a key is not text (the plain path). A rule writes the same
-keys for each finding: a board's 21,000 findings hold 8 key sets."""
+_KEY_FORMS: dict[tuple, tuple[Any, str] | None] = {}
+"""Per tuple of a values mapping's keys (in its order): a getter of the values in sorted key
+order (a tuple) and the mapping's text with ``%s`` for each value; None where a key is not
+text (the plain path). A rule writes the same keys for each finding: a board's 21,000
+findings hold 8 key sets."""
 
 
-def _key_form(keys: tuple) -> tuple[tuple[str, ...], tuple[str, ...]] | None:
+def _key_form(keys: tuple) -> tuple[Any, str] | None:
     form = _KEY_FORMS.get(keys, False)
     if form is False:
         if all(type(key) is str for key in keys):
-            order = tuple(sorted(keys))
-            form = (order, tuple([_TEXT(key) + ": " for key in order]))
+            order = sorted(keys)
+            text = "{" + ", ".join([_TEXT(key).replace("%", "%%") + ": %s"
+                                    for key in order]) + "}"
+            if len(order) == 1:
+                only = order[0]
+                form = ((lambda values: (values[only],)), text)
+            else:
+                form = (itemgetter(*order) if order else (lambda values: ()), text)
         else:
             form = None
         if len(_KEY_FORMS) >= KEY_FORMS_MAX:
@@ -75,39 +83,80 @@ def _key_form(keys: tuple) -> tuple[tuple[str, ...], tuple[str, ...]] | None:
 
 def _values_text(values: Mapping[str, float]) -> str:
     """``si_values(values)`` as JSON: keys sorted as text, each value ``float(value)`` as
-    its ``repr`` (remembered, :func:`~linter.report.json_groups._float`), unknown as null."""
+    its ``repr`` (remembered, :func:`~linter.report.json_groups._float`), unknown as null.
+
+    A value's text is looked up by ``float(value)``: the one float it stands for, written
+    as :func:`_float` writes it (equal floats print alike; zeros and NaN are never
+    remembered, so they are written each time)."""
     form = _key_form(tuple(values)) if type(values) is dict else None
     if form is None:
         return "{" + ", ".join([_TEXT(key) + ": " + ("null" if number is None
                                                      else _float(number))
                                 for key, number in si_values(values).items()]) + "}"
-    known = _FLOAT_TEXTS.get
-    pieces = []
-    for key, prefix in zip(*form):
-        value = values[key]
-        text = known(value) if type(value) is float else None
-        pieces.append(prefix + (text or _float(float(value))))
-    return "{" + ", ".join(pieces) + "}"
+    getter, text = form
+    numbers = tuple(map(float, getter(values)))
+    key = (text, numbers)
+    known = _VALUES_TEXTS.get(key)
+    if known is not None:
+        return known
+    texts = tuple(map(_FLOAT_TEXTS.get, numbers))
+    if None in texts:
+        texts = tuple([known or _float(number) for known, number in zip(texts, numbers)])
+    written = text % texts
+    if 0.0 not in numbers:  # 0.0 == -0.0: a key holding a zero may stand for either
+        if len(_VALUES_TEXTS) >= VALUES_TEXTS_MAX:
+            _VALUES_TEXTS.clear()
+        _VALUES_TEXTS[key] = written
+    return written
 
 
-def _text_or_null(value: Any) -> str:
-    return "null" if value is None else _TEXT(value)
+VALUES_TEXTS_MAX = 4096
+"""Values texts remembered at most (then the memory starts again)."""
+_VALUES_TEXTS: dict[tuple[str, tuple[float, ...]], str] = {}
+"""The text of a values mapping by its form's text (the sorted keys) and its numbers in that
+order: a board's findings repeat their figures (the 21,000 findings of a 100k-part board
+hold 258 different values mappings). Equal numbers print alike but 0.0 and -0.0, so a key
+holding a zero is never kept; NaN equals nothing (a key holding it is found only with the
+very same NaN object, written null either way)."""
+
+
+_LINE = ('{"rule": %s, "severity": %s, "parts": [%s], "nets": [%s], "group": %s, '
+         '"message": %s, "values": %s, "fix": %s, "fingerprint": %s, "location": %s}')
+"""A finding's line with a ``%s`` for each field's JSON text."""
+
+_WHERE = '{"file": %s, "line": %d, "column": %d}'
+_WHERE_ANY = '{"file": %s, "line": %s, "column": %s}'
+
+
+_FILE_TEXTS: dict[str, str] = {}
+"""The JSON text of each source file name met (a board has one or a few)."""
+FILE_TEXTS_MAX = 64
+
+
+def _location_text(location: Any) -> str:
+    if location is None:
+        return "null"
+    file, line, column = location.file, location.line, location.column
+    if type(file) is not str or type(line) is not int or type(column) is not int:
+        return _WHERE_ANY % (_value(file), _value(line), _value(column))
+    text = _FILE_TEXTS.get(file)
+    if text is None:
+        if len(_FILE_TEXTS) >= FILE_TEXTS_MAX:
+            _FILE_TEXTS.clear()
+        text = _FILE_TEXTS[file] = _TEXT(file)
+    return _WHERE % (text, line, column)
 
 
 def finding_line(finding: Finding, circuit: "Circuit") -> str:
     """``plain_json(finding_dict(finding, circuit))``, written directly (a field that is not
     text where text is expected: the plain path)."""
     try:
-        location = finding_location(finding, circuit)
-        where = "null" if location is None else (
-            '{"file": ' + _value(location.file) + ', "line": ' + _value(location.line)
-            + ', "column": ' + _value(location.column) + "}")
-        return ('{"rule": ' + _TEXT(finding.rule) + ', "severity": ' + _TEXT(finding.severity)
-                + ', "parts": [' + ", ".join(map(_TEXT, finding.parts)) + '], "nets": ['
-                + ", ".join(map(_TEXT, finding.nets)) + '], "group": '
-                + _text_or_null(finding.group) + ', "message": ' + _TEXT(finding.message)
-                + ', "values": ' + _values_text(finding.values) + ', "fix": '
-                + _text_or_null(finding.fix) + ', "fingerprint": ' + _TEXT(finding.fingerprint)
-                + ', "location": ' + where + "}")
+        group, fix = finding.group, finding.fix
+        return _LINE % (
+            _TEXT(finding.rule), _TEXT(finding.severity), ", ".join(map(_TEXT, finding.parts)),
+            ", ".join(map(_TEXT, finding.nets)), "null" if group is None else _TEXT(group),
+            _TEXT(finding.message), _values_text(finding.values),
+            "null" if fix is None else _TEXT(fix), _TEXT(finding.fingerprint),
+            _location_text(finding_location(finding, circuit)))
     except TypeError:
         return plain_json(finding_dict(finding, circuit))
