@@ -27,7 +27,7 @@ from __future__ import annotations
 import re
 from typing import Any, Iterable, Sequence
 
-from linter.findings import Finding, severity_rank
+from linter.findings import SEVERITIES, Finding, severity_rank
 from linter.gc_pause import paused_gc
 from linter.refs import natural_key
 from linter.report.common import _record_id, ordered_findings, sorted_records
@@ -36,6 +36,9 @@ __all__ = ["name_text", "names_text", "lean_ordered_findings", "lean_sorted_reco
 
 _LOW = re.compile("[\x00-\x02]").search
 _LONGEST_RUN = 0x10FFFF - 3
+_DESIGNATOR = re.compile("([^\x00-\x02\\d]*)(\\d+)").fullmatch
+"""The common designator: text without a digit or a marker, then one number (the names
+:func:`~linter.refs.natural_key` reads with its first match)."""
 
 
 class _Plain(Exception):
@@ -46,6 +49,13 @@ def name_text(name: str) -> str:
     """One string comparing as ``natural_key(name)`` does (see the module docstring).
 
     Raises _Plain for a name it cannot write."""
+    simple = _DESIGNATOR(name)
+    if simple is not None:  # natural_key: ((prefix folded, (length, digits), ""), name)
+        prefix, digits = simple.groups()
+        significant = digits.lstrip("0")
+        if len(significant) > _LONGEST_RUN:
+            raise _Plain(name)
+        return _SIMPLE % (prefix.casefold(), chr(3 + len(significant)), significant, name)
     if _LOW(name) is not None:
         raise _Plain(name)
     chunks, _ = natural_key(name)
@@ -62,15 +72,38 @@ def name_text(name: str) -> str:
     return "".join(out)
 
 
+_SIMPLE = "%s\x00%s%s\x00\x01%s\x00"
+"""A common designator's text: its prefix folded, its number's length character and
+significant digits, the end of the chunks, the name."""
+
+
 def names_text(names: Iterable[str]) -> str:
     """One string comparing as ``tuple(natural_key(n) for n in names)`` does."""
-    return "".join(["\x02" + name_text(name) for name in names]) + "\x01"
+    out = []
+    for name in names:  # name_text's common case written in place
+        simple = _DESIGNATOR(name)
+        if simple is None:
+            out.append("\x02" + name_text(name))
+            continue
+        prefix, digits = simple.groups()
+        significant = digits.lstrip("0")
+        if len(significant) > _LONGEST_RUN:
+            raise _Plain(name)
+        out.append("\x02" + _SIMPLE % (prefix.casefold(), chr(3 + len(significant)),
+                                       significant, name))
+    out.append("\x01")
+    return "".join(out)
+
+
+_RANKS = {severity: -severity_rank(severity) for severity in SEVERITIES}
 
 
 def _finding_key(finding: Finding) -> tuple:
     """:func:`linter.report.common._order` with the names' tuples written as text."""
-    return (-severity_rank(finding.severity), finding.rule, names_text(finding.parts),
-            names_text(finding.nets), finding.message)
+    severity = finding.severity
+    rank = _RANKS[severity] if severity in _RANKS else -severity_rank(severity)
+    return (rank, finding.rule, names_text(finding.parts), names_text(finding.nets),
+            finding.message)
 
 
 def lean_ordered_findings(findings: Iterable[Finding]) -> list[Finding]:
