@@ -357,6 +357,23 @@ def _start_step(net: Network, p: Params, v: np.ndarray) -> None:
     v[:, :n] += np.where(np.isfinite(dx), dx, 0.0)
 
 
+def _rows_start(net: Network, params: Params, x: np.ndarray, max_iterations: int,
+                cold: bool) -> tuple:
+    """What both Newton loops start from: per row, converged (False), iteration count (0)
+    and residual (inf); the active rows (all); the junctions; the unknowns and fixed
+    voltages side by side (V), after :func:`_start_step` when ``cold`` asks for it and the
+    network allows it; the number of the first iteration left to run (2 after the start
+    step, else 1)."""
+    rows, n = params.rows, net.n_nodes
+    v = np.concatenate([x, params.fixed], axis=1)
+    first = 1
+    if cold and n and rows and len(net.diodes) and not len(net.bjts) and max_iterations > 1:
+        _start_step(net, params, v)
+        first = 2
+    return (np.zeros(rows, bool), np.zeros(rows, int), np.full(rows, np.inf), np.arange(rows),
+            _Junctions.of(params), v, first)
+
+
 def _solve_rows(net: Network, params: Params, x: np.ndarray, max_iterations: int,
                 cold: bool = False) -> Solution:
     """Newton's method on the rows; ``cold`` (no initial voltages given) starts with
@@ -365,20 +382,13 @@ def _solve_rows(net: Network, params: Params, x: np.ndarray, max_iterations: int
     A row's count and residual are written when it converges (and, for the rows left, once
     at the end), not at every iteration; converged rows leave the arrays through one index.
     The arithmetic is :func:`_solve_rows_plain`'s, operation for operation: the same numbers
-    bit for bit (tests/test_solve_fast.py). On the tiny networks of a check each iteration
+    bit for bit (tests/test_solve_rows_plain.py). On the tiny networks of a check each iteration
     costs numpy's per-call overhead more than arithmetic, so fewer calls is faster.
     """
-    rows, n = params.rows, net.n_nodes
-    converged = np.zeros(rows, bool)
-    iterations = np.zeros(rows, int)
-    residual = np.full(rows, np.inf)
-    active = np.arange(rows)
-    p, junctions = params, _Junctions.of(params)
-    v = np.concatenate([x, params.fixed], axis=1)
-    first = 1
-    if cold and n and rows and len(net.diodes) and not len(net.bjts) and max_iterations > 1:
-        _start_step(net, p, v)
-        first = 2
+    n = net.n_nodes
+    converged, iterations, residual, active, junctions, v, first = _rows_start(
+        net, params, x, max_iterations, cold)
+    p = params
     last, largest = 0, None
     for step in range(first, max_iterations + 1):
         if active.size == 0:
@@ -415,17 +425,10 @@ def _solve_rows_plain(net: Network, params: Params, x: np.ndarray, max_iteration
     """:func:`_solve_rows` as first written (the plain twin its tests compare with, number
     for number): each iteration records every active row's count and residual, and the
     arrays are cut down with boolean masks."""
-    rows, n = params.rows, net.n_nodes
-    converged = np.zeros(rows, bool)
-    iterations = np.zeros(rows, int)
-    residual = np.full(rows, np.inf)
-    active = np.arange(rows)
-    p, junctions = params, _Junctions.of(params)
-    v = np.concatenate([x, params.fixed], axis=1)
-    first = 1
-    if cold and n and rows and len(net.diodes) and not len(net.bjts) and max_iterations > 1:
-        _start_step(net, p, v)
-        first = 2
+    n = net.n_nodes
+    converged, iterations, residual, active, junctions, v, first = _rows_start(
+        net, params, x, max_iterations, cold)
+    p = params
     for step in range(first, max_iterations + 1):
         if active.size == 0:
             break
