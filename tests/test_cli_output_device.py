@@ -33,10 +33,12 @@ def test_devices_and_pipes_are_written_in_place(tmp_path: Path) -> None:
     assert not writes_in_place(tmp_path / "absent.json")
 
 
-@pytest.mark.skipif(not hasattr(os, "mkfifo"), reason="no named pipes on this system")
-def test_report_through_a_fifo_is_the_file_report(tmp_path: Path) -> None:
+def _check_through_a_fifo(args: list[str], tmp_path: Path) -> tuple[int, int, bytes, bytes]:
+    """``ledlint`` run twice on ``args``: once to a regular file, once to a named pipe read
+    by a thread. The exit codes of both, the file's bytes and the bytes the pipe gave; the
+    pipe must still be a pipe afterwards (not a file renamed over it)."""
     expected_file = tmp_path / "report.json"
-    code = main([*ARGS, "--output", str(expected_file)])
+    code_file = main([*args, "--output", str(expected_file)])
     fifo = tmp_path / "pipe"
     os.mkfifo(fifo)
     received: list[bytes] = []
@@ -47,10 +49,17 @@ def test_report_through_a_fifo_is_the_file_report(tmp_path: Path) -> None:
 
     reader = threading.Thread(target=read, daemon=True)
     reader.start()
-    assert main([*ARGS, "--output", str(fifo)]) == code
+    code_fifo = main([*args, "--output", str(fifo)])
     reader.join(timeout=60)
-    assert stat.S_ISFIFO(os.stat(fifo).st_mode)    # still the pipe, not a file renamed over it
-    assert received == [expected_file.read_bytes()]
+    assert stat.S_ISFIFO(os.stat(fifo).st_mode)
+    return code_file, code_fifo, expected_file.read_bytes(), b"".join(received)
+
+
+@pytest.mark.skipif(not hasattr(os, "mkfifo"), reason="no named pipes on this system")
+def test_report_through_a_fifo_is_the_file_report(tmp_path: Path) -> None:
+    code_file, code_fifo, expected, received = _check_through_a_fifo(ARGS, tmp_path)
+    assert code_fifo == code_file
+    assert received == expected
     assert sorted(p.name for p in tmp_path.iterdir()) == ["pipe", "report.json"]
 
 
@@ -58,20 +67,7 @@ def test_report_through_a_fifo_is_the_file_report(tmp_path: Path) -> None:
 def test_combined_report_of_several_boards_through_a_fifo(tmp_path: Path) -> None:
     """The several-boards path (one combined report) writes a pipe in place too."""
     boards = [str(DEMO / "dust_extractor_panel.edif"), str(DEMO / "dust_extractor_panel.edif")]
-    many = ["check", *boards, "--format", "json"]
-    expected_file = tmp_path / "report.json"
-    code = main([*many, "--output", str(expected_file)])
-    fifo = tmp_path / "pipe"
-    os.mkfifo(fifo)
-    received: list[bytes] = []
-
-    def read() -> None:
-        with open(fifo, "rb") as stream:
-            received.append(stream.read())
-
-    reader = threading.Thread(target=read, daemon=True)
-    reader.start()
-    assert main([*many, "--output", str(fifo)]) == code
-    reader.join(timeout=60)
-    assert stat.S_ISFIFO(os.stat(fifo).st_mode)
-    assert received == [expected_file.read_bytes()]
+    code_file, code_fifo, expected, received = _check_through_a_fifo(
+        ["check", *boards, "--format", "json"], tmp_path)
+    assert code_fifo == code_file
+    assert received == expected

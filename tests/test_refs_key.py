@@ -7,26 +7,13 @@ casefolded). Nothing is pasted from the tool's output.
 
 from __future__ import annotations
 
-import re
-
 from hypothesis import example, given
 from hypothesis import strategies as st
 
 from linter.model import Circuit
 from linter.refs import natural_key
 from linter.topology_index import CircuitIndex
-
-_DIGIT_RUNS = re.compile(r"(\d+)")
-
-
-def _plain_key(ref: str) -> tuple[tuple[str | tuple[int, str], ...], str]:
-    def number(digits: str) -> tuple[int, str]:
-        significant = digits.lstrip("0")
-        return len(significant), significant
-    chunks = _DIGIT_RUNS.split(ref)
-    return tuple(number(chunk) if index % 2 else chunk.casefold()
-                 for index, chunk in enumerate(chunks)), ref
-
+from plain_definitions import plain_key
 
 _NAMEISH = st.text(alphabet=st.sampled_from("DRQdrS/_-.0123456789\u0661\u00df\u0130 "), max_size=12)
 
@@ -44,13 +31,13 @@ _NAMEISH = st.text(alphabet=st.sampled_from("DRQdrS/_-.0123456789\u0661\u00df\u0
 @example("G1_N007")  # two digit runs: the unrolled five-chunk path
 @example("1a2")
 @example("S2/R7/X3")  # three runs: the loop
-def test_natural_key_is_the_plain_key(name: str) -> None:
-    assert natural_key(name) == _plain_key(name)
+def test_natural_key_is_theplain_key(name: str) -> None:
+    assert natural_key(name) == plain_key(name)
 
 
 @given(st.lists(_NAMEISH, max_size=20))
-def test_natural_key_sorts_as_the_plain_key(names: list[str]) -> None:
-    assert sorted(names, key=natural_key) == sorted(names, key=_plain_key)
+def test_natural_key_sorts_as_theplain_key(names: list[str]) -> None:
+    assert sorted(names, key=natural_key) == sorted(names, key=plain_key)
 
 
 def test_topology_index_sorts_with_the_refs_key() -> None:
@@ -58,4 +45,4 @@ def test_topology_index_sorts_with_the_refs_key() -> None:
     circuit = Circuit("x.cir", "spice", {}, {})
     index = CircuitIndex(circuit, {}, {})
     assert index.sort_key.__self__.compute is natural_key  # type: ignore[attr-defined]
-    assert index.sort_key("R010") == _plain_key("R010")
+    assert index.sort_key("R010") == plain_key("R010")

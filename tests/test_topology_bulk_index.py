@@ -6,15 +6,14 @@ or one name at a time).
 
 from __future__ import annotations
 
-import re
-
 from hypothesis import example, given, settings
 from hypothesis import strategies as st
 
 from linter.model import Circuit, Part, Pin, SourceLocation
 from linter.partdata import BjtData, LedData, McuData, MosfetData, ResistorData
 from linter.refs import natural_key
-from linter.topology_index import DC_OPEN_KINDS, SERIES_KINDS, CircuitIndex
+from linter.topology_index import CircuitIndex
+from plain_definitions import plain_key, plain_kind, plain_role
 
 _HERE = SourceLocation("t", 1, 1)
 _KINDS = ["led", "resistor", "link", "capacitor", "transistor", "npn", "pmos", "mcu", "ic",
@@ -30,24 +29,6 @@ class _OwnBjt(BjtData):
 def _data(choice: int):
     return [None, LedData(), ResistorData(ohms=100.0), BjtData(polarity="pnp"),
             MosfetData(polarity="nmos"), McuData(), _OwnBjt(polarity="npn")][choice]
-
-
-def _plain_kind(part: Part, data) -> str:
-    if part.kind == "transistor" and isinstance(data, (BjtData, MosfetData)):
-        return data.polarity
-    if part.kind != "mcu" and isinstance(data, McuData):
-        return "mcu"
-    return part.kind
-
-
-def _plain_role(kind: str, pins: int) -> str:
-    if kind in DC_OPEN_KINDS:
-        return "open"
-    if kind in SERIES_KINDS:
-        return "series" if pins == 2 else "foreign"
-    if kind in ("npn", "pnp", "nmos", "pmos"):
-        return "transistor"
-    return "mcu" if kind == "mcu" else "foreign"
 
 
 _part = st.tuples(st.sampled_from(_KINDS), st.integers(0, 4), st.integers(0, 6))
@@ -67,9 +48,9 @@ def test_kinds_and_roles_are_the_plain_ones(specs, stray_data) -> None:
         data["NOT-ON-BOARD"] = McuData()
     index = CircuitIndex(Circuit("t", "spice", parts, {}), {}, data)
     for ref, part in parts.items():
-        kind = _plain_kind(part, data.get(ref))
+        kind = plain_kind(part, data.get(ref))
         assert index.kind(ref) == kind
-        assert index.role(ref) == _plain_role(kind, len(part.pins))
+        assert index.role(ref) == plain_role(kind, len(part.pins))
     assert list(index.roles) == list(parts)  # one entry a part, in netlist order
 
 
@@ -85,18 +66,6 @@ def test_led_list_is_circuit_leds(kinds) -> None:
                                               key=lambda refs: natural_key(refs[0]))
 
 
-_DIGIT_RUNS = re.compile(r"(\d+)")
-
-
-def _plain_key(ref: str):
-    def number(digits: str) -> tuple[int, str]:
-        significant = digits.lstrip("0")
-        return len(significant), significant
-    chunks = _DIGIT_RUNS.split(ref)
-    return tuple(number(chunk) if index % 2 else chunk.casefold()
-                 for index, chunk in enumerate(chunks)), ref
-
-
 @settings(deadline=None)
 @given(st.text(alphabet=st.sampled_from("DdRß\u0130\u01c5_ 0123456789\u0661"), max_size=8))
 @example("D1")
@@ -108,7 +77,7 @@ def _plain_key(ref: str):
 @example("12")  # no letters
 @example("D")  # no digits
 def test_natural_key_string_method_path(name: str) -> None:
-    assert natural_key(name) == _plain_key(name)
+    assert natural_key(name) == plain_key(name)
 
 
 def test_mcu_on_is_the_splits_mcu_pins(tmp_path) -> None:

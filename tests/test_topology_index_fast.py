@@ -18,32 +18,11 @@ from linter.partdata import BjtData, McuData, MosfetData
 from linter.parts import resolve_part_data
 from linter.rails import resolve_rails
 from linter.readers import read_netlist
-from linter.topology_index import DC_OPEN_KINDS, LED_ANODE_NAMES, LED_CATHODE_NAMES, \
-    SERIES_KINDS, CircuitIndex
+from linter.topology_index import LED_ANODE_NAMES, LED_CATHODE_NAMES, CircuitIndex
+from plain_definitions import plain_kind, plain_role
 
 ROOT = Path(__file__).resolve().parents[1]
 DEMO = ROOT / "fixtures" / "demo"
-
-
-def _plain_kind(index: CircuitIndex, ref: str) -> str:
-    """The kind as the index defines it, one part at a time."""
-    part = index.circuit.parts[ref]
-    data = index.part_data.get(ref)
-    if part.kind == "transistor" and isinstance(data, (BjtData, MosfetData)):
-        return data.polarity
-    if part.kind != "mcu" and isinstance(data, McuData):
-        return "mcu"
-    return part.kind
-
-
-def _plain_role(kind: str, pins: int) -> str:
-    if kind in DC_OPEN_KINDS:
-        return "open"
-    if kind in SERIES_KINDS and pins == 2:
-        return "series"
-    if kind in ("npn", "pnp", "nmos", "pmos"):
-        return "transistor"
-    return "mcu" if kind == "mcu" else "foreign"
 
 
 def _plain_led_pins(part: Part) -> tuple[Pin, Pin] | None:
@@ -61,9 +40,9 @@ def test_kinds_roles_and_led_pins_of_the_demo(netlist: str) -> None:
     circuit, part_data = resolve_part_data(read_netlist(path), settings_)
     index = CircuitIndex(circuit, resolve_rails(circuit, settings_), part_data)
     for ref, part in circuit.parts.items():
-        kind = _plain_kind(index, ref)
+        kind = plain_kind(index.circuit.parts[ref], index.part_data.get(ref))
         assert index.kind(ref) == kind
-        assert index.role(ref) == _plain_role(kind, len(part.pins))
+        assert index.role(ref) == plain_role(kind, len(part.pins))
         if part.kind == "led":
             assert index.led_pins(ref) == _plain_led_pins(part)
 
