@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import struct
 from collections import OrderedDict
+from itertools import compress
 from dataclasses import replace
 from typing import Any, Callable, Iterable, Iterator
 
@@ -19,7 +20,7 @@ from linter.units import format_si
 __all__ = ["part_location", "solved_groups", "group_rail", "led_data", "resistor_data", "bjt_data",
            "corner_phrase", "at_corner", "amps", "volts", "ohms", "watts", "say", "memoised",
            "sink_design", "sink_search", "forget_board", "figures_of", "renamer", "PerTemplate",
-           "renamed_corner", "nameless_at_corner"]
+           "renamed_corner", "nameless_at_corner", "flagged"]
 
 
 def part_location(context: Any, ref: str) -> Any:
@@ -35,13 +36,17 @@ def solved_groups(context: Any) -> Iterator[Any]:
     path is left out), so its figures are no ground for a verdict: ``unchecked-group`` reports
     it instead.
     """
+    yield from _solved_of(context)
+
+
+def _solved_of(context: Any) -> tuple:
+    """:func:`solved_groups` as a tuple, kept for the board's groups when they are one."""
     groups = getattr(context, "groups", ()) or ()
     if not isinstance(groups, tuple):  # a list may change between calls: nothing kept
-        yield from _solved(groups)
-        return
+        return _solved(groups)
     if _SOLVED[0] is not groups:  # every rule asks; the board's groups are sorted out once
-        _SOLVED[:] = [groups, _solved(groups)]
-    yield from _SOLVED[1]
+        _SOLVED[:] = [groups, _solved(groups), None]
+    return _SOLVED[1]
 
 
 def _solved(groups: Iterable[Any]) -> tuple:
@@ -49,14 +54,50 @@ def _solved(groups: Iterable[Any]) -> tuple:
                  and result.group.topology != "unrecognised")
 
 
-_SOLVED: list = [None, ()]
-"""(the groups last asked about, their solved and recognised results)."""
+_SOLVED: list = [None, (), None]
+"""(the groups last asked about, their solved and recognised results, :func:`_templates`
+of those results or None until asked)."""
+
+
+def _templates(results: tuple) -> tuple[tuple[int, ...], dict[int, Any]]:
+    """(the id of each result's template, in order; the templates by id). A result with no
+    ``origin`` is its own template."""
+    ids = []
+    bases: dict[int, Any] = {}
+    for result in results:
+        origin = result.origin
+        base = result if origin is None else origin[0]
+        key = id(base)
+        ids.append(key)
+        if key not in bases:
+            bases[key] = base
+    return tuple(ids), bases
+
+
+def flagged(context: Any, verdicts: "PerTemplate") -> Iterator[tuple[Any, Any]]:
+    """(result, its template's verdict) of each of :func:`solved_groups` whose template's
+    verdict (``verdicts``, one check's :class:`PerTemplate`) is true, in order.
+
+    The same pairs as ``((r, verdicts(r)) for r in solved_groups(context) if
+    verdicts(r))``: each template's verdict is worked out once, and the followers of a
+    template with a false verdict (nothing to report) are passed over together, without a
+    step of Python each. The board's templates are sorted out once for every rule."""
+    results = _solved_of(context)
+    if _SOLVED[1] is results and _SOLVED[0] is not None:
+        if _SOLVED[2] is None:
+            _SOLVED[2] = _templates(results)
+        ids, bases = _SOLVED[2]
+    else:  # groups not kept (not a tuple): sorted out for this call only
+        ids, bases = _templates(results)
+    answers = {key: verdicts(base) for key, base in bases.items()}
+    picked = list(map(answers.__getitem__, ids))
+    return compress(zip(results, picked), picked)
 
 
 def forget_board() -> None:
     """Drop what the helpers keep of the board last checked (the engine calls it after the
     rules, so that a run over several boards holds one board at a time)."""
-    _SOLVED[:] = [None, ()]
+    _SOLVED[:] = [None, (), None]
     _PHRASES.clear()
     from linter import fix_search
     fix_search.forget_board()

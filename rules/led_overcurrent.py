@@ -7,8 +7,8 @@ from typing import Any, Iterable
 from linter import fix_search
 from linter.findings import Finding
 from linter.results import GroupResult, LedResult
-from linter.rulekit import (amps, at_corner, figures_of, led_data, ohms, renamer, say,
-                            solved_groups)
+from linter.rulekit import (PerTemplate, amps, at_corner, figures_of, flagged, led_data, ohms,
+                            renamer, say)
 from linter.rules import Rule, register
 
 SHARED = "shared-ballast"
@@ -85,7 +85,8 @@ class LedOvercurrent(Rule):
         pulsed = context.settings.pulsed
         pulsed_on = bool(pulsed) and context.enabled(PULSED)
         overs: dict[int, tuple[GroupResult, tuple]] = {}
-        for result in solved_groups(context):
+        verdicts = PerTemplate(lambda base: _over_of(context, base, overs))
+        for result, _ in flagged(context, verdicts):  # groups with an LED over its limit
             group = result.group
             if shared_on and group.topology == "parallel" and len(group.strings) > 1:
                 continue

@@ -9,8 +9,8 @@ from linter.dissipation import Allowance, over, semiconductor_allowance
 from linter.findings import Finding
 from linter.fixes import resistor_for_current_solved
 from linter.results import GroupResult, LedResult
-from linter.rulekit import (amps, at_corner, figures_of, led_data, ohms, part_location, renamer,
-                            say, solved_groups, volts, watts)
+from linter.rulekit import (PerTemplate, amps, at_corner, figures_of, flagged, led_data, ohms,
+                            part_location, renamer, say, volts, watts)
 from linter.rules import Rule, register
 
 
@@ -50,19 +50,9 @@ class LedOverpower(Rule):
     def check(self, context: Any) -> Iterable[Finding]:
         ambient = context.settings.ambient.max
         share = context.settings.derating.transistor_power
-        for result in solved_groups(context):
-            hot: list[tuple[LedResult, Allowance]] = []
-            base, refs = figures_of(result)  # a follower's records are left unbuilt
-            name = renamer(refs)
-            for led in base.leds:
-                data = led_data(context, name(led.ref))
-                if data is None or data.pd_max is None or "pd_max" in data.assumed:
-                    continue
-                allowance = semiconductor_allowance(data.pd_max, ambient, share)
-                if over(led.power.max, allowance):
-                    hot.append((led, allowance))
-            if hot:
-                yield self._finding(context, result, hot)
+        verdicts = PerTemplate(lambda base: _hot(context, base, ambient, share))
+        for result, hot in flagged(context, verdicts):
+            yield self._finding(context, result, list(hot))
 
     def _finding(self, context: Any, result: GroupResult,
                  hot: list[tuple[LedResult, Allowance]]) -> Finding:
@@ -87,6 +77,24 @@ class LedOverpower(Rule):
                        parts=tuple(name(x.ref) for x, _ in hot), group=result.id,
                        values=values, fix=_fix(context, result, hot, led, allowance, values),
                        location=part_location(context, ref))
+
+
+def _hot(context: Any, result: GroupResult, ambient: float, share: float
+         ) -> tuple[tuple[LedResult, Allowance], ...]:
+    """(LED record, its allowance) of each LED of the group dissipating more than its
+    derated pd_max allows at ``ambient`` (°C) and ``share``, in order. Figures and part
+    data only: a follower's figures are its template's in the same order and its LEDs' part
+    data equal the template's but for the note (:mod:`linter.group_key`), so the template's
+    answer is the follower's (its records named through ``refs``)."""
+    hot: list[tuple[LedResult, Allowance]] = []
+    for led in result.leds:
+        data = led_data(context, led.ref)
+        if data is None or data.pd_max is None or "pd_max" in data.assumed:
+            continue
+        allowance = semiconductor_allowance(data.pd_max, ambient, share)
+        if over(led.power.max, allowance):
+            hot.append((led, allowance))
+    return tuple(hot)
 
 
 def _fix(context: Any, result: GroupResult, hot: list[tuple[LedResult, Allowance]],

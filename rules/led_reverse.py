@@ -6,7 +6,8 @@ from typing import Any, Iterable
 
 from linter.findings import Finding
 from linter.results import GroupResult, LedResult
-from linter.rulekit import at_corner, figures_of, led_data, renamer, say, solved_groups, volts
+from linter.rulekit import (PerTemplate, at_corner, figures_of, flagged, led_data, renamer, say,
+                            volts)
 from linter.rules import Rule, register
 
 
@@ -43,17 +44,11 @@ class LedReverse(Rule):
     default_severity = "error"
 
     def check(self, context: Any) -> Iterable[Finding]:
-        for result in solved_groups(context):
-            base, refs = figures_of(result)  # a follower's records are left unbuilt
-            name = renamer(refs)
-            for led in base.leds:
-                ref = name(led.ref)
-                data = led_data(context, ref)
-                if data is None or data.vr_max is None:
-                    continue
-                if led.reverse_v > data.vr_max:
-                    yield self._finding(context, result, led, data.vr_max,
-                                        "vr_max" in data.assumed, ref)
+        verdicts = PerTemplate(lambda base: _reversed(context, base))
+        for result, over in flagged(context, verdicts):
+            name = renamer(figures_of(result)[1])  # a follower's records are left unbuilt
+            for led, vr_max, generic in over:
+                yield self._finding(context, result, led, vr_max, generic, name(led.ref))
 
     def _finding(self, context: Any, result: GroupResult, led: LedResult, vr_max: float,
                  generic: bool, ref: str | None = None) -> Finding:
@@ -75,6 +70,22 @@ class LedReverse(Rule):
         return Finding(rule=self.id, severity=context.severity(self), message=message,
                        parts=(ref,), nets=nets, group=result.id, values=values, fix=fix,
                        location=None if part is None else part.location)
+
+
+def _reversed(context: Any, result: GroupResult) -> tuple[tuple[LedResult, float, bool], ...]:
+    """(LED record, vr_max in V, whether vr_max is a generic figure) of each LED of the
+    group whose reverse voltage is above its vr_max, in order. Figures and part data only:
+    a follower's figures are its template's in the same order and its LEDs' part data equal
+    the template's but for the note (:mod:`linter.group_key`), so the template's answer is
+    the follower's (its records named through ``refs``)."""
+    out = []
+    for led in result.leds:
+        data = led_data(context, led.ref)
+        if data is None or data.vr_max is None:
+            continue
+        if led.reverse_v > data.vr_max:
+            out.append((led, data.vr_max, "vr_max" in data.assumed))
+    return tuple(out)
 
 
 def _why(result: GroupResult) -> str:

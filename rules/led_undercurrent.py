@@ -9,8 +9,8 @@ from linter.config import RuleOption
 from linter.findings import Finding
 from linter.refs import fold_refs, natural_sorted
 from linter.results import GroupResult, LedResult
-from linter.rulekit import (PerTemplate, amps, at_corner, figures_of, ohms, renamer, say,
-                            solved_groups, volts)
+from linter.rulekit import (PerTemplate, amps, at_corner, figures_of, flagged, ohms, renamer, say,
+                            volts)
 from linter.rules import Rule, register
 from linter.rules.led_overcurrent import current_resistor, is_shared, target_current
 from linter.unionfind import UnionFind
@@ -64,7 +64,7 @@ class LedUndercurrent(Rule):
         yield from self._shorted(context)
         floor = float(context.option(self, "visible_floor"))
         verdicts = PerTemplate(lambda base: _verdict(context, base, floor))
-        for result in solved_groups(context):
+        for result, _ in flagged(context, verdicts):  # groups with an LED below the floor
             finding = self._group_finding(context, result, floor, verdicts)
             if finding is not None:
                 yield finding

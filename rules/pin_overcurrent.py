@@ -10,8 +10,8 @@ from linter.fixes import resistor_for_current_solved
 from linter.partdata import McuData
 from linter.refs import fold_refs
 from linter.results import GroupResult, PinResult
-from linter.rulekit import (amps, at_corner, figures_of, ohms, part_location, renamer, say,
-                            solved_groups)
+from linter.rulekit import (PerTemplate, amps, at_corner, figures_of, flagged, ohms, part_location,
+                            renamer, say)
 from linter.rules import Rule, register
 
 
@@ -51,7 +51,8 @@ class PinOvercurrent(Rule):
 
     def check(self, context: Any) -> Iterable[Finding]:
         contributions: dict[str, list[tuple[PinResult, GroupResult]]] = {}
-        for result in solved_groups(context):
+        has_pins = PerTemplate(lambda base: bool(base.pins))  # a follower's: its template's
+        for result, _ in flagged(context, has_pins):
             for pin in _pins(result):
                 if pin.current_max is not None and pin.current.max > pin.current_max:
                     yield self._pin_finding(context, result, pin)

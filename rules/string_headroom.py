@@ -12,8 +12,8 @@ from linter.findings import Finding
 from linter.fixes import SinkDesign, rail_for_resistor
 from linter.partdata import Rail
 from linter.results import GroupResult, LedResult
-from linter.rulekit import (amps, at_corner, figures_of, group_rail, nameless_at_corner, ohms,
-                            renamer, sink_search, solved_groups, volts, watts)
+from linter.rulekit import (PerTemplate, amps, at_corner, figures_of, flagged, group_rail,
+                            nameless_at_corner, ohms, renamer, sink_search, volts, watts)
 from linter.rules import Rule, register
 from linter import fix_search
 
@@ -103,9 +103,15 @@ class StringHeadroom(Rule):
         severity = context.severity(self)  # the same for every finding of the board
         _REFERENCES.clear()  # the board's rails are read afresh for each check
         swings: dict[int, tuple[GroupResult, Swing | None]] = {}
-        for result in solved_groups(context):
-            if result.group.topology in SKIPPED or not _set_by_resistor(figures_of(result)[0]):
-                continue
+
+        def swing(base: GroupResult) -> "Swing | None":
+            """The template's swing, None for a group this rule passes over (topology and
+            setter: a follower's are its template's, see :meth:`_swing_of`)."""
+            if base.group.topology in SKIPPED or not _set_by_resistor(base):
+                return None
+            return self._swing_of(context, base, ratio, swings)
+
+        for result, _ in flagged(context, PerTemplate(swing)):
             finding = self._group_finding(context, result, ratio, severity, swings)
             if finding is not None:
                 yield finding

@@ -62,3 +62,41 @@ def test_per_template_works_once_per_template():
     assert [memo(r) for r in (template, *followers)] == [1, 1, 1, 1]
     other = SimpleNamespace(origin=None)
     assert memo(other) == 2 and calls == [template, other]
+
+
+def _board_of(results):
+    """A context holding ``results`` as its groups (a tuple: the board's templates kept)."""
+    group = SimpleNamespace(topology="series")
+    for result in results:
+        result.status, result.group = "solved", group
+    return SimpleNamespace(groups=tuple(results))
+
+
+def test_flagged_gives_the_plain_filter_in_order():
+    # expected: the plain generator of flagged's docstring, on invented templates and followers
+    templates = [SimpleNamespace(origin=None, mark=m) for m in (0, 1, 2, 0)]
+    results = []
+    for index, template in enumerate(templates):
+        results.append(template)
+        results += [SimpleNamespace(origin=(template, {})) for _ in range(index + 1)]
+    results.insert(3, SimpleNamespace(origin=(templates[3], {})))  # out of template order
+    context = _board_of(results)
+    calls = []
+
+    def verdict(base):
+        calls.append(base)
+        return base.mark
+
+    try:
+        for kept in (True, False):  # the board's templates kept, and worked out per call
+            if not kept:
+                context.groups = list(context.groups)
+            verdicts = rulekit.PerTemplate(verdict)
+            plain = [(r, verdict(r.origin[0] if r.origin else r)) for r in results
+                     if verdict(r.origin[0] if r.origin else r)]
+            calls.clear()
+            assert list(rulekit.flagged(context, verdicts)) == plain
+            assert sorted(map(id, calls)) == sorted(map(id, templates))  # once each
+            assert [v for _, v in plain] == [1] * 3 + [2] * 4  # template 1 and 2 with followers
+    finally:
+        rulekit.forget_board()
