@@ -31,8 +31,9 @@ from linter.errors import NetlistError
 from linter.kinds import infer_kind
 from linter.model import Circuit, Net, Part, Pin, SourceLocation, location_packer
 from linter.readers.edif_compound import EdifCompounds
+from linter.readers.edif_direct import FlatPlan, flat_plan
 from linter.readers.edif_flatten import FlatDesign, Leaf, NetWire, flatten, pin_names
-from linter.readers.edif_syntax import EdifFile, _child, read_edif_file
+from linter.readers.edif_syntax import Cell, EdifFile, Instance, View, _child, read_edif_file
 from linter.readers.sexpr import Document, parse, paused_gc
 from linter.units import ValueParseError, parse_number
 
@@ -91,9 +92,23 @@ def _read(text: str, source: str) -> Circuit:
     return _circuit(parse(text, source))
 
 
-def _circuit(doc: Document) -> Circuit:
-    source = doc.source
+def _circuit(doc: Document, direct: bool = True) -> Circuit:
+    """The circuit of a parsed netlist: a flat design by the flat road
+    (:mod:`linter.readers.edif_direct`) where it applies and ``direct`` is set, else by the
+    plain walk (its twin, which reads every design)."""
     edif = read_edif_file(doc)
+    if direct:
+        plan = flat_plan(edif)
+        if plan is not None:
+            refs = _flat_refs(plan.instances)
+            if refs is not None:
+                return _flat_circuit(doc, edif, plan, refs)
+    return _walked_circuit(doc, edif)
+
+
+def _walked_circuit(doc: Document, edif: EdifFile) -> Circuit:
+    """The circuit by the hierarchy walk (:mod:`linter.readers.edif_flatten`)."""
+    source = doc.source
     flat = flatten(edif)
     refs = _part_refs(flat.leaves, doc)
     net_names, chosen = _net_names(flat, doc)
@@ -107,6 +122,56 @@ def _circuit(doc: Document) -> Circuit:
     parts = _parts(leaves, refs, places, flat, net_names, doc)
     nets = _nets(parts, chosen, net_names, flat, doc, ordered, places[len(refs):])
     return Circuit(source=source, format="edif", parts=parts, nets=nets, design=design)
+
+
+def _flat_refs(instances: list[Instance]) -> list[str] | None:
+    """:func:`_part_refs` of a flat design's parts (a leaf's path is its instance name), or
+    None where two would be equal (the plain road refuses that, located)."""
+    candidates = _candidates_of(instances)
+    counts = Counter(candidates)
+    if len(counts) == len(candidates):
+        return candidates
+    refs = [c if counts[c] == 1 else instance.name.display
+            for c, instance in zip(candidates, instances)]
+    return refs if len(set(refs)) == len(refs) else None
+
+
+def _flat_circuit(doc: Document, edif: EdifFile, plan: FlatPlan, refs: list[str]) -> Circuit:
+    """The circuit of a flat design from its plan; as the plain road makes it (same parts,
+    pins, nets, names, order and places: ``tests/test_edif_direct.py``)."""
+    design = edif.design.name.display if edif.design is not None else ""
+    instances, targets = plan.instances, plan.targets
+    forms = [instance.form for instance in instances] + [net.form for net in plan.nets]
+    plan.instances = plan.nets = []  # type: ignore[assignment]  # the net records can go
+    _release_instances(edif)
+    del edif
+    places = _locations(doc, forms)
+    del forms
+    names, pin_nets, firsts = plan.names, plan.pin_nets, plan.firsts
+    maker = _PartMaker(None, {}, doc)  # type: ignore[arg-type]
+    known, make, pin_names_of = maker.pins, maker.make, maker.view_pin_names
+    joined: list[list[tuple[str, str]]] = [[] for _ in names]
+    parts: dict[str, Part] = {}
+    for index, (ref, place, target) in enumerate(zip(refs, places, targets)):
+        instance, view = instances[index], target.view
+        first, pins = firsts[index], []
+        for slot, name in enumerate(pin_names_of(view), first):
+            number = pin_nets[slot]
+            net = None if number is None else names[number]
+            pin = known.get((name, net))
+            if pin is None:
+                pin = known[(name, net)] = Pin(name, net)
+            pins.append(pin)
+            if number is not None:
+                joined[number].append((ref, name))
+        parts[ref] = make(instance, target.cell, view, ref, place, instance.name.display,
+                          tuple(pins))
+        instances[index] = None  # type: ignore[call-overload]  # its record can go
+    count = len(refs)
+    circuit_nets = {name: Net(name, tuple(pins), place, ())
+                    for name, pins, place in zip(names, joined, places[count:])}
+    return Circuit(source=doc.source, format="edif", parts=parts, nets=circuit_nets,
+                   design=design)
 
 
 def _parts(leaves: list[Leaf], refs: list[str], places: list[SourceLocation], flat: FlatDesign,
@@ -161,12 +226,16 @@ def _property_reference(properties: dict[str, str]) -> str | None:
 
 
 def _candidates(leaves: list[Leaf]) -> list[str]:
-    """Each leaf's designator, else its reference property, else its instance name; the
+    """Each leaf's designator, else its reference property, else its instance name."""
+    return _candidates_of([leaf.instance for leaf in leaves])
+
+
+def _candidates_of(instances: list[Instance]) -> list[str]:
+    """Each instance's designator, else its reference property, else its name; the
     properties are looked at once per distinct table (tables are shared between instances)."""
-    by_table: dict[int, str | None] = {}  # the leaves keep the tables alive: ids are unique
+    by_table: dict[int, str | None] = {}  # the instances keep the tables alive: ids are unique
     found = []
-    for leaf in leaves:
-        instance = leaf.instance
+    for instance in instances:
         ref = instance.designator
         if not ref:
             table = instance.properties
@@ -225,8 +294,8 @@ class _Fields:
     properties: dict[str, str]
 
 
-def _fields(leaf: Leaf) -> _Fields:
-    merged = {**leaf.cell.properties, **leaf.view.properties, **leaf.instance.properties}
+def _fields(cell: Cell, view: View, instance: Instance) -> _Fields:
+    merged = {**cell.properties, **view.properties, **instance.properties}
     normal = [(_normal(name), name, value) for name, value in merged.items()]
     by_key = {key: value for key, _, value in normal}
     part_number = next((by_key[k] for k in PART_NUMBER_KEYS if k in by_key), None)
@@ -260,17 +329,24 @@ class _PartMaker:
         self.kept: list[object] = []  # what the ids above name, kept alive: ids stay unique
 
     def part(self, leaf: Leaf, ref: str, location: SourceLocation) -> Part:
-        key = (id(leaf.cell), id(leaf.view), id(leaf.instance.properties))
+        instance = leaf.instance
+        path = "/".join(leaf.names) if leaf.parents else instance.name.display
+        return self.make(instance, leaf.cell, leaf.view, ref, location, path, self.pins_of(leaf))
+
+    def make(self, instance: Instance, cell: Cell, view: View, ref: str,
+             location: SourceLocation, path: str, pins: tuple[Pin, ...]) -> Part:
+        """The part an instance of ``cell``'s ``view`` places, with its pins made."""
+        key = (id(cell), id(view), id(instance.properties))
         fields = self.fields.get(key)
         if fields is None:
-            fields = self.fields[key] = _fields(leaf)
-            self.kept += (leaf.cell, leaf.view, leaf.instance.properties)
-        value, cell = fields.value, leaf.cell.name.display
+            fields = self.fields[key] = _fields(cell, view, instance)
+            self.kept += (cell, view, instance.properties)
+        value, cell_name = fields.value, cell.name.display
         stem = ref.rstrip(_DIGITS)
         known = self.kinds.get((stem, key))
         if known is None:
             kind = infer_kind(ref, value, fields.part_number, fields.description,
-                              fields.package, cell)
+                              fields.package, cell_name)
             reading = self.values.get((kind, value))
             if reading is None:
                 ohms = _ohms(kind, value)
@@ -279,16 +355,20 @@ class _PartMaker:
             known = self.kinds[(stem, key)] = (kind, reading)
         kind, reading = known
         if reading[1]:
-            raise self.doc.error(leaf.instance.form, f"{ref}: {reading[1]}")
-        path = "/".join(leaf.names) if leaf.parents else leaf.instance.name.display
-        return Part(ref, kind, value, self.pins_of(leaf), location, reading[0], path, cell,
+            raise self.doc.error(instance.form, f"{ref}: {reading[1]}")
+        return Part(ref, kind, value, pins, location, reading[0], path, cell_name,
                     fields.part_number, fields.properties)
 
-    def pins_of(self, leaf: Leaf) -> tuple[Pin, ...]:
-        names = self.names.get(id(leaf.view))
+    def view_pin_names(self, view: View) -> tuple[str, ...]:
+        """The pin names of a view, in pin-block order (worked out once per view)."""
+        names = self.names.get(id(view))
         if names is None:
-            names = self.names[id(leaf.view)] = tuple(name for _, _, name in pin_names(leaf.view))
-            self.kept.append(leaf.view)
+            names = self.names[id(view)] = tuple(name for _, _, name in pin_names(view))
+            self.kept.append(view)
+        return names
+
+    def pins_of(self, leaf: Leaf) -> tuple[Pin, ...]:
+        names = self.view_pin_names(leaf.view)
         parent, net_names, known = self.flat.parent, self.net_names, self.pins
         pins = []
         for node, name in enumerate(names, leaf.pins):

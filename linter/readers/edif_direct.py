@@ -1,0 +1,143 @@
+"""The flat road: a design whose top view places only leaf cells, connected without a walk.
+
+Most netlists are flat: one top cell whose contents are the parts and the nets between them.
+For those, :func:`flat_plan` works out which net each pin is on in one pass over the nets'
+port references, instead of the hierarchy walk, the union–find and the placed-net records of
+:mod:`linter.readers.edif_flatten` (its plain twin, which reads every design).
+
+The plan is made only when the plain walk would give the same circuit without any merging
+and without any error; in every other case it returns None and the caller takes the plain
+road, which then also words any error. So it refuses (None) a design where:
+
+* the top view places an instance that is not a leaf, or places nothing, or more instances
+  than ``max_parts`` (or has more nets than ``4 x max_parts``);
+* an instance cannot be resolved, or places a cell with an array port;
+* a net is an array, or joins through a port list or a member, or names an instance or a
+  port that does not exist;
+* one pin, or one of the top cell's own ports, is on two nets or twice on one (the plain
+  road merges such nets);
+* two nets have the same name, or a net has fewer than two connections (the top cell's own
+  ports count as one each).
+
+The equality of both roads is checked in ``tests/test_edif_direct.py``.
+"""
+
+from __future__ import annotations
+
+from collections import Counter
+from dataclasses import dataclass
+from itertools import accumulate
+
+from linter.errors import NetlistError
+from linter.limits import active
+from linter.readers.edif_flatten import _Flattener, _Target, _top
+from linter.readers.edif_syntax import Cell, EdifFile, Instance, Net, PortRef, View
+
+__all__ = ["FlatPlan", "flat_plan"]
+
+
+@dataclass(slots=True)
+class FlatPlan:
+    """A flat design's connectivity.
+
+    ``instances`` and ``targets`` are the top view's instances in order and what each places;
+    the pins of instance ``i`` are slots ``firsts[i]`` onward of ``pin_nets`` (its view's
+    ports in order), each holding the number of the net it is on (in ``nets``) or None.
+    """
+
+    cell: Cell
+    view: View
+    instances: list[Instance]
+    targets: list[_Target]
+    firsts: list[int]
+    pin_nets: list[int | None]
+    nets: list[Net]
+    names: list[str]
+
+
+def flat_plan(edif: EdifFile) -> FlatPlan | None:
+    """The plan of a flat design, or None when the plain road must read it (module docstring).
+
+    Raises only what the plain road raises first as well: the top cell not found.
+    """
+    cell, view = _top(edif)
+    instances = list(view.instances.values())
+    nets = view.nets
+    limit = active().max_parts
+    if not instances or len(instances) > limit or len(nets) > 4 * limit:
+        return None
+    flattener = _Flattener(edif)
+    resolved: dict[tuple[str | None, str, str], _Target] = {}
+    targets: list[_Target] = []
+    try:
+        for instance in instances:
+            key = (instance.library, instance.cell, instance.view)
+            target = resolved.get(key)
+            if target is None:
+                target = resolved[key] = flattener.resolve(instance, cell)
+                if not target.leaf or len(target.ports) != len(target.view.ports):
+                    return None  # a sheet, or a cell with an array port
+            targets.append(target)
+    except NetlistError:
+        return None
+    firsts = list(accumulate((len(target.ports) for target in targets), initial=0))
+    pin_nets: list[int | None] = [None] * firsts.pop()
+    connections = _connect(nets, view, flattener.scalar_ports(view), targets, firsts, pin_nets)
+    if connections is None:
+        return None
+    names = [net.name.display for net in nets]
+    if len(set(names)) != len(names):
+        return None
+    connections.update(pin_nets)
+    if any(connections[number] < 2 for number in range(len(nets))):
+        return None
+    return FlatPlan(cell, view, instances, targets, firsts, pin_nets, nets, names)
+
+
+def _connect(nets: list[Net], view: View, own_ports: dict[str, int], targets: list[_Target],
+             firsts: list[int], pin_nets: list[int | None]) -> Counter | None:
+    """Fill ``pin_nets`` from the nets' port references; the count of the top cell's own
+    ports on each net. None where the plain road would merge, or refuse (module docstring)."""
+    index = {key: number for number, key in enumerate(view.instances)}
+    folded: dict[str, str] = {}  # names repeat: each is case-folded once
+    outside: Counter = Counter()
+    used_own: set[str] = set()
+    for number, net in enumerate(nets):
+        if net.name.dims:
+            return None
+        pairs = _pairs(net)
+        if pairs is None:
+            return None
+        for port, instance in zip(pairs, pairs):
+            port_key = folded.get(port) or folded.setdefault(port, port.casefold())
+            if not instance:
+                if port_key not in own_ports or port_key in used_own:
+                    return None
+                used_own.add(port_key)
+                outside[number] += 1
+                continue
+            at = index.get(folded.get(instance) or folded.setdefault(instance,
+                                                                     instance.casefold()))
+            if at is None:
+                return None
+            pin = targets[at].ports.get(port_key)
+            if pin is None:
+                return None
+            slot = firsts[at] + pin
+            if pin_nets[slot] is not None:
+                return None
+            pin_nets[slot] = number
+    return outside
+
+
+def _pairs(net: Net):
+    """An iterator over the net's (port, instance or '') in turn, or None for a port list or
+    a member reference."""
+    if not net.joined:
+        return iter(net.pairs)
+    texts = list(net.pairs)
+    for entry in net.joined:
+        if type(entry) is not PortRef or entry.member is not None:
+            return None
+        texts += (entry.port, entry.instance or "")
+    return iter(texts)
