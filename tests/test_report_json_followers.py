@@ -293,3 +293,65 @@ def test_a_note_reference_inside_the_text_is_filled_escaped() -> None:
     assert follower.notes == ('D"7: generic rs',)
     assert _lazy_lines_equal_plain([template, follower]).filled == 1
     assert untouched(_watched(follower)) and not untouched(follower)
+
+
+def test_unsafe_is_what_the_json_encoder_escapes() -> None:
+    """Every code point: written as it is, in quotes, exactly when _UNSAFE does not find it
+    (expected: the standard library's encoder, the plain path)."""
+    from linter.report.json_followers import _UNSAFE
+    from linter.report.json_groups import _TEXT
+
+    for code in range(0x110000):
+        char = chr(code)
+        assert (_TEXT(char) == '"' + char + '"') == (_UNSAFE(char) is None), hex(code)
+
+
+def _counted_unsafe(monkeypatch: pytest.MonkeyPatch, force: bool) -> dict[str, int]:
+    """Counts the followers that took the unescaped road ("raw") and those that were sent
+    the escaped way ("escaped"); ``force`` sends every one the escaped way."""
+    from linter.report import json_followers
+
+    search = json_followers._UNSAFE
+    counts = {"raw": 0, "escaped": 0}
+
+    def counted(text: str):
+        found = search(text)
+        if force and found is None:
+            found = search('"')
+        counts["escaped" if found is not None else "raw"] += 1
+        return found
+
+    monkeypatch.setattr(json_followers, "_UNSAFE", counted)
+    return counts
+
+
+@pytest.mark.parametrize("force", [False, True])
+def test_both_roads_give_the_plain_lines_for_odd_names(monkeypatch: pytest.MonkeyPatch,
+                                                       force: bool) -> None:
+    counts = _counted_unsafe(monkeypatch, force)
+    template, note_parts = _template()
+    followers = []
+    for index in range(len(ODD_NAMES)):
+        names = [ODD_NAMES[(index + k) % len(ODD_NAMES)] for k in range(5)]
+        net = ODD_NAMES[(index + 7) % len(ODD_NAMES)]
+        followers.append(_follower(template, note_parts, names, "G-" + names[0], net))
+    for names in (["D7", "D8", "R7", "Q7", "U7"], ["Dé1", "D\u00b52", "Rö", "Q\U0001F4A1", "U\x7f"],
+                  ["D%s", "D{0}", "R%%", "Q ", "U" + MARK]):  # safe: nothing to escape
+        followers.append(_follower(template, note_parts, names, "G-" + names[0], "P7"))
+    lines = _lines_equal_plain([template, *followers])
+    assert lines.filled == len(followers)
+    if force:
+        assert counts["raw"] == 0 and counts["escaped"] > 0
+    else:
+        assert counts["raw"] >= 3 and counts["escaped"] > 0
+
+
+@pytest.mark.parametrize("force", [False, True])
+def test_both_roads_give_the_plain_lines_on_a_generated_board(
+        tmp_path: Path, monkeypatch: pytest.MonkeyPatch, force: bool) -> None:
+    counts = _counted_unsafe(monkeypatch, force)
+    files = write_all(generate(1000, seed=13), tmp_path / "board")
+    result = run_check(CheckRequest(netlist=files["edif"], bom=files["bom"]))
+    followers = sum(g.origin is not None for g in result.groups)
+    assert _lines_equal_plain(result.groups).filled == followers
+    assert counts["raw" if not force else "escaped"] == followers

@@ -52,6 +52,14 @@ Guards (any failing one writes the group with the plain
 * every template name met when renaming is in the follower's ``refs``; every name put in
   is text.
 
+Names that JSON writes as they are (no quote, backslash or control character: what
+:func:`json.encoder.encode_basestring` leaves alone, tested over every code point) take a
+shorter road: the form keeps a second cut whose pieces hold each text's quotes, and a
+follower whose own texts (id, parts, setter, pin ids and nets, names) hold none of those
+characters, found by one search over all of them joined, gets them put in unescaped. Any
+other follower (a name to escape, a setter that is not text, no parts) takes the escaped
+road above; both give the same bytes (tests/test_report_json_followers.py).
+
 A template's form lives until its last follower is written (counted beforehand), and its
 own line (needed for its form's guard and for its own entry) is written once and kept only
 until both have used it; so memory stays bounded by the templates in use, not by the board.
@@ -86,6 +94,11 @@ _FIXED = 3
 net); then one per template name."""
 
 _RECORDS = ("leds", "resistors", "transistors", "pins", "not_converged")
+
+_UNSAFE = re.compile('[\x00-\x1f"\\\\]').search
+"""A character :func:`json.encoder.encode_basestring` escapes (``ensure_ascii=False``): a
+quote, a backslash or a control character; every other text is written as it is, in
+quotes."""
 
 
 def _slot_readers() -> tuple[Callable[[Any], Any], ...] | None:
@@ -147,21 +160,23 @@ class FollowerForm:
     then ``inner``'s slots without them; ``pick`` takes the value of each gap)."""
 
     __slots__ = ("template", "names", "pins", "scalars", "counts", "note_parts", "pieces",
-                 "pick", "inner")
+                 "pick", "inner", "raw_pieces", "raw_pick")
 
     def __init__(self, template: GroupResult, names: tuple[str, ...],
                  parts: tuple[tuple[str, str], ...], texts: list[str], order: list[int],
-                 inner: tuple[int, ...]) -> None:
+                 inner: tuple[int, ...], raw_texts: list[str], raw_order: list[int]) -> None:
         self.template = template  # kept: forms are found by the template's identity
         self.names = names
         self.pins = len(template.pins)
         self.scalars, self.counts = _shell(template)
         self.note_parts = parts
-        self.pieces: list[str | None] = [None] * (2 * len(texts) - 1)
-        self.pieces[0::2] = texts
+        self.pieces = _gapped(texts)
         self.inner = inner
-        self.pick = itemgetter(*order) if len(order) > 1 else (lambda values: tuple(
-            values[slot] for slot in order))
+        self.pick = _picker(order)
+        self.raw_pieces = _gapped(raw_texts)
+        """The same cut with each whole text's quotes in the pieces: filled with the
+        follower's texts as they are (:data:`_UNSAFE` in none of them)."""
+        self.raw_pick = _picker(raw_order)
 
     def line(self, follower: GroupResult, refs: Mapping[str, str]) -> str | None:
         """The follower's JSON line; None when a guard fails (see the module docstring).
@@ -173,7 +188,19 @@ class FollowerForm:
                     follower.corners, follower.scheme) != self.scalars
                 or not (untouched(follower) or self.built_agrees(follower, drives, refs))):
             return None
-        values = [_TEXT(shape.id), ", ".join(map(_TEXT, shape.parts)), _value(shape.setter)]
+        parts, setter = shape.parts, shape.setter
+        if parts and type(setter) is str:
+            raw = [shape.id, "".join(parts), setter]
+            for drive in drives:
+                raw.append(drive.id)
+                raw.append(drive.net)
+            raw += map(refs.__getitem__, self.names)
+            if _UNSAFE("".join(raw)) is None:  # every text written as it is, in quotes
+                raw[_PARTS] = '", "'.join(parts)
+                pieces = self.raw_pieces[:]
+                pieces[1::2] = self.raw_pick(raw)
+                return "".join(pieces)
+        values = [_TEXT(shape.id), ", ".join(map(_TEXT, parts)), _value(setter)]
         for drive in drives:
             values.append(_TEXT(drive.id))
             values.append(_TEXT(drive.net))
@@ -232,16 +259,36 @@ def follower_form(template: GroupResult, names: Iterable[str],
     slots = len(names) + first_name
     inner: list[int] = []
     order = []
-    for whole, piece in zip(pieces[1::3], pieces[2::3]):
+    raw_texts = list(texts)
+    raw_order = []
+    for gap, (whole, piece) in enumerate(zip(pieces[1::3], pieces[2::3])):
         if whole is not None:
             order.append(int(whole))
+            raw_texts[gap] += '"'  # the quotes _TEXT puts around the text
+            raw_texts[gap + 1] = '"' + raw_texts[gap + 1]
         elif int(piece) >= first_name:  # a note's reference
             if int(piece) not in inner:
                 inner.append(int(piece))
             order.append(slots + inner.index(int(piece)))
         else:
             return None
-    return FollowerForm(template, names, parts, texts, order, tuple(inner))
+        raw_order.append(int(whole if whole is not None else piece))
+    return FollowerForm(template, names, parts, texts, order, tuple(inner), raw_texts,
+                        raw_order)
+
+
+def _gapped(texts: list[str]) -> list[str | None]:
+    """``texts`` with a gap (None) between each two."""
+    pieces: list[str | None] = [None] * (2 * len(texts) - 1)
+    pieces[0::2] = texts
+    return pieces
+
+
+def _picker(order: list[int]) -> Callable[[list[str]], tuple[str, ...]]:
+    """The values of the slots ``order`` names, as a tuple."""
+    if len(order) > 1:
+        return itemgetter(*order)
+    return lambda values: tuple(values[slot] for slot in order)
 
 
 def _shell(result: GroupResult) -> tuple:
