@@ -26,6 +26,9 @@ import math
 import re
 from collections import Counter
 from dataclasses import dataclass
+from typing import Iterator
+from itertools import accumulate, chain, compress, repeat
+from operator import attrgetter, is_not
 
 from linter.errors import NetlistError
 from linter.kinds import infer_kind
@@ -138,40 +141,57 @@ def _flat_refs(instances: list[Instance]) -> list[str] | None:
 
 def _flat_circuit(doc: Document, edif: EdifFile, plan: FlatPlan, refs: list[str]) -> Circuit:
     """The circuit of a flat design from its plan; as the plain road makes it (same parts,
-    pins, nets, names, order and places: ``tests/test_edif_direct.py``)."""
+    pins, nets, names, order and places: ``tests/test_edif_direct.py``).
+
+    Pins are made for all parts at once (one object per name and net), and each net's
+    (part, pin) pairs come from one sort of the connected pins by net, in part and pin order
+    as the plain road lists them.
+    """
     design = edif.design.name.display if edif.design is not None else ""
-    instances, targets = plan.instances, plan.targets
+    instances, targets, names, pin_nets = plan.instances, plan.targets, plan.names, plan.pin_nets
     forms = [instance.form for instance in instances] + [net.form for net in plan.nets]
     plan.instances = plan.nets = []  # type: ignore[assignment]  # the net records can go
     _release_instances(edif)
     del edif
     places = _locations(doc, forms)
     del forms
-    names, pin_nets, firsts = plan.names, plan.pin_nets, plan.firsts
     maker = _PartMaker(None, {}, doc)  # type: ignore[arg-type]
-    known, make, pin_names_of = maker.pins, maker.make, maker.view_pin_names
-    joined: list[list[tuple[str, str]]] = [[] for _ in names]
-    parts: dict[str, Part] = {}
-    for index, (ref, place, target) in enumerate(zip(refs, places, targets)):
-        instance, view = instances[index], target.view
-        first, pins = firsts[index], []
-        for slot, name in enumerate(pin_names_of(view), first):
-            number = pin_nets[slot]
-            net = None if number is None else names[number]
-            pin = known.get((name, net))
-            if pin is None:
-                pin = known[(name, net)] = Pin(name, net)
-            pins.append(pin)
-            if number is not None:
-                joined[number].append((ref, name))
-        parts[ref] = make(instance, target.cell, view, ref, place, instance.name.display,
-                          tuple(pins))
-        instances[index] = None  # type: ignore[call-overload]  # its record can go
-    count = len(refs)
-    circuit_nets = {name: Net(name, tuple(pins), place, ())
-                    for name, pins, place in zip(names, joined, places[count:])}
-    return Circuit(source=doc.source, format="edif", parts=parts, nets=circuit_nets,
-                   design=design)
+    views = list(map(attrgetter("view"), targets))
+    pin_counts = list(map(len, map(maker.view_pin_names, views)))
+    slot_names = list(chain.from_iterable(map(maker.view_pin_names, views)))
+    net_of: dict[int | None, str | None] = dict(enumerate(names))
+    net_of[None] = None
+    keys = list(zip(slot_names, map(net_of.__getitem__, pin_nets)))
+    known = maker.pins
+    for key in dict.fromkeys(keys):
+        if key not in known:
+            known[key] = Pin(*key)
+    pins = list(map(known.__getitem__, keys))
+    del keys
+    firsts = plan.firsts
+    part_pins = map(tuple, map(pins.__getitem__, map(slice, firsts, firsts[1:] + [len(pins)])))
+    paths = [instance.name.display for instance in instances]
+    parts = dict(zip(refs, map(maker.make, _handed_over(instances),
+                               map(attrgetter("cell"), targets), views, refs, places, paths,
+                               part_pins)))
+    del pins, paths
+    connected = sorted(compress(range(len(pin_nets)), map(is_not, pin_nets, repeat(None))),
+                       key=pin_nets.__getitem__)  # by net, in part and pin order (stable)
+    slot_refs = list(chain.from_iterable(map(repeat, refs, pin_counts)))
+    pairs = list(zip(map(slot_refs.__getitem__, connected), map(slot_names.__getitem__, connected)))
+    sizes = Counter(pin_nets)
+    bounds = list(accumulate(map(sizes.__getitem__, range(len(names))), initial=0))
+    net_pins = map(tuple, map(pairs.__getitem__, map(slice, bounds, bounds[1:])))
+    nets = dict(zip(names, map(Net, names, net_pins, places[len(refs):], repeat(()))))
+    return Circuit(source=doc.source, format="edif", parts=parts, nets=nets, design=design)
+
+
+def _handed_over(items: list) -> Iterator:
+    """The items in order, each let go of by the list as it is handed over (so that each
+    record can go once its part is made)."""
+    for index, item in enumerate(items):
+        items[index] = None
+        yield item
 
 
 def _parts(leaves: list[Leaf], refs: list[str], places: list[SourceLocation], flat: FlatDesign,

@@ -26,7 +26,8 @@ from __future__ import annotations
 
 from collections import Counter
 from dataclasses import dataclass
-from itertools import accumulate
+from itertools import accumulate, chain, compress, repeat
+from operator import attrgetter, floordiv, is_, not_
 
 from linter.errors import NetlistError
 from linter.limits import active
@@ -97,47 +98,71 @@ def flat_plan(edif: EdifFile) -> FlatPlan | None:
 def _connect(nets: list[Net], view: View, own_ports: dict[str, int], targets: list[_Target],
              firsts: list[int], pin_nets: list[int | None]) -> Counter | None:
     """Fill ``pin_nets`` from the nets' port references; the count of the top cell's own
-    ports on each net. None where the plain road would merge, or refuse (module docstring)."""
-    index = {key: number for number, key in enumerate(view.instances)}
-    folded: dict[str, str] = {}  # names repeat: each is case-folded once
-    outside: Counter = Counter()
-    used_own: set[str] = set()
-    for number, net in enumerate(nets):
+    ports on each net. None where the plain road would merge, or refuse (module docstring).
+
+    The references are looked up with built-in passes over all of them (a 100,000-part board
+    has some 200,000), names case-folded once per distinct spelling; an instance named as
+    it was declared is found by that spelling without folding.
+    """
+    texts = []
+    for net in nets:
         if net.name.dims:
             return None
-        pairs = _pairs(net)
+        pairs = net.pairs if not net.joined else _pairs(net)
         if pairs is None:
             return None
-        for port, instance in zip(pairs, pairs):
-            port_key = folded.get(port) or folded.setdefault(port, port.casefold())
-            if not instance:
-                if port_key not in own_ports or port_key in used_own:
-                    return None
-                used_own.add(port_key)
-                outside[number] += 1
-                continue
-            at = index.get(folded.get(instance) or folded.setdefault(instance,
-                                                                     instance.casefold()))
-            if at is None:
-                return None
-            pin = targets[at].ports.get(port_key)
-            if pin is None:
-                return None
-            slot = firsts[at] + pin
-            if pin_nets[slot] is not None:
-                return None
-            pin_nets[slot] = number
+        texts.append(pairs)
+    every = list(chain.from_iterable(texts))
+    ports, instances = every[0::2], every[1::2]
+    numbers = list(chain.from_iterable(map(repeat, range(len(texts)),
+                                           map(floordiv, map(len, texts), repeat(2)))))
+    del every, texts
+    port_keys = {port: port.casefold() for port in set(ports)}
+    outside: Counter = Counter()
+    if "" in instances:  # the top cell's own ports
+        own = [not instance for instance in instances]
+        own_keys = list(map(port_keys.__getitem__, compress(ports, own)))
+        if not set(own_keys) <= own_ports.keys() or len(set(own_keys)) != len(own_keys):
+            return None
+        outside.update(compress(numbers, own))
+        kept = list(map(not_, own))
+        ports, instances = list(compress(ports, kept)), list(compress(instances, kept))
+        numbers = list(compress(numbers, kept))
+    at = _instance_numbers(view, instances)
+    if at is None:
+        return None
+    tables = list(map(attrgetter("ports"), targets))
+    pins = list(map(dict.get, map(tables.__getitem__, at), map(port_keys.__getitem__, ports)))
+    if None in pins:
+        return None
+    for first, pin, number in zip(map(firsts.__getitem__, at), pins, numbers):
+        if pin_nets[first + pin] is not None:  # a pin on two nets, or twice on one
+            return None
+        pin_nets[first + pin] = number
     return outside
 
 
-def _pairs(net: Net):
-    """An iterator over the net's (port, instance or '') in turn, or None for a port list or
-    a member reference."""
-    if not net.joined:
-        return iter(net.pairs)
+def _instance_numbers(view: View, written: list[str]) -> list[int] | None:
+    """The number (in ``view.instances``) of each instance named in ``written``, or None
+    when one is not there."""
+    index = {key: number for number, key in enumerate(view.instances)}
+    as_declared = {instance.name.display: index[key] for key, instance in view.instances.items()
+                   if instance.name.display.casefold() == key}
+    at = list(map(as_declared.get, written))
+    if None in at:  # named in another letter case (or not at all)
+        for position in compress(range(len(at)), map(is_, at, repeat(None))):
+            at[position] = index.get(written[position].casefold())
+        if None in at:
+            return None
+    return at  # type: ignore[return-value]
+
+
+def _pairs(net: Net) -> tuple[str, ...] | None:
+    """The net's port and instance ('' for a port of the top cell) of each reference in turn,
+    or None for a port list or a member reference."""
     texts = list(net.pairs)
     for entry in net.joined:
         if type(entry) is not PortRef or entry.member is not None:
             return None
         texts += (entry.port, entry.instance or "")
-    return iter(texts)
+    return tuple(texts)
