@@ -23,8 +23,8 @@ from linter.groups import PinDrive
 from linter.model import Pin
 from linter.topology_index import CircuitIndex, NetSplit
 
-__all__ = ["Chain", "Cluster", "Control", "walk_chain", "grow_cluster", "walk_control",
-           "MAX_GROUP_PARTS", "MAX_CONTROL_PARTS"]
+__all__ = ["Chain", "Cluster", "Control", "walk_chain", "walk_chain_plain", "grow_cluster",
+           "walk_control", "MAX_GROUP_PARTS", "MAX_CONTROL_PARTS"]
 
 MAX_GROUP_PARTS = 256
 """A cluster larger than this is reported as unrecognised rather than walked further."""
@@ -116,6 +116,62 @@ def _extend(tables: tuple, ref: str, pin: Pin, seen: set[str]) -> tuple[list[str
 
 def walk_chain(index: CircuitIndex, start: str) -> Chain:
     """The series chain through two-terminal part ``start``.
+
+    For R1 from ``+5V`` to ``A1`` and D1 from ``A1`` to ``GND``, the chain through either part
+    is ``Chain(parts=("R1", "D1"), nets=("+5V", "A1", "GND"))`` (or its reverse, depending on
+    the pin order of ``start``).
+
+    :func:`walk_chain_plain` (two :func:`_extend` walks) written in one loop over the two
+    directions; a listed net of two pins not both series is no series node, answered without
+    :meth:`CircuitIndex.series_pins` (``pins_on`` keeps at most those two pins, and a series
+    node needs two series ones). Equal chains: ``tests/test_topology_walk_fast.py``.
+    """
+    rails, declared_nets, roles, all_parts, series_pins = index.walk_tables
+    first, second = all_parts[start].pins
+    seen = {start}
+    found: list[list] = []
+    for pin in (second, first):
+        ref = start
+        parts: list[str] = []
+        nets: list[str | None] = [pin.net]
+        while True:
+            net = pin.net
+            if net is None or net in rails:
+                break
+            declared = declared_nets.get(net)
+            if declared is not None and len(pair := declared.pins) == 2:
+                if roles.get(pair[0][0]) != "series" or roles.get(pair[1][0]) != "series":
+                    break  # (pins_on keeps at most these two: a series node only if both are)
+            else:
+                pair = series_pins(net)
+                if pair is None:
+                    break
+            (ref_a, pin_a), (ref_b, pin_b) = pair
+            if ref_a == ref and pin_a == pin.name:
+                ref, following_pin = ref_b, pin_b
+            else:
+                ref, following_pin = ref_a, pin_a
+            if ref in seen:
+                break
+            seen.add(ref)
+            parts.append(ref)
+            one, two = all_parts[ref].pins  # (series parts have two pins)
+            pin = two if one.name == following_pin else one
+            nets.append(pin.net)
+        found.append(parts)
+        found.append(nets)
+    ahead_parts, ahead_nets, back_parts, back_nets = found
+    back_parts.reverse()
+    back_parts.append(start)
+    back_parts += ahead_parts
+    back_nets.reverse()
+    back_nets += ahead_nets
+    return Chain(tuple(back_parts), tuple(back_nets))
+
+
+def walk_chain_plain(index: CircuitIndex, start: str) -> Chain:
+    """The series chain through two-terminal part ``start`` (the plain twin of
+    :func:`walk_chain`: one :func:`_extend` each way).
 
     For R1 from ``+5V`` to ``A1`` and D1 from ``A1`` to ``GND``, the chain through either part
     is ``Chain(parts=("R1", "D1"), nets=("+5V", "A1", "GND"))`` (or its reverse, depending on
