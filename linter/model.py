@@ -29,6 +29,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 from functools import cached_property
+from itertools import repeat
+from operator import lshift, or_
 from typing import TYPE_CHECKING, Any, Callable, Literal, Mapping
 
 if TYPE_CHECKING:  # networkx costs start-up time; only the graph property imports it
@@ -45,6 +47,7 @@ __all__ = [
     "ReaderNote",
     "Circuit",
     "packed_location",
+    "packed_locations",
     "location_packer",
     "stored_location",
     "stored_location_getter",
@@ -159,6 +162,19 @@ def location_packer(file: str) -> Callable[[int, int], Any]:
         return SourceLocation(file, line, column)
 
     return pack
+
+
+def packed_locations(file: str, lines: list[int], columns: list[int]) -> list[Any]:
+    """:func:`packed_location` of each (line, column) pair of one file, by built-in passes
+    when every pair can be packed (plain non-negative ints, columns below 2**20)."""
+    number = _file_number(file) if type(file) is str else None
+    if number is None or not set(map(type, lines)) | set(map(type, columns)) <= {int} \
+            or min(lines, default=0) < 0 or min(columns, default=0) < 0 \
+            or max(columns, default=0) > _COLUMN_MASK:
+        return list(map(location_packer(file), lines, columns))
+    shifted = map(lshift, map(or_, map(lshift, lines, repeat(_COLUMN_BITS)), columns),
+                  repeat(_FILE_BITS))
+    return list(map(or_, shifted, repeat(number)))
 
 
 def packed_location(file: str, line: int, column: int) -> Any:

@@ -74,3 +74,16 @@ def test_past_the_numbered_files_places_stay_source_locations(monkeypatch):
     assert type(place) is SourceLocation and place == SourceLocation("new.cir", 3, 4)
     assert Part("R1", "resistor", None, (), place).location == SourceLocation("new.cir", 3, 4)
     assert Net("N", (), packed_location("f1023", 5, 6)).location == SourceLocation("f1023", 5, 6)
+
+
+@given(files, st.lists(st.tuples(st.integers(-2, 10**12), columns), max_size=8))
+def test_many_places_packed_at_once_are_each_packed(file, places):
+    # expected: packed_location one place at a time, the plain path of our own code
+    from linter.model import packed_locations
+
+    lines = [line for line, _ in places]
+    cols = [column for _, column in places]
+    found = packed_locations(file, lines, cols)
+    assert found == [packed_location(file, line, column) for line, column in places]
+    assert list(map(type, found)) == [type(packed_location(file, line, column))
+                                     for line, column in places]

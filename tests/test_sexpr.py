@@ -194,3 +194,34 @@ def test_positions_on_one_long_line_look_only_between_offsets():
     offsets = list(range(0, len(text), 3))
     positions = Document(text, "f", None, []).positions(offsets)
     assert positions[-1] == (1, len(text) - 2)  # 1-based column of the last "("
+
+
+@settings(max_examples=300, deadline=None)
+@given(st.lists(st.sampled_from(["(", ")", "a", " ", "\n", "\r\n", "\r", '"x\ny"', "\t"]),
+                max_size=40),
+       st.data())
+def test_ascending_positions_are_the_sweep_s(pieces, data):
+    # expected: Document.sweep, the plain path of our own code (pinned down above against
+    # the one-offset lookup); None (ask the sweep) for offsets out of order or CR-only texts
+    text = "".join(pieces)
+    doc = Document(text, "f", None, [])
+    offsets = data.draw(st.lists(st.integers(0, max(len(text) - 1, 0)), max_size=12))
+    found = doc.ascending_positions(offsets)
+    if any(a >= b for a, b in zip(offsets, offsets[1:])) or ("\n" not in text and "\r" in text):
+        assert found is None
+        offsets = sorted(set(offsets))
+        found = doc.ascending_positions(offsets)
+        if "\n" not in text and "\r" in text:
+            assert found is None
+            return
+    assert found is not None
+    lines, columns = found
+    assert list(zip(lines, columns)) == list(doc.sweep(offsets))
+
+
+def test_ascending_positions_on_one_long_line_look_only_between_offsets():
+    # as the sweep: scanning back to the line start for every offset would take minutes here
+    text = "(a " * 2_000_000 + "\n(b"
+    offsets = list(range(0, 3 * 2_000_000, 3)) + [len(text) - 2]  # every "("
+    lines, columns = Document(text, "f", None, []).ascending_positions(offsets)
+    assert (lines[-2], columns[-2]) == (1, len(text) - 5) and (lines[-1], columns[-1]) == (2, 1)

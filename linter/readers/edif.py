@@ -32,7 +32,9 @@ from operator import attrgetter, is_not
 
 from linter.errors import NetlistError
 from linter.kinds import infer_kind
-from linter.model import Circuit, Net, Part, Pin, SourceLocation, location_packer
+from linter.model import (
+    Circuit, Net, Part, Pin, SourceLocation, location_packer, packed_locations,
+)
 from linter.readers.edif_compound import EdifCompounds
 from linter.readers.edif_direct import FlatPlan, flat_plan
 from linter.readers.edif_flatten import FlatDesign, Leaf, NetWire, flatten, pin_names
@@ -224,9 +226,14 @@ def _release_instances(edif: EdifFile) -> None:
 def _locations(doc: Document, forms: list[list | int]) -> list[SourceLocation]:
     """Where each form starts, found in one sweep through the text; one object a place (a
     sheet placed many times has its forms many times), packed
-    (:func:`linter.model.packed_location`: it reads as a SourceLocation)."""
-    pack = location_packer(doc.source)
+    (:func:`linter.model.packed_location`: it reads as a SourceLocation). Forms in the order
+    written (a flat design's) are placed by built-in passes
+    (:meth:`linter.readers.sexpr.Document.ascending_positions`, twin of the sweep)."""
     offsets = doc.offsets_of(forms)
+    ascending = doc.ascending_positions(offsets)
+    if ascending is not None:  # (the forms of a flat design, in the order written)
+        return packed_locations(doc.source, *ascending)
+    pack = location_packer(doc.source)
     order = sorted(range(len(offsets)), key=offsets.__getitem__)
     places: list[SourceLocation] = [None] * len(offsets)  # type: ignore[list-item]
     previous, place = -1, None

@@ -42,8 +42,8 @@ from __future__ import annotations
 import re
 from array import array
 from bisect import bisect_right
-from itertools import accumulate, chain, compress, count
-from operator import add, methodcaller
+from itertools import accumulate, chain, compress, count, repeat
+from operator import add, lt, methodcaller, sub
 from typing import Iterable, Iterator, Protocol, Sequence
 
 from sexpdata import Symbol
@@ -210,6 +210,26 @@ class Document:
                 start = last("\n", at, offset) + 1
             at = offset
             yield line, offset - start + 1
+
+    def ascending_positions(self, offsets: Sequence[int]) -> tuple[list[int], list[int]] | None:
+        """Lines and columns of strictly ascending offsets, as :meth:`sweep` gives them, each a
+        list made by built-in passes (no Python step per offset); None when the offsets are
+        not strictly ascending or the text's lines end with CRs alone (ask :meth:`sweep`).
+
+        An offset's line is 1 + the line ends before it (counted between each offset and the
+        one before); its line starts after the last line end before it, carried over from the
+        offset before when there is none between the two.
+        """
+        text = self.text
+        if ("\n" not in text and "\r" in text) or not all(map(lt, offsets, offsets[1:])):
+            return None
+        starts = [0, *offsets[:-1]]
+        lines = list(accumulate(map(text.count, repeat("\n"), starts, offsets), initial=1))
+        del lines[0]
+        line_starts = accumulate(map(text.rfind, repeat("\n"), starts, offsets), max, initial=-1)
+        next(line_starts)
+        columns = list(map(sub, offsets, line_starts))  # offset - (start - 1): 1-based
+        return lines, columns
 
     def position_of(self, node: list | int) -> tuple[int, int]:
         """1-based (line, column) of the ``(`` that opens ``node``."""
