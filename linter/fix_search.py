@@ -12,6 +12,7 @@ from __future__ import annotations
 import hashlib
 import re
 from collections import OrderedDict
+from operator import lt
 from dataclasses import replace
 from typing import Any, Callable, Iterable, Mapping
 
@@ -26,7 +27,7 @@ from linter.results import GroupResult
 __all__ = ["DEFAULT_TOLERANCE", "resolve", "with_resistor", "led_currents",
            "resistor_for_max", "resistor_for_min", "rail_for_min", "sub_circuit",
            "resolve_circuit", "resistor_record", "tolerance_of", "split_resistor",
-           "signature", "signature_plain", "remembered", "resistor_walk", "solved_walk", "forget_board",
+           "signature", "signature_plain", "follower_signature", "remembered", "resistor_walk", "solved_walk", "forget_board",
            "is_remembered", "remember", "ASK", "resistor_ohms"]
 
 DEFAULT_TOLERANCE = 0.05
@@ -94,6 +95,7 @@ def forget_board() -> None:
     the signatures (they hold their board)."""
     _WALKS.clear()
     _TEXTS.clear()
+    _FORMS.clear()
     _BOARD[:] = [None, None, ""]
 
 
@@ -480,13 +482,7 @@ def signature_plain(context: Any, result: GroupResult, question: Any) -> bytes |
     joined = "".join(names)  # one look for the three characters that cannot be made neutral
     if "'" in joined or "\\" in joined or "\n" in joined:
         return None
-    parts = [_part_record(context.circuit.parts[r]) for r in refs if r in context.circuit.parts]
-    data = ", ".join(f"({r!r}, {_record_text(_data_record(r, context.part_data.get(r)))})"
-                     for r in sorted(names))
-    # the text of repr((group, parts, question, data, rails, ambient)), records shared by
-    # many parts (and the board's rails) written once
-    text = (f"({_group_text(group)}, {parts!r}, {question!r}, [{data}], "
-            f"{_board_text(context)})")
+    text = _plain_text(context, group, refs, names, question)
     order: dict[str, int] = {}
     pieces = _QUOTED.split(text)  # text, quoted name, text, quoted name, …, text
     for index in range(1, len(pieces), 2):
@@ -498,6 +494,126 @@ def signature_plain(context: Any, result: GroupResult, question: Any) -> bytes |
     ranks = (sorted(range(len(seen)), key=lambda i: seen[i]),
              sorted(range(len(seen)), key=lambda i: natural_key(seen[i])))
     return hashlib.sha256(f"{text}|{ranks}".encode("utf-8", "surrogatepass")).digest()
+
+
+def _plain_text(context: Any, group: Any, refs: list[str], names: set[str],
+                question: Any) -> str:
+    """The text :func:`signature_plain` makes neutral: ``repr((group without its id, placed
+    parts, question, part data by sorted name, rails, ambient))``, records shared by many
+    parts (and the board's rails) written once."""
+    circuit_parts = context.circuit.parts
+    parts = [_part_record(circuit_parts[r]) for r in refs if r in circuit_parts]
+    known = context.part_data
+    data = ", ".join(f"({r!r}, {_record_text(_data_record(r, known.get(r)))})"
+                     for r in sorted(names))
+    return (f"({_group_text(group)}, {parts!r}, {question!r}, [{data}], "
+            f"{_board_text(context)})")
+
+
+def _names(group: Any) -> tuple[list[str], list[str]]:
+    """(the group's part references as a signature lists them: its parts, then its pins'
+    parts not among them; those and its nets, in that order)."""
+    parts = group.parts
+    refs = list(parts) + [d.part for d in group.pins if d.part not in parts]
+    return refs, refs + list(group.nets)
+
+
+def _safe(names: set[str]) -> bool:
+    """Whether every name can be made neutral and ``repr`` writes it as it is."""
+    joined = "".join(names)
+    return not ("'" in joined or "\\" in joined or "\n" in joined) and joined.isprintable()
+
+
+class _Form:
+    """A template's :func:`_plain_text` for one question, cut to be filled with a
+    follower's names: ``text % names`` (each quoted name of the template in order) is the
+    text the follower would have if it differed from the template in its names only."""
+
+    __slots__ = ("template", "question", "names", "sequence", "ordered", "natural",
+                 "text", "filled", "literals", "key")
+
+    def __init__(self, context: Any, template: Any, question: Any) -> None:
+        from linter.refs import natural_key
+
+        self.template = template
+        self.question = question
+        self.key = None
+        refs, sequence = _names(template.group)
+        names = set(sequence)
+        self.names, self.sequence = names, sequence
+        if not _safe(names):
+            return
+        raw = _plain_text(context, template.group, refs, names, question)
+        pieces = _QUOTED.split(raw)
+        if raw.count("'") != len(pieces) - 1:  # a quote outside every quoted name
+            return
+        quoted = pieces[1::2]
+        self.filled = [name for name in quoted if name in names]
+        self.literals = frozenset(quoted).difference(names)
+        cut = [piece.replace("%", "%%") for piece in pieces]
+        cut[1::2] = ["'%s'" if name in names else f"'{name.replace('%', '%%')}'"
+                     for name in quoted]
+        self.text = "".join(cut)
+        self.ordered = sorted(names)
+        self.natural = sorted(names, key=natural_key)
+        self.key = signature(context, template, question)
+
+
+_FORMS: dict[int, _Form] = {}
+_FORMS_KEPT = 4096
+
+
+def _form(context: Any, template: Any, question: Any) -> _Form:
+    """The :class:`_Form` of ``template`` for ``question``, made once per template and
+    question (by the question's text: ``-0.0`` and ``0.0`` are told apart)."""
+    key = id(template)
+    entry = _FORMS.get(key)
+    if (entry is None or entry.template is not template
+            or repr(entry.question) != repr(question)):
+        if len(_FORMS) >= _FORMS_KEPT:
+            _FORMS.clear()
+        entry = _FORMS[key] = _Form(context, template, question)
+    return entry
+
+
+def follower_signature(context: Any, result: GroupResult, question: Any,
+                       template_question: Any) -> bytes | None:
+    """:func:`signature` of ``(result, question)``; for a follower (``result.origin``)
+    whose text is its template's with the names changed, the template's signature for
+    ``template_question`` (the same question asked in the template's names), without
+    cutting and hashing the follower's text.
+
+    The follower's names are paired with the template's in the order of :func:`_names`
+    (the pairing must be one to one); its :func:`_plain_text` must equal the template's
+    with each quoted name of the template replaced by its partner (so every other text,
+    quoted or not, is the same), none of the template's other quoted texts may be a name
+    of the follower, and the pairing must keep the names' plain and natural order. Then
+    the text cut at its quoted names is the template's, each name in the same place, the
+    same names are made neutral to the same indices, and the orders of the names are the
+    same: the digest is the same. Otherwise :func:`signature` itself."""
+    origin = result.origin
+    if origin is None:
+        return signature(context, result, question)
+    from linter.refs import natural_key
+
+    form = _form(context, origin[0], template_question)
+    refs, sequence = _names(result.group)
+    if form.key is None or len(sequence) != len(form.sequence):
+        return signature(context, result, question)
+    pairs = dict(zip(form.sequence, sequence))
+    partner = pairs.__getitem__
+    names = set(sequence)
+    if (list(map(partner, form.sequence)) != sequence or len(names) != len(form.names)
+            or not _safe(names) or not form.literals.isdisjoint(names)
+            or list(map(partner, form.ordered)) != sorted(names)):
+        return signature(context, result, question)
+    natural = list(map(natural_key, map(partner, form.natural)))
+    if not all(map(lt, natural, natural[1:])):
+        return signature(context, result, question)
+    expected = form.text % tuple(map(partner, form.filled))
+    if _plain_text(context, result.group, refs, names, question) != expected:
+        return signature(context, result, question)
+    return form.key
 
 
 ASK = object()

@@ -309,8 +309,10 @@ def _solve_first_splits(context: Any, results: list[GroupResult],
             keys[id(result)] = (fix_search.ASK, None)
             continue
         ohms_each, tolerance, _ = first
-        key = fix_search.signature(context, result, _split_question(shared, ohms_each,
-                                                                    tolerance))
+        template = figures_of(result)[0]  # the same question in the template's names
+        key = fix_search.follower_signature(
+            context, result, _split_question(shared, ohms_each, tolerance),
+            _split_question(template.group.setter, ohms_each, tolerance))
         keys[id(result)] = (key, first)
         if key is not None and key not in pending and not fix_search.is_remembered(key):
             pending[key] = (result, shared, ohms_each)
