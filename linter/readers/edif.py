@@ -159,17 +159,21 @@ def _flat_circuit(doc: Document, edif: EdifFile, plan: FlatPlan, refs: list[str]
     del forms
     maker = _PartMaker(None, {}, doc)  # type: ignore[arg-type]
     views = list(map(attrgetter("view"), targets))
-    pin_counts = list(map(len, map(maker.view_pin_names, views)))
-    slot_names = list(chain.from_iterable(map(maker.view_pin_names, views)))
+    view_ids = list(map(id, views))  # (the views are alive: ids are unique)
+    names_of = {number: maker.view_pin_names(view)
+                for number, view in dict(zip(view_ids, views)).items()}
+    pin_names_of = list(map(names_of.__getitem__, view_ids))
+    del view_ids
+    pin_counts = list(map(len, pin_names_of))
+    slot_names = list(chain.from_iterable(pin_names_of))
+    del pin_names_of
     net_of: dict[int | None, str | None] = dict(enumerate(names))
     net_of[None] = None
-    keys = list(zip(slot_names, map(net_of.__getitem__, pin_nets)))
-    known = maker.pins
-    for key in dict.fromkeys(keys):
-        if key not in known:
-            known[key] = Pin(*key)
-    pins = list(map(known.__getitem__, keys))
-    del keys
+    distinct = dict.fromkeys(zip(slot_names, map(net_of.__getitem__, pin_nets)))
+    known = dict(zip(distinct, map(Pin, *zip(*distinct)))) if distinct else {}
+    del distinct
+    pins = list(map(known.__getitem__, zip(slot_names, map(net_of.__getitem__, pin_nets))))
+    del known
     firsts = plan.firsts
     part_pins = map(tuple, map(pins.__getitem__, map(slice, firsts, firsts[1:] + [len(pins)])))
     paths = [instance.name.display for instance in instances]

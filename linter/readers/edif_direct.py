@@ -68,20 +68,18 @@ def flat_plan(edif: EdifFile) -> FlatPlan | None:
     if not instances or len(instances) > limit or len(nets) > 4 * limit:
         return None
     flattener = _Flattener(edif)
+    references = list(map(attrgetter("library", "cell", "view"), instances))
     resolved: dict[tuple[str | None, str, str], _Target] = {}
-    targets: list[_Target] = []
     try:
-        for instance in instances:
-            key = (instance.library, instance.cell, instance.view)
-            target = resolved.get(key)
-            if target is None:
-                target = resolved[key] = flattener.resolve(instance, cell)
-                if not target.leaf or len(target.ports) != len(target.view.ports):
-                    return None  # a sheet, or a cell with an array port
-            targets.append(target)
+        for key, at in dict(zip(reversed(references), range(len(instances) - 1, -1, -1))).items():
+            target = resolved[key] = flattener.resolve(instances[at], cell)  # the first placing it
+            if not target.leaf or len(target.ports) != len(target.view.ports):
+                return None  # a sheet, or a cell with an array port
     except NetlistError:
         return None
-    firsts = list(accumulate((len(target.ports) for target in targets), initial=0))
+    targets = list(map(resolved.__getitem__, references))
+    del references
+    firsts = list(accumulate(map(len, map(attrgetter("ports"), targets)), initial=0))
     pin_nets: list[int | None] = [None] * firsts.pop()
     connections = _connect(nets, view, flattener.scalar_ports(view), targets, firsts, pin_nets)
     if connections is None:
@@ -90,7 +88,7 @@ def flat_plan(edif: EdifFile) -> FlatPlan | None:
     if len(set(names)) != len(names):
         return None
     connections.update(pin_nets)
-    if any(connections[number] < 2 for number in range(len(nets))):
+    if min(map(connections.__getitem__, range(len(nets))), default=2) < 2:
         return None
     return FlatPlan(cell, view, instances, targets, firsts, pin_nets, nets, names)
 
