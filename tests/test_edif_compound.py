@@ -163,3 +163,28 @@ def test_the_same_reading_twice_in_one_process() -> None:
     second = edif.read_edif(text.replace('"330"', '"331"'), "a.edif")
     assert first.parts == plain(text, "a.edif").parts
     assert second.parts == plain(text.replace('"330"', '"331"'), "a.edif").parts
+
+
+def _nets_pairs(text: str) -> list[tuple[list, list]]:
+    from linter.readers.edif_compound import _PAIR, _PAIRS
+
+    return [(_PAIRS(match.group(13)), _PAIR.findall(match.group(13)))
+            for match in PATTERN.finditer(text) if match.lastindex == 9]
+
+
+@pytest.mark.parametrize("instance, net", SPELLINGS)
+def test_pairs_of_a_net_read_whole_are_the_strict_pattern_s(instance: str, net: str) -> None:
+    # expected: _PAIR, the strict port-reference pattern (the plain path of our own code)
+    found = _nets_pairs(board(instance, net + "\n(net b (joined (PortRef &2 (InstanceRef R1))"
+                                              "\t(portRef\nK  (instanceRef\r\nD1 ) ) ))"))
+    assert len(found) == 2
+    for fast, strict in found:
+        assert fast == strict
+
+
+def test_pairs_of_the_fixtures_nets_are_the_strict_pattern_s() -> None:
+    # expected: _PAIR, as above
+    found = [pair for path in FIXTURES for pair in _nets_pairs(path.read_text(encoding="utf-8"))]
+    assert len(found) > 30
+    for fast, strict in found:
+        assert fast == strict

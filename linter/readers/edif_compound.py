@@ -87,12 +87,29 @@ _ITEM = re.compile(
     + "|" + _ws_form(_kw("designator"), _STRING))
 """One item of group 8: groups plain name, renamed name, its text, value; or designator."""
 _PAIR = re.compile(_PORT_REF)
-"""One port reference of group 13 (or a whole one, groups 14 to 16): port, instance."""
+"""One port reference of group 13 (or a whole one, groups 14 to 16): port, instance. The
+strict reading; :data:`_PAIRS` reads group 13 (tests/test_edif_compound.py: the same pairs)."""
+
+_PAIRS = re.compile(rf"\({_W}*+[A-Za-z]++{_W}++([^{_WS}()\"]++)"
+                    rf"(?:{_W}*+\({_W}*+[A-Za-z]++{_W}++([^{_WS}()\"]++))?").findall
+"""The (port, instance or '') of each port reference of group 13, a text the pattern has
+matched whole: each reference opens with a keyword (letters), whitespace and its port, then
+maybe a nested keyword, whitespace and the instance (what :data:`_PAIR` finds, without
+checking again what the pattern has checked)."""
 
 TOKEN_GROUP = 17
 PATTERN = re.compile(rf"{_W}*+(?:({_INSTANCE})|({_NET})|({_PORT_REF})|({_PLAIN}))")
 _MAX_SHARED = 10_000
 """Distinct property sets remembered for sharing (a netlist repeats a few hundred)."""
+
+
+class _Atoms(dict):
+    """Texts by themselves: ``atoms[text]`` is the first equal text met (one object for equal
+    names); a text not met before is added by :meth:`__missing__`."""
+
+    def __missing__(self, text: str) -> str:
+        self[text] = text
+        return text
 
 
 class EdifCompounds:
@@ -105,7 +122,8 @@ class EdifCompounds:
     def __init__(self) -> None:
         self._items: dict[str, tuple[str | None, dict[str, str]]] = {}
         self._texts: dict[str, str] = {}
-        self._atoms: dict[str, str] = {}
+        self._atoms: _Atoms = _Atoms()
+        self._references: dict[tuple[str | None, str, str], tuple[str | None, str, str]] = {}
 
     def build(self, match: re.Match[str]) -> object:
         which = match.lastindex
@@ -120,28 +138,31 @@ class EdifCompounds:
                        match.start(14))
 
     def _net(self, match: re.Match[str]) -> Net:
-        ident = match.group(10)
+        ident, renamed, display, joined = match.group(10, 11, 12, 13)
         if ident is not None:
-            name = Name(ident.casefold(), ident[1:] if ident.startswith("&") else ident)
+            name = Name(ident.casefold(), ident[1:] if ident[0] == "&" else ident)
         else:
-            name = Name(match.group(11).casefold(), decode_string(match.group(12)))
-        texts = list(chain.from_iterable(_PAIR.findall(match.group(13))))
-        share = self._atoms.setdefault  # one object for equal names (no Python call a name)
-        pairs = tuple(map(share, texts, texts))
+            name = Name(renamed.casefold(), decode_string(display))
+        # one object for equal names, no Python call for a name seen before
+        pairs = tuple(map(self._atoms.__getitem__, chain.from_iterable(_PAIRS(joined))))
         return Net(name, (), match.start(9), pairs)
 
     def _instance(self, match: re.Match[str]) -> Instance:
-        ident, share = match.group(2), self._atoms.setdefault
+        ident, renamed, display, view, cell, library, items = match.group(2, 3, 4, 5, 6, 7, 8)
         if ident is not None:
-            ident = share(ident, ident)
-            name = Name(ident.casefold(), ident[1:] if ident.startswith("&") else ident)
+            ident = self._atoms[ident]
+            name = Name(ident.casefold(), ident[1:] if ident[0] == "&" else ident)
         else:
-            name = Name(match.group(3).casefold(), decode_string(match.group(4)))
-        designator, properties = self._properties(match.group(8))
-        library, cell, view = match.group(7, 6, 5)
-        return Instance(name, library if library is None else share(library, library),
-                        share(cell, cell), share(view, view), designator, properties,
-                        match.start(1))
+            name = Name(renamed.casefold(), decode_string(display))
+        found = self._items.get(items)
+        designator, properties = found if found is not None else self._properties(items)
+        reference = (library, cell, view)
+        shared = self._references.get(reference)
+        if shared is None:
+            share = self._atoms.__getitem__
+            shared = self._references[reference] = (
+                library if library is None else share(library), share(cell), share(view))
+        return Instance(name, *shared, designator, properties, match.start(1))
 
     def _properties(self, items: str) -> tuple[str | None, dict[str, str]]:
         """Designator (the first) and properties by display name, later ones winning; equal
