@@ -32,7 +32,7 @@ from linter.netbuild import GroupModel, ModelGap, build_model
 from linter.partdata import Ambient, PartDataMap, Rail
 from linter.reduce import group_result
 from linter.reduce_bucket import bucket_results
-from linter.group_key import DataKeys, group_key
+from linter.key_tables import GroupKeys
 from linter.result_rename import Template
 from linter.results import GroupResult
 from linter.solve_memo import representatives
@@ -214,7 +214,7 @@ def analyse(groups: Iterable[Group], circuit: Circuit, part_data: PartDataMap,
             memoise: bool = True) -> tuple[GroupResult, ...]:
     """Solve every group at its nominal and worst-case corners.
 
-    With ``memoise`` (the default), a group whose :func:`~linter.group_key.group_key` equals
+    With ``memoise`` (the default), a group whose key (:mod:`linter.key_tables`) equals
     an earlier group's is neither built nor solved: its result is the earlier one's with its
     own names (:mod:`linter.result_rename`), its records built when first read; and groups of
     one bucket with the same solver inputs are solved once (:mod:`linter.solve_memo`).
@@ -271,17 +271,19 @@ class _Work:
 
 def _build(groups: tuple[Group, ...], circuit: Circuit, part_data: PartDataMap,
            rails: dict[str, Rail], results: list, memoise: bool) -> _Work:
-    """Models of the groups to solve; with ``memoise``, a group whose key equals an earlier
-    modelled group's is a follower of it. A group that cannot be modelled gets its
+    """Models of the groups to solve; with ``memoise``, a group whose key
+    (:class:`~linter.key_tables.GroupKeys`: equal exactly when the plain
+    :func:`~linter.group_key.group_key_plain` keys are) equals an earlier modelled group's is
+    a follower of it. A group that cannot be modelled gets its
     ``unsolved`` result in ``results`` (its followers are then built each on its own)."""
     work = _Work({}, [], {})
     first: dict[tuple, tuple[int, tuple[str, ...]] | None] = {}
-    data_keys = DataKeys()
+    keyed = GroupKeys(circuit, part_data, rails).key
     for index, group in enumerate(groups):
         key: tuple | None = None
         if memoise:
-            key, names = group_key(group, circuit, part_data, rails, data_keys)
             try:
+                key, names = keyed(group)
                 template = first.get(key, ())
             except TypeError:   # a figure that cannot be hashed: built on its own
                 key, template = None, ()
