@@ -9,8 +9,7 @@ from __future__ import annotations
 
 import struct
 from collections import OrderedDict
-from itertools import chain, compress
-from operator import attrgetter
+from itertools import compress
 from dataclasses import replace
 from typing import Any, Callable, Iterable, Iterator
 
@@ -21,7 +20,7 @@ from linter.units import format_si
 __all__ = ["part_location", "solved_groups", "group_rail", "led_data", "resistor_data", "bjt_data",
            "corner_phrase", "at_corner", "amps", "volts", "ohms", "watts", "say", "memoised",
            "sink_design", "sink_search", "forget_board", "figures_of", "renamer", "PerTemplate",
-           "renamed_corner", "nameless_at_corner", "flagged", "leds_of", "pin_nets"]
+           "renamed_corner", "nameless_at_corner", "flagged"]
 
 
 def part_location(context: Any, ref: str) -> Any:
@@ -102,24 +101,6 @@ def forget_board() -> None:
     _PHRASES.clear()
     from linter import fix_search
     fix_search.forget_board()
-
-
-_KIND = attrgetter("kind")
-_PINS = attrgetter("pins")
-_NET = attrgetter("net")
-
-
-def leds_of(circuit: Any) -> tuple:
-    """``circuit.leds()`` (every part of kind ``led``, in netlist order), picked by
-    built-in maps over the parts instead of a step of Python per part."""
-    parts = circuit.parts.values()
-    return tuple(compress(parts, map("led".__eq__, map(_KIND, parts))))
-
-
-def pin_nets(parts: Iterable[Any]) -> list:
-    """The net of every pin of ``parts``, part by part in pin order (None where a pin is
-    on no net)."""
-    return list(map(_NET, chain.from_iterable(map(_PINS, parts))))
 
 
 def group_rail(context: Any, result: Any) -> Rail | None:

@@ -2,12 +2,9 @@
 
 from __future__ import annotations
 
-from itertools import compress
-from operator import attrgetter
 from typing import Any, Iterable
 
 from linter.findings import Finding
-from linter.rulekit import leds_of, pin_nets
 from linter.rules import Rule, register
 
 FLOATING_PHRASES = ("has no path to a rail", "is not connected")
@@ -44,9 +41,7 @@ class FloatingLed(Rule):
 
     def check(self, context: Any) -> Iterable[Finding]:
         reported: set[str] = set()
-        groups = getattr(context, "groups", ()) or ()
-        # the unrecognised groups, picked by built-in maps (most groups are recognised)
-        for result in compress(groups, map("unrecognised".__eq__, map(_TOPOLOGY, groups))):
+        for result in getattr(context, "groups", ()) or ():
             group = result.group
             reason = group.reason or ""
             if group.topology != "unrecognised" or not _is_floating(reason):
@@ -54,10 +49,7 @@ class FloatingLed(Rule):
             reported.update(group.leds)
             yield self._finding(context, group.leds, reason, group.id)
         nets = context.circuit.nets
-        leds = leds_of(context.circuit)
-        if _all_joined(leds, nets):  # no LED has an open pin: the loop below finds nothing
-            return
-        for part in leds:
+        for part in context.circuit.leds():
             if part.ref in reported:
                 continue
             open_pins = [pin.name for pin in part.pins if not _joined(nets, pin.net)]
@@ -76,21 +68,6 @@ class FloatingLed(Rule):
                        fix="connect the open side to its driver (a resistor to a rail, a pin "
                            "or a sink), or remove the part if it is left from an old revision",
                        location=None if first is None else first.location)
-
-
-_TOPOLOGY = attrgetter("group.topology")
-_PINS = attrgetter("pins")
-
-
-def _all_joined(leds: Iterable[Any], nets: Any) -> bool:
-    """True when no pin of ``leds`` is open (:func:`_joined` of every pin's net), worked
-    out over the set of their nets by built-in maps. The plain twin: ``all(_joined(nets,
-    pin.net) for part in leds for pin in part.pins)``."""
-    used = set(pin_nets(leds))
-    if None in used:
-        return False
-    found = [net for net in map(nets.get, used) if net is not None]
-    return min(map(len, map(_PINS, found)), default=2) > 1
 
 
 def _is_floating(reason: str) -> bool:

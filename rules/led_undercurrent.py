@@ -2,8 +2,6 @@
 
 from __future__ import annotations
 
-from itertools import compress
-from operator import and_, attrgetter, eq
 from typing import Any, Callable, Iterable
 
 from linter import fix_search
@@ -11,8 +9,8 @@ from linter.config import RuleOption
 from linter.findings import Finding
 from linter.refs import fold_refs, natural_sorted
 from linter.results import GroupResult, LedResult
-from linter.rulekit import (PerTemplate, amps, at_corner, figures_of, flagged, leds_of, ohms,
-                            pin_nets, renamer, say, volts)
+from linter.rulekit import (PerTemplate, amps, at_corner, figures_of, flagged, ohms, renamer, say,
+                            volts)
 from linter.rules import Rule, register
 from linter.rules.led_overcurrent import current_resistor, is_shared, target_current
 from linter.unionfind import UnionFind
@@ -87,10 +85,7 @@ class LedUndercurrent(Rule):
         """LEDs whose two pins are joined through 0 Ω links: they can never light."""
         circuit = context.circuit
         joined = _link_clusters(circuit)
-        leds = leds_of(circuit)
-        if _none_shorted(leds, joined):  # the loop below finds nothing
-            return
-        for led in leds:
+        for led in circuit.leds():
             nets = [pin.net for pin in led.pins if pin.net is not None]
             if len(nets) != 2 or joined.find(nets[0]) != joined.find(nets[1]):
                 continue
@@ -192,40 +187,15 @@ class _Joins(UnionFind):
         self.links.append((link, a, b))
         self.join(a, b)
 
-    def members(self) -> set[str]:
-        """The nets some link joins (any other net is a cluster of its own)."""
-        return {net for _, a, b in self.links for net in (a, b)}
-
     def links_between(self, a: str, b: str) -> list[str]:
         """Links inside the cluster that holds ``a`` and ``b`` (all of them: the short)."""
         root = self.find(a)
         return [link for link, x, _ in self.links if self.find(x) == root]
 
 
-def _none_shorted(leds: tuple, joined: _Joins) -> bool:
-    """True when no LED of ``leds`` has two pins on nets that ``joined`` holds in one
-    cluster, worked out by built-in maps: every LED has two pins, none on no net, on two
-    different nets not both joined by a link. Otherwise False (the plain loop then looks at
-    each LED; an LED with other than two netted pins is never shorted there)."""
-    nets = pin_nets(leds)
-    if len(nets) != 2 * len(leds) or None in nets or set(map(len, map(_PINS, leds))) - {2}:
-        return False
-    anodes, cathodes = nets[0::2], nets[1::2]
-    if any(map(eq, anodes, cathodes)):
-        return False
-    linked = joined.members()
-    return not any(map(and_, map(linked.__contains__, anodes),
-                       map(linked.__contains__, cathodes)))
-
-
-_PINS = attrgetter("pins")
-_KIND = attrgetter("kind")
-
-
 def _link_clusters(circuit: Any) -> _Joins:
     joins = _Joins()
-    parts = circuit.parts.values()
-    for part in compress(parts, map("link".__eq__, map(_KIND, parts))):
+    for part in circuit.parts.values():
         if part.kind == "link":
             nets = [pin.net for pin in part.pins if pin.net is not None]
             if len(nets) == 2:

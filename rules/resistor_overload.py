@@ -8,8 +8,8 @@ from linter.dissipation import Allowance, over, resistor_allowance
 from linter.findings import Finding
 from linter.fixes import resistor_rating
 from linter.results import GroupResult, ResistorResult
-from linter.rulekit import (PerTemplate, at_corner, figures_of, part_location, renamer, say,
-                            solved_groups, watts)
+from linter.rulekit import (PerTemplate, at_corner, figures_of, flagged, part_location, renamer,
+                            say, watts)
 from linter.rules import Rule, register
 
 
@@ -64,9 +64,9 @@ class ResistorOverload(Rule):
             return tuple(out)
 
         verdicts = PerTemplate(rated)
-        for result in solved_groups(context):
+        for result, items in flagged(context, verdicts):  # groups with a rated part
             name = renamer(figures_of(result)[1])
-            for resistor, allowance, is_over in verdicts(result):
+            for resistor, allowance, is_over in items:
                 ref = name(resistor.ref)
                 if ref in seen:
                     continue

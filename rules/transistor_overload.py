@@ -9,9 +9,8 @@ from linter.dissipation import Allowance, over, semiconductor_allowance
 from linter.findings import Finding
 from linter.partdata import BjtData, MosfetData
 from linter.results import GroupResult, TransistorResult
-from linter.rulekit import (PerTemplate, amps, at_corner, figures_of, ohms, part_location,
-                            renamer, say, solved_groups, volts,
-                            watts)
+from linter.rulekit import (PerTemplate, amps, at_corner, figures_of, flagged, ohms,
+                            part_location, renamer, say, volts, watts)
 from linter.rules import Rule, register
 
 REGULATING = ("npn-sink", "pnp-source")
@@ -75,9 +74,9 @@ class TransistorOverload(Rule):
             return tuple(out)
 
         verdicts = PerTemplate(rated)
-        for result in solved_groups(context):
+        for result, items in flagged(context, verdicts):  # groups with a rated part
             name = renamer(figures_of(result)[1])
-            for transistor, allowance, is_over, generic in verdicts(result):
+            for transistor, allowance, is_over, generic in items:
                 ref = name(transistor.ref)
                 if ref in seen:
                     continue
