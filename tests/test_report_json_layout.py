@@ -177,6 +177,21 @@ def test_lines_are_written_one_entry_a_line() -> None:
         '{\n  "a": {\n    "b": [\n      {"x": 1},\n      [2]\n    ],\n    "c": []\n  }\n}')
 
 
+@pytest.mark.parametrize("count", [0, 1, 2, 15, 16, 17, 32, 33, 50])
+def test_lines_in_blocks_are_the_layout_of_the_same_list(count: int) -> None:
+    """Entries written a block to a piece (json_layout.BLOCK) against the same list written
+    as data at the same depth (expected: the plain layout of our own code, itself held to
+    json.dumps above)."""
+    from linter.report.json_layout import BLOCK
+
+    assert BLOCK == 16  # the counts above sit around one, two and three blocks
+    entries = [{"n": index, "t": "é\"" * (index % 3)} for index in range(count)]
+    data = {"a": {"b": Lines(map(compact_json, entries)), "c": 1}}
+    pieces = list(layered_chunks(data, 2))
+    assert "".join(pieces) == "".join(layered_chunks({"a": {"b": entries, "c": 1}}, 3))
+    assert len(pieces) < 12 + count // BLOCK  # entries come a block to a piece
+
+
 def test_compact_depth_is_that_of_groups_and_findings() -> None:
     assert COMPACT_DEPTH == 2  # report["groups"][i] sits at depth 2
 

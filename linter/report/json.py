@@ -16,6 +16,7 @@ report as one plain tree.
 
 from __future__ import annotations
 
+from itertools import repeat
 from pathlib import Path
 from typing import TYPE_CHECKING, Any, Iterable, Iterator, Mapping
 
@@ -78,18 +79,33 @@ def report_dict(result: "CheckResult") -> dict[str, Any]:
     }
 
 
-def _group_lines(groups: Iterable[Any]) -> Iterator[str]:
+class _GroupLines:
     """Each group's JSON entry, one line each, in natural order of the group id (a
-    follower's from its template's, :mod:`linter.report.json_followers`)."""
-    records = lean_sorted_records(groups)
-    lines = GroupLines(records)
-    for group in records:
-        yield lines.line(group)
+    follower's from its template's, :mod:`linter.report.json_followers`); sorted when
+    iterated, each line made as it is taken (a C-level ``map``, no generator between the
+    writer and the lines)."""
+
+    __slots__ = ("groups",)
+
+    def __init__(self, groups: Iterable[Any]) -> None:
+        self.groups = groups
+
+    def __iter__(self) -> Iterator[str]:
+        records = lean_sorted_records(self.groups)
+        return map(GroupLines(records).line, records)
 
 
-def _finding_lines(result: "CheckResult") -> Iterator[str]:
-    for finding in lean_ordered_findings(result.findings):
-        yield finding_line(finding, result.circuit)
+class _FindingLines:
+    """Each finding's JSON entry in report order, as :class:`_GroupLines` does groups."""
+
+    __slots__ = ("result",)
+
+    def __init__(self, result: "CheckResult") -> None:
+        self.result = result
+
+    def __iter__(self) -> Iterator[str]:
+        ordered = lean_ordered_findings(self.result.findings)
+        return map(finding_line, ordered, repeat(self.result.circuit, len(ordered)))
 
 
 def report_layout(result: "CheckResult",
@@ -100,8 +116,8 @@ def report_layout(result: "CheckResult",
     head = _head(result)
     head["inputs"].update(extra_inputs or {})
     layout = plain_data(head)
-    layout["groups"] = Lines(_group_lines(result.groups))
-    layout["findings"] = Lines(_finding_lines(result))
+    layout["groups"] = Lines(_GroupLines(result.groups))
+    layout["findings"] = Lines(_FindingLines(result))
     return layout
 
 
