@@ -11,16 +11,18 @@ Where the two disagree the analysis keeps the netlist's value: the netlist is wh
 from __future__ import annotations
 
 import math
-from operator import attrgetter
+from collections import deque
+from itertools import chain, compress, count, filterfalse, repeat
+from operator import attrgetter, is_, itemgetter
 from dataclasses import dataclass, field, replace
-from typing import Literal, Mapping
+from typing import Literal, Mapping, Sequence
 
 from linter.model import Circuit, Part, SourceLocation, stored_location, stored_location_getter
 from linter.readers.bom import Bom, BomLine
 from linter.refs import fold_refs
 from linter.units import format_si, number_or_none
 
-__all__ = ["BomDiscrepancy", "DiscrepancyKind", "apply_bom", "VALUE_MATCH_REL", "values_agree"]
+__all__ = ["BomDiscrepancy", "DiscrepancyKind", "apply_bom", "apply_bom_plain", "VALUE_MATCH_REL", "values_agree"]
 
 DiscrepancyKind = Literal["missing-from-bom", "missing-from-netlist", "value", "quantity",
                           "duplicate", "part-number"]
@@ -44,59 +46,240 @@ class BomDiscrepancy:
     values: Mapping[str, float] = field(default_factory=dict, hash=False)
 
 
-def apply_bom(circuit: Circuit, bom: Bom) -> tuple[Circuit, tuple[BomDiscrepancy, ...]]:
+def apply_bom(circuit: Circuit, bom: Bom, *, fresh: bool = False,
+              ) -> tuple[Circuit, tuple[BomDiscrepancy, ...]]:
     """A new Circuit carrying the BOM's facts, and the discrepancies between the two.
 
     Netlist parts of kind ``source`` in a SPICE deck (the deck's own supplies) are not
     expected in the BOM. A BOM line's references that name parts are made the circuit's own
     reference strings (equal texts, one object each: :func:`_share_refs`).
+
+    The join is worked out once per BOM line when the line's parts read alike (equal value,
+    reading, kind, part number, properties and model: all :func:`_join` reads of a part, the
+    common case), else once per line and part reading, and handed to the line's parts in
+    bulk. ``fresh=True`` says the circuit's Part objects are the caller's alone (just read,
+    seen by nothing else): the joined properties and part number are then stored into them in
+    place (C-level passes) instead of a new Part made for each; the given ``circuit`` must
+    not be used afterwards. :func:`apply_bom_plain` is the same join part by part, the
+    reference for the tests.
     """
+    groups, problems = _found_lines(circuit, bom)
+    parts = circuit.parts
+    joined_parts = None if fresh else dict(parts)
+    flagged: dict[str, tuple] = {}  # joined parts that _compare must look at -> their join
+    facts: dict[int, dict[str, str]] = {}  # BOM line (by identity) -> its facts
+    listed = 0
+    for line, refs, held in groups:
+        listed += len(held)
+        readings = list(map(_READING, held))
+        if readings.count(readings[0]) == len(readings):  # (identical objects compare at once)
+            join = _join(held[0], line, facts)
+            if join[1]:
+                flagged.update(dict.fromkeys(refs, join))
+            if fresh:
+                deque(map(_SET_PROPERTIES, held, repeat(join[2], len(held))), maxlen=0)
+                deque(map(_SET_NUMBER, held, repeat(join[3], len(held))), maxlen=0)
+                continue
+            joins: list[tuple] | repeat = repeat(join, len(held))
+        else:
+            joins = _joins_by_reading(held, readings, line, facts)
+            flagged.update((ref, join) for ref, join in zip(refs, joins) if join[1])
+        for ref, part, (_, _, joined, number) in zip(refs, held, joins):
+            if fresh:
+                _SET_PROPERTIES(part, joined)
+                _SET_NUMBER(part, number)
+            else:
+                joined_parts[ref] = _Part(  # type: ignore[index]
+                    part.ref, part.kind, part.value, part.pins, _stored(part, _Part),
+                    part.value_si, part.path, part.cell, number, joined, part.model)
+    if flagged or listed != len(parts):
+        found = dict(chain.from_iterable(zip(refs, repeat(line)) for line, refs, _ in groups))
+        _part_problems(circuit, found, flagged, problems)
+    return (replace(circuit, parts=dict(parts) if joined_parts is None else joined_parts),
+            tuple(problems))
+
+
+def _joins_by_reading(held: list[Part], readings: list[tuple], line: BomLine,
+                      facts: dict[int, dict[str, str]]) -> list[tuple]:
+    """:func:`_join` of each part of one BOM line whose parts do not all read alike, once per
+    reading (mappings and models by identity)."""
+    joins: dict[tuple, tuple] = {}
+    result = []
+    for part, (value, value_si, kind, number, properties, model) in zip(held, readings):
+        key = (value, value_si, kind, number, id(properties), id(model))
+        join = joins.get(key)
+        if join is None:
+            join = joins[key] = _join(part, line, facts)
+        result.append(join)
+    return result
+
+
+def _part_problems(circuit: Circuit, found: Mapping[str, BomLine],
+                   flagged: Mapping[str, tuple], problems: list[BomDiscrepancy]) -> None:
+    """The part-side discrepancies, in circuit order: parts the BOM does not list (but a SPICE
+    deck's own sources) and the joined parts ``flagged`` for :func:`_compare`."""
+    parts = circuit.parts
+    wanted = set(flagged).union(filterfalse(found.__contains__, parts))
+    spice = circuit.format == "spice"
+    for ref in compress(parts, map(wanted.__contains__, parts)):
+        part = parts[ref]
+        join = flagged.get(ref)
+        if join is not None:
+            problems.extend(_compare(part, found[ref], join[0]))
+        elif not (spice and part.kind == "source"):
+            problems.append(BomDiscrepancy(
+                "missing-from-bom", (ref,),
+                f"{ref} is in the netlist but not in the BOM", part.location))
+
+
+def _folded(texts: Sequence[str]) -> list[str]:
+    """``[text.casefold() for text in texts]`` by one casefold of the texts joined (case
+    folding maps each character on its own); one by one where a text holds a NUL."""
+    folded = "\0".join(texts).casefold().split("\0")
+    return folded if len(folded) == len(texts) else list(map(str.casefold, texts))
+
+
+def _found_lines(circuit: Circuit, bom: Bom,
+                 ) -> tuple[list[tuple[BomLine, list[str], list[Part]]], list[BomDiscrepancy]]:
+    """Each BOM line with the circuit references it is the first to list and their parts
+    (lines listing none left out; a reference names the part whose reference is alike but
+    for case, the last such), and the BOM-side discrepancies (quantities, references not in
+    the netlist, references listed twice), in BOM order.
+
+    When every BOM reference names a part and none is listed twice (the common case), all
+    lines are taken at once: one case folding, one look-up pass, parts by position. Otherwise
+    line by line (:func:`_found_line_by_line`).
+    """
+    names = list(circuit.parts)
+    by_fold = dict(zip(_folded(names), count()))  # (the last of names alike but for case)
+    lines = bom.lines
+    every = list(chain.from_iterable(map(_REFS, lines)))
+    places = list(map(by_fold.get, _folded(every)))
+    if None in places or len(set(places)) != len(places):  # (unknown or listed twice)
+        return _found_line_by_line(dict(zip(by_fold, map(names.__getitem__, by_fold.values()))),
+                                   circuit.parts, lines)
+    refs = _picked(names, places)
+    held = _picked(list(circuit.parts.values()), places)
+    problems: list[BomDiscrepancy] = []
+    groups: list[tuple[BomLine, list[str], list[Part]]] = []
+    end = 0
+    shared = all(map(is_, every, refs))
+    for line in lines:
+        if line.quantity is not None:
+            problems.extend(_check_quantity(line))
+        start, end = end, end + len(line.refs)
+        if start != end:
+            taken = refs[start:end]
+            groups.append((line, taken, held[start:end]))
+            if not shared:
+                _share_equal_refs(line, taken)
+    return groups, problems
+
+
+def _picked(items: list, places: list[int]) -> list:
+    """``[items[place] for place in places]`` in one C call."""
+    if len(places) < 2:
+        return [items[place] for place in places]
+    return list(itemgetter(*places)(items))
+
+
+def _found_line_by_line(by_fold: Mapping[str, str], parts: Mapping[str, Part],
+                        lines: Sequence[BomLine],
+                        ) -> tuple[list[tuple[BomLine, list[str], list[Part]]],
+                                   list[BomDiscrepancy]]:
+    """:func:`_found_lines` one line at a time (``by_fold``: the circuit's references by
+    their case-folded text): a line whose references all name parts not listed before,
+    each once, in one C-level update; any other reference by reference (:func:`_take_refs`).
+    """
+    found: dict[str, BomLine] = {}
+    groups: list[tuple[BomLine, list[str], list[Part]]] = []
+    problems: list[BomDiscrepancy] = []
+    for line in lines:
+        if line.quantity is not None:
+            problems.extend(_check_quantity(line))
+        refs = list(map(by_fold.get, _folded(line.refs)))
+        if None in refs or any(map(found.__contains__, refs)):
+            taken = _take_refs(line, refs, found, problems)
+        else:
+            before = len(found)
+            found.update(zip(refs, repeat(line)))
+            taken = refs  # type: ignore[assignment]
+            if len(found) - before != len(refs):  # (a reference twice in this line)
+                for ref in refs:
+                    found.pop(ref, None)  # type: ignore[arg-type]
+                taken = _take_refs(line, refs, found, problems)
+        if taken:
+            groups.append((line, taken, list(map(parts.__getitem__, taken))))
+        _share_equal_refs(line, refs)
+    return groups, problems
+
+
+def _share_equal_refs(line: BomLine, refs: list[str | None]) -> None:
+    """:func:`_share_refs`, at once where the line's texts are the circuit's already or all
+    equal to them."""
+    bom_refs = line.refs
+    if all(map(is_, bom_refs, refs)):
+        return
+    if len(refs) == len(bom_refs) and None not in refs and tuple(refs) == bom_refs:
+        object.__setattr__(line, "refs", tuple(refs))  # (what _share_refs gives)
+    else:
+        _share_refs(line, refs)
+
+
+def _take_refs(line: BomLine, refs: list[str | None], found: dict[str, BomLine],
+               problems: list[BomDiscrepancy]) -> list[str]:
+    """``line``'s references one by one: ``refs`` are the circuit's references they name
+    (None for none); a first listing goes into ``found`` (and the list returned), the others
+    into ``problems``."""
+    taken = []
+    for bom_ref, ref in zip(line.refs, refs):
+        if ref is None:
+            problems.append(BomDiscrepancy(
+                "missing-from-netlist", (bom_ref,),
+                f"{bom_ref} is in the BOM (line {line.line}) but not in the netlist",
+                line.location))
+        elif ref in found:
+            problems.append(BomDiscrepancy(
+                "duplicate", (ref,),
+                f"{ref} is listed twice in the BOM (lines {found[ref].line} and {line.line})",
+                line.location))
+        else:
+            found[ref] = line
+            taken.append(ref)
+    return taken
+
+
+def apply_bom_plain(circuit: Circuit, bom: Bom) -> tuple[Circuit, tuple[BomDiscrepancy, ...]]:
+    """:func:`apply_bom` part by part, nothing shared but the line facts' texts: the
+    reference its tests compare with."""
     by_fold = {ref.casefold(): ref for ref in circuit.parts}
     found: dict[str, BomLine] = {}
     problems: list[BomDiscrepancy] = []
     for line in bom.lines:
         problems.extend(_check_quantity(line))
         refs = [by_fold.get(bom_ref.casefold()) for bom_ref in line.refs]
-        for bom_ref, ref in zip(line.refs, refs):
-            if ref is None:
-                problems.append(BomDiscrepancy(
-                    "missing-from-netlist", (bom_ref,),
-                    f"{bom_ref} is in the BOM (line {line.line}) but not in the netlist",
-                    line.location))
-            elif ref in found:
-                problems.append(BomDiscrepancy(
-                    "duplicate", (ref,),
-                    f"{ref} is listed twice in the BOM (lines {found[ref].line} and {line.line})",
-                    line.location))
-            else:
-                found[ref] = line
+        _take_refs(line, refs, found, problems)
         _share_refs(line, refs)
-    parts = dict(circuit.parts)  # (made at its full size at once; joined parts replace theirs)
-    facts: dict[int, dict[str, str]] = {}  # BOM line (by identity) -> its facts
-    # (line, everything the comparison and the properties read of a part) -> what the part gets
-    joins: dict[tuple, tuple[bool, bool, Mapping[str, str], str | None]] = {}
-    spice = circuit.format == "spice"
+    parts = dict(circuit.parts)
     for ref, part in circuit.parts.items():
         line = found.get(ref)
         if line is None:
-            if not (spice and part.kind == "source"):
+            if not (circuit.format == "spice" and part.kind == "source"):
                 problems.append(BomDiscrepancy(
                     "missing-from-bom", (ref,),
                     f"{ref} is in the netlist but not in the BOM", part.location))
             continue
-        properties, model = part.properties, part.model
-        key = (id(line), part.value, part.value_si, part.kind, part.part_number,
-               model is not None, model.name if model is not None else None,
-               id(properties) if properties else 0)
-        join = joins.get(key)
-        if join is None:
-            join = joins[key] = _join(part, line, facts)
-        same_value, compare, joined, number = join
-        if compare:
-            problems.extend(_compare(part, line, same_value))  # (equal texts agree: no call)
-        parts[ref] = _Part(ref, part.kind, part.value, part.pins, _stored(part, _Part),
-                           part.value_si, part.path, part.cell, number, joined, model)
+        same_value = line.value is None or part.value is None or _value_matches(part, line)
+        problems.extend(_compare(part, line, same_value))
+        parts[ref] = _enrich(part, line, same_value)
     return replace(circuit, parts=parts), tuple(problems)
+
+
+_READING = attrgetter("value", "value_si", "kind", "part_number", "properties", "model")
+"""Everything :func:`_join` reads of a part."""
+_REFS = attrgetter("refs")
+_SET_PROPERTIES = Part.__dict__["properties"].__set__
+_SET_NUMBER = Part.__dict__["part_number"].__set__
 
 
 _Part = Part

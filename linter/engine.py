@@ -115,7 +115,7 @@ def load_inputs(request: CheckRequest, registry: Mapping[str, Any] | None = None
             if request.bom is not None:
                 bom = read_bom(request.bom)
         if bom is not None:
-            circuit, discrepancies = apply_bom(circuit, bom)
+            circuit, discrepancies = apply_bom(circuit, bom, fresh=True)  # (just read)
         circuit, part_data = resolve_part_data(circuit, settings)
         rails = resolve_rails(circuit, settings)
     return AnalysisContext(circuit=circuit, settings=settings, rails=rails, part_data=part_data,
