@@ -102,7 +102,7 @@ def _pipeline(netlist: Path, bom_path: Path | None, stages: _Stages) -> None:
             bom = stages.run("bom", lambda: read_bom(bom_path)) if bom_path else None
         discrepancies = ()
         if bom is not None:
-            circuit, discrepancies = stages.run("bom join", lambda: apply_bom(circuit, bom))
+            circuit, discrepancies = stages.run("bom join", lambda: apply_bom(circuit, bom, fresh=True))
         circuit, part_data = stages.run("part data", lambda: resolve_part_data(circuit, settings))
         rails = stages.run("rails", lambda: resolve_rails(circuit, settings))
     context = AnalysisContext(circuit=circuit, settings=settings, rails=rails,
