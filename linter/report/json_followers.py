@@ -311,7 +311,7 @@ class GroupLines:
         groups = groups if isinstance(groups, (list, tuple)) else list(groups)
         counts: dict[int, int] = {}
         for group in groups:
-            origin = _origin(group)
+            origin = group.origin if isinstance(group, GroupResult) else None  # _origin
             if origin is not None and type(origin[0]) is GroupResult:
                 key = id(origin[0])
                 counts[key] = counts.get(key, 0) + 1
@@ -325,7 +325,7 @@ class GroupLines:
         """Lines made from a template's form so far (the rest went the plain way)."""
 
     def line(self, group: Any) -> str:
-        origin = _origin(group)
+        origin = group.origin if isinstance(group, GroupResult) else None  # _origin
         if origin is None:
             key = id(group)
             if key not in self._left and key not in self._lines:

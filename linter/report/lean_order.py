@@ -102,7 +102,8 @@ def _finding_key(finding: Finding) -> tuple:
     """:func:`linter.report.common._order` with the names' tuples written as text."""
     severity = finding.severity
     rank = _RANKS[severity] if severity in _RANKS else -severity_rank(severity)
-    return (rank, finding.rule, names_text(finding.parts), names_text(finding.nets),
+    nets = finding.nets  # most findings name no net: names_text(()) is "\x01"
+    return (rank, finding.rule, names_text(finding.parts), names_text(nets) if nets else "\x01",
             finding.message)
 
 
