@@ -1,36 +1,29 @@
-"""The keys of all the groups of one analysis, from per-part tables made in one pass.
+"""The keys of the groups of one analysis: :func:`linter.group_key.group_key`'s, coded flat.
 
-:func:`linter.group_key.group_key` encodes every part of every group on its own: reading
-its fields and pins, numbering its nets, and building a nested tuple that is hashed again
-for each group. On a large board the same few part shapes repeat thousands of times.
-:class:`GroupKeys` reads every part of the circuit once, with bulk operations, into two
-tables:
+:func:`~linter.group_key.group_key` nests a tuple per part and per pin and writes each part
+data record and rail as the tuple of its fields, so every key is large and hashing it walks
+all of that again. :class:`GroupKeys` reads the same things in the same order, as plain
+loops, into one flat tuple per group:
 
-* the *shape* of each part: a small number standing for exactly what
-  :func:`~linter.group_key.group_key` reads about it but its nets: for a modelled kind,
-  (kind, value, part number, SPICE model parameters, pin names, part data key); for a link
-  or an inductor, (kind, number of pins); any other kind, (kind,); equal numbers for
-  equal tuples (numbers are handed out by a dict, so equality is the tuples' own);
-* the nets of each part that the key reads (none for a kind that is not modelled or
-  joined).
+* each part data record and each SPICE model's parameters is a number, handed out by a dict
+  of their keys the first time the object is met (remembered by identity, the object kept):
+  equal numbers exactly for equal keys;
+* a rail net is a negative number (its place in the ``rails`` mapping), an unconnected pin
+  -1, a plain net the count of plain nets before its first appearance;
+* every variable-length piece comes after its length, so the flat tuple splits one way only.
 
-A group's key is then its shapes, its nets numbered by first appearance (one flat tuple;
-each shape tells how many nets are its own, so the split is fixed), its drives, scenarios,
-strings and setter as :func:`~linter.group_key.group_key` codes them, and its rail nets by
-their place in the ``rails`` mapping. Two groups of one analysis get equal keys exactly when
-:func:`~linter.group_key.group_key_plain` gives them equal keys (the flat tuple and the
-shape numbers are a one-to-one coding of its nested tuples within one analysis), and the
-references come in the same order (tests/test_key_tables.py compares both on the demo,
-generated boards and odd groups). Keys of different :class:`GroupKeys` are not comparable.
+Two groups of one analysis get equal keys exactly when
+:func:`~linter.group_key.group_key_plain` gives them equal keys, and the references come in
+the same order (tests/test_key_tables.py compares both on the demo, generated boards, odd
+groups and each input changed). Keys of different :class:`GroupKeys` are not comparable.
 
-A part datum or model parameter that cannot be hashed makes the constructor raise
-TypeError (the caller then keys each group with :func:`~linter.group_key.group_key`).
+A part datum or model parameter that cannot be hashed makes :meth:`GroupKeys.key` raise
+TypeError (the analysis then builds that group on its own).
 """
 
 from __future__ import annotations
 
-from itertools import chain, count
-from operator import attrgetter
+from itertools import count
 from typing import Any, Mapping
 
 from linter.group_key import DataKeys
@@ -42,9 +35,6 @@ from linter.partdata import PartDataMap, Rail
 __all__ = ["GroupKeys"]
 
 _JOINING = frozenset(("link", "inductor"))
-_FIELDS = attrgetter("kind", "value_si", "part_number", "model", "pins")
-_PIN_NAME = attrgetter("name")
-_PIN_NET = attrgetter("net")
 
 
 def _names(texts: tuple, index_get: Any) -> tuple:
@@ -52,7 +42,7 @@ def _names(texts: tuple, index_get: Any) -> tuple:
     group's references (as :func:`~linter.group_key.group_key` names them)."""
     coded = tuple(map(index_get, texts))
     if None in coded:
-        return tuple([("l", text) if code is None or text is None else code
+        return tuple([("l", text) if code is None else code
                       for text, code in zip(texts, coded)])
     return coded
 
@@ -100,68 +90,73 @@ class GroupKeys:
         """(key, refs) of ``group``: keys equal exactly when
         :func:`~linter.group_key.group_key_plain`'s are; ``refs`` as it gives them.
 
-        Written as plain loops: for the few parts, pins and strings of one group they cost
-        less than building the iterators of bulk calls."""
+        The key is one flat tuple, each variable-length piece after its length:
+        topology, group rails, the parts (then the string ends outside them) each as
+        :meth:`_read` writes it, the drives, the strings, the scenarios, the setter. Written
+        as plain loops: for the few parts, pins and strings of one group they cost less than
+        the iterators of bulk calls."""
         codes = self._base.copy()
         parts = group.parts
-        fields: list = []
-        nets: list = []
-        self._read(parts, fields, nets, codes)
+        strings = group.strings
+        out: list = [group.topology, group.rails, len(parts)]
+        self._read(parts, out, codes)
         index = dict(zip(parts, count()))
         if len(index) != len(parts):   # a reference named twice: numbered where first met
             index = dict(zip(dict.fromkeys(parts), count()))
-        strings = group.strings
-        outside: list = []
+        extra = ()
         for string in strings:
             if string and (string[0] not in index or string[-1] not in index):
                 extra = [ref for ref in dict.fromkeys(
                     [s[i] for s in strings if s for i in (0, -1)]) if ref not in index]
-                self._read(extra, outside, nets, codes)
-                for ref in extra:
-                    index[ref] = len(index)
                 break
+        out.append(len(extra))
+        if extra:
+            self._read(extra, out, codes)
+            for ref in extra:
+                index[ref] = len(index)
         pins = group.pins
-        drives: tuple = ()
         pin_ids: dict[str, int] = {}
         ids: list[str] = []
         if pins:
             ids = [drive.id for drive in pins]
             for pin_id in ids:
                 pin_ids.setdefault(pin_id, len(pin_ids))
-            drives = self._drives(pins, ids, pin_ids, index, codes)
+            out.append(self._drives(pins, ids, pin_ids, index, codes))
+        else:
+            out.append(())
         index_get = index.get
-        named: list = []
+        append = out.append
+        append(len(strings))
         for string in strings:
-            named.append(len(string))
+            append(len(string))
             for led in string:
                 code = index_get(led)
-                named.append(("l", led) if code is None else code)
-        scenarios = []
-        for scenario in group.scenarios:
+                append(("l", led) if code is None else code)
+        scenarios = group.scenarios
+        append(len(scenarios))
+        for scenario in scenarios:
             lit = scenario.lit
             if lit is not None:
                 lit = _names(lit, index_get)
             levels = scenario.levels
-            scenarios.append((scenario.name, tuple([levels.get(i) for i in ids]), lit))
+            append((scenario.name, tuple([levels.get(i) for i in ids]), lit))
         setter = group.setter
         if setter in pin_ids:
-            setter_key: Any = ("p", pin_ids[setter])
+            append(("p", pin_ids[setter]))
         else:
-            setter_key = index_get(setter) if setter is not None else None
-            if setter_key is None:
-                setter_key = ("l", setter)
-        key = (group.topology, setter_key, group.rails, tuple(named), tuple(fields),
-               tuple(outside), tuple(nets), drives, tuple(scenarios))
-        return key, tuple(index)
+            code = index_get(setter) if setter is not None else None
+            append(("l", setter) if code is None else code)
+        return tuple(out), tuple(index)
 
-    def _read(self, refs: Any, fields: list, nets: list, codes: dict) -> None:
-        """Append each part's fields (flat, see the module) to ``fields`` and the codes of
-        the nets the key reads to ``nets``, numbering new plain nets in ``codes`` on."""
+    def _read(self, refs: Any, out: list, codes: dict) -> None:
+        """Append each part to ``out``: None when the circuit lacks it; else its kind, then,
+        for a modelled kind, its value, part number, model and data numbers, number of pins
+        and each pin's name and net code; for a link or inductor, its number of pins and
+        each pin's net code. New plain nets are numbered in ``codes`` on."""
         parts_get, data_get, data_codes, model_codes = self._getters
         codes_get = codes.get
         base = len(self._base)
-        append = fields.append
-        add_net = nets.append
+        append = out.append
         for ref in refs:
             part = parts_get(ref)
             if part is None:
@@ -178,24 +173,23 @@ class GroupKeys:
                 if model_code is None:
                     model_code = self._model_code(model)
                 pins = part.pins
-                fields += (kind, part.value_si, part.part_number, model_code, data_code,
-                           len(pins))
+                out += (kind, part.value_si, part.part_number, model_code, data_code,
+                        len(pins))
                 for pin in pins:
-                    append(pin.name)
                     net = pin.net
                     code = codes_get(net)
                     if code is None:
                         code = codes[net] = len(codes) - base
-                    add_net(code)
+                    out += (pin.name, code)
             elif kind in _JOINING:
                 pins = part.pins
-                fields += (kind, len(pins))
+                out += (kind, len(pins))
                 for pin in pins:
                     net = pin.net
                     code = codes_get(net)
                     if code is None:
                         code = codes[net] = len(codes) - base
-                    add_net(code)
+                    append(code)
             else:
                 append(kind)
 
