@@ -51,13 +51,21 @@ class PinOvercurrent(Rule):
 
     def check(self, context: Any) -> Iterable[Finding]:
         contributions: dict[str, list[tuple[PinResult, GroupResult]]] = {}
-        has_pins = PerTemplate(lambda base: bool(base.pins))  # a follower's: its template's
-        for result, _ in flagged(context, has_pins):
-            for pin in _pins(result):
-                if pin.current_max is not None and pin.current.max > pin.current_max:
-                    yield self._pin_finding(context, result, pin)
-            for part, pin in _largest_pin_per_part(result).items():
-                contributions.setdefault(part, []).append((pin, result))
+        # a template's pins above their rating (positions), and all its pins: a follower's
+        # pins are its template's figures in the same order (see _pins)
+        verdicts = PerTemplate(lambda base: (tuple(i for i, pin in enumerate(base.pins)
+                                                   if pin.current_max is not None
+                                                   and pin.current.max > pin.current_max),
+                                             base.pins))
+        for result, (over, pins) in flagged(context, verdicts):  # groups with pins
+            # the pins' ids: a follower's its own drives' (as many as _pins pairs up)
+            ids = [pin.id for pin in pins] if result.origin is None else [
+                drive.id for drive, _ in zip(result.group.pins, pins)]
+            for index in over:
+                if index < len(ids):
+                    yield self._pin_finding(context, result, _pin(result, index))
+            for part, index in _largest_per_part(ids, pins).items():
+                contributions.setdefault(part, []).append((_pin(result, index), result))
         for part, pins in sorted(contributions.items()):
             finding = self._package_finding(context, part, pins)
             if finding is not None:
@@ -113,6 +121,27 @@ def _largest_pin_per_part(result: GroupResult) -> dict[str, PinResult]:
         if part not in largest or pin.current.max > largest[part].current.max:
             largest[part] = pin
     return largest
+
+
+def _largest_per_part(ids: list[str], pins: tuple[PinResult, ...]) -> dict[str, int]:
+    """:func:`_largest_pin_per_part` as positions: ``ids`` the group's pin ids, ``pins``
+    the records holding their figures (a follower's template's), in the same order."""
+    largest: dict[str, int] = {}
+    for index, pin_id in enumerate(ids):
+        part = pin_id.split(".", 1)[0]
+        if part not in largest or pins[index].current.max > pins[largest[part]].current.max:
+            largest[part] = index
+    return largest
+
+
+def _pin(result: GroupResult, index: int) -> PinResult:
+    """``_pins(result)[index]``, made alone (a follower's from its template's figures and
+    its own pin drive)."""
+    base, refs = figures_of(result)
+    if refs is None:
+        return result.pins[index]
+    pin, drive = base.pins[index], result.group.pins[index]
+    return PinResult(drive.id, drive.net, pin.current, pin.sourcing, pin.current_max)
 
 
 def _pins(result: GroupResult) -> tuple[PinResult, ...]:
