@@ -17,6 +17,7 @@ from __future__ import annotations
 
 import gc
 import time
+from collections import deque
 from contextlib import contextmanager
 from dataclasses import dataclass
 from typing import Iterable, Iterator, Mapping
@@ -245,27 +246,26 @@ def analyse(groups: Iterable[Group], circuit: Circuit, part_data: PartDataMap,
             for (index, _), result in zip(members, solved):
                 results[index] = result
         with _stage("rename"):
-            compiled: dict[int, Template] = {}
-            followers = work.followers
-            for index, template, refs in followers:
-                made = compiled.get(template)
-                if made is None:
-                    made = compiled[template] = Template(
-                        results[template], work.templates[template][1])  # type: ignore[arg-type]
-                results[index] = made.follower(groups[index], refs)
-            followers.clear()
+            for template, (indices, refs_maps) in work.followers.items():
+                if not indices:
+                    continue
+                made = Template(results[template],  # type: ignore[arg-type]
+                                work.templates[template][1])
+                deque(map(results.__setitem__, indices, made.followers(
+                    list(map(groups.__getitem__, indices)), refs_maps)), 0)
+            work.followers.clear()
     return tuple(r for r in results if r is not None)
 
 
 @dataclass(frozen=True, eq=False)
 class _Work:
     """What :func:`_build` leaves to solve: models by structure signature (with their
-    group's index); followers (index, template index, the map from the template's part
-    references to the follower's); per template index, its references in key order and its
-    model's note parts."""
+    group's index); per template index, its followers (their indices, and the maps from the
+    template's part references to each one's); per template index, its references in key
+    order and its model's note parts."""
 
     buckets: dict[tuple, list[tuple[int, GroupModel]]]
-    followers: list[tuple[int, int, dict[str, str]]]
+    followers: dict[int, tuple[list[int], list[dict[str, str]]]]
     templates: dict[int, tuple[tuple[str, ...], tuple[tuple[str, str], ...]]]
 
 
@@ -276,7 +276,7 @@ def _build(groups: tuple[Group, ...], circuit: Circuit, part_data: PartDataMap,
     :func:`~linter.group_key.group_key_plain` keys are) equals an earlier modelled group's is
     a follower of it. A group that cannot be modelled gets its
     ``unsolved`` result in ``results`` (its followers are then built each on its own)."""
-    work = _Work({}, [], {})
+    work = _Work({}, {}, {})
     first: dict[tuple, tuple[int, tuple[str, ...]] | None] = {}
     keyed = GroupKeys(circuit, part_data, rails).key
     for index, group in enumerate(groups):
@@ -288,7 +288,9 @@ def _build(groups: tuple[Group, ...], circuit: Circuit, part_data: PartDataMap,
             except TypeError:   # a figure that cannot be hashed: built on its own
                 key, template = None, ()
             if template:
-                work.followers.append((index, template[0], dict(zip(template[1], names))))
+                indices, refs_maps = work.followers[template[0]]
+                indices.append(index)
+                refs_maps.append(dict(zip(template[1], names)))
                 continue
         try:
             model = build_model(group, circuit, part_data, rails)
@@ -300,6 +302,7 @@ def _build(groups: tuple[Group, ...], circuit: Circuit, part_data: PartDataMap,
         if key is not None:
             first[key] = (index, names)
             work.templates[index] = (names, model.note_parts)
+            work.followers[index] = ([], [])
         work.buckets.setdefault(model.signature, []).append((index, model))
     return work
 

@@ -171,3 +171,28 @@ def test_a_pickled_follower_unpickles_unbuilt_with_its_template() -> None:
     changed = replace(lazy, corners=3)
     again = pickle.loads(pickle.dumps(changed))
     assert again == changed and built_fields(again) == RECORDS + ("notes",)
+
+
+_SLOTS = ("group", "status", "rail", "corners", "scheme", "reason", "origin", "_template")
+
+
+def test_followers_made_together_equal_followers_made_one_by_one() -> None:
+    # the plain reference: Template.follower, once per group
+    result, notes = _template()
+    template = Template(result, notes)
+    group = _follower_group(result.group)
+    other = replace(group, id="G-other")
+    refs = [REFS, dict(REFS), {**REFS}]
+    made = template.followers([group, other, group], refs)
+    alone = [template.follower(g, r) for g, r in zip([group, other, group], refs)]
+    assert [type(x) for x in made] == [FollowerResult] * 3
+    for at, (together, one) in enumerate(zip(made, alone)):
+        for name in _SLOTS:
+            got, want = getattr(together, name), getattr(one, name)
+            assert got == want, name
+            if name in ("group", "_template"):
+                assert got is want, name
+        assert together.origin[0] is result and together.origin[1] is refs[at]
+        assert built_fields(together) == ()   # made unbuilt, as one by one
+        assert together == one and _plain(together) == _plain(one)
+    assert template.followers([], []) == []
