@@ -99,6 +99,7 @@ def forget_board() -> None:
     rules, so that a run over several boards holds one board at a time)."""
     _SOLVED[:] = [None, (), None]
     _PHRASES.clear()
+    _FORMS.clear()
     from linter import fix_search
     fix_search.forget_board()
 
@@ -207,11 +208,13 @@ def at_corner(corner: Corner | None, result: Any, focus: Iterable[str] = (),
     rails = corner.rails
     key = _phrase_key(corner, rail)
     if refs is not None and key is None:  # LEDs named: the follower's names, in order
-        ordered = [(rail, rails[rail])] if rail in rails else []
-        ordered += [(n, level_v) for n, level_v in rails.items()
-                    if n != rail and level_v[0] != "nom"]
-        return _phrase(ordered, corner, focus, {refs[name]: level
-                                               for name, level in corner.vf.items()})
+        if not focus:
+            form = _named_form(corner, rail)
+            if form is not None:
+                names = tuple(map(refs.__getitem__, form[1]))
+                if len(set(names)) == len(names):
+                    return form[0] % names
+        return _renamed_phrase(corner, rail, focus, refs)
     if key is not None:
         entry = _PHRASES.get(key)
         if entry is not None and entry[0] is rails:
@@ -254,6 +257,49 @@ _PACK_FLOAT = struct.Struct("<d").pack
 _PHRASES_KEPT = 4096
 """Corner phrases kept (all dropped when full)."""
 _PHRASES: dict[tuple, tuple[Any, str]] = {}
+
+
+def _renamed_phrase(corner: Corner, rail: Any, focus: Iterable[str], refs: Any) -> str:
+    """:func:`at_corner`'s words for a follower, written out (the plain twin of
+    :func:`_named_form`)."""
+    rails = corner.rails
+    ordered = [(rail, rails[rail])] if rail in rails else []
+    ordered += [(n, level_v) for n, level_v in rails.items() if n != rail and level_v[0] != "nom"]
+    return _phrase(ordered, corner, focus, {refs[name]: level
+                                           for name, level in corner.vf.items()})
+
+
+def _named_form(corner: Corner, rail: Any) -> tuple[str, tuple[str, ...]] | None:
+    """(a %-format, the corner's LED names in order): ``form % names`` is
+    :func:`at_corner` of ``corner`` (no focus) for a follower whose LEDs are ``names``
+    (the corner's renamed one to one, in order), when the corner's LEDs are named; made
+    once per corner and rail. None when a rail's or level's text holds a NUL (the
+    placeholders' mark)."""
+    key = (id(corner), rail)
+    entry = _FORMS.get(key)
+    if entry is not None and entry[0] is corner:
+        return entry[1]
+    rails = corner.rails
+    names = tuple(corner.vf.keys())
+    ordered = [(rail, rails[rail])] if rail in rails else []
+    ordered += [(n, level_v) for n, level_v in rails.items() if n != rail and level_v[0] != "nom"]
+    marks = {f"\0{index}\0": level for index, (_, level) in enumerate(corner.vf.items())}
+    text = _phrase(ordered, corner, (), marks)
+    form = None
+    if text.count("\0") == 2 * len(names) and len(marks) == len(names):
+        cut = text.replace("%", "%%")
+        for mark in marks:
+            cut = cut.replace(mark, "%s", 1)
+        if cut.count("%s") == len(names):
+            form = (cut, names)
+    if len(_FORMS) >= _PHRASES_KEPT:
+        _FORMS.clear()
+    _FORMS[key] = (corner, form)
+    return form
+
+
+_FORMS: dict[tuple, tuple[Any, Any]] = {}
+""":func:`_named_form` by (corner's id, rail), each with its corner."""
 
 
 def nameless_at_corner(corner: Corner | None, result: Any) -> str | None:

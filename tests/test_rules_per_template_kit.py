@@ -100,3 +100,28 @@ def test_flagged_gives_the_plain_filter_in_order():
             assert [v for _, v in plain] == [1] * 3 + [2] * 4  # template 1 and 2 with followers
     finally:
         rulekit.forget_board()
+
+
+def test_named_corner_forms_give_the_written_out_words():
+    # expected: rulekit._renamed_phrase, the plain path of our own code
+    rails_of = [RAILS, {"+5V": ("min", 4.75), "V%1": ("max", 3.6)},
+                {"A\0B": ("max", 1.0)}, {}]
+    cases = 0
+    for rails in rails_of:
+        for names, bins in [(("D1", "D2"), ("vf_min", "vf_max")),
+                            (("D1", "D2", "D3"), ("vf_max", "vf_min", "vf_max")),
+                            (("D1",), ("vf_min",)), ((), ())]:
+            for ambient in (25.0, -0.0, 70.0):
+                for vf in (Levels(tuple(names), tuple(bins)), dict(zip(names, bins))):
+                    corner = Corner("on", rails, ambient, vf, {}, {})
+                    for renamed in ({n: f"L{i}%s" for i, n in enumerate(names)},
+                                    {n: "D9" for n in names},  # not one to one
+                                    {n: n.lower() for n in names}):
+                        for rail in ("+5V", "+12V", None):
+                            result = SimpleNamespace(rail=rail)
+                            for _ in range(2):  # the form made, then kept
+                                assert rulekit.at_corner(corner, result, (), renamed) == \
+                                    rulekit._renamed_phrase(corner, rail, (), renamed)
+                            cases += 1
+    rulekit.forget_board()
+    assert cases == 4 * 4 * 3 * 2 * 3 * 3
