@@ -28,7 +28,7 @@ from collections import Counter
 from dataclasses import dataclass
 from typing import Iterator
 from itertools import accumulate, chain, compress, repeat
-from operator import attrgetter, is_not
+from operator import attrgetter, is_not, itemgetter
 
 from linter.errors import NetlistError
 from linter.kinds import infer_kind
@@ -177,10 +177,8 @@ def _flat_circuit(doc: Document, edif: EdifFile, plan: FlatPlan, refs: list[str]
     firsts = plan.firsts
     part_pins = map(tuple, map(pins.__getitem__, map(slice, firsts, firsts[1:] + [len(pins)])))
     paths = [instance.name.display for instance in instances]
-    parts = dict(zip(refs, map(maker.make, _handed_over(instances),
-                               map(attrgetter("cell"), targets), views, refs, places, paths,
-                               part_pins)))
-    del pins, paths
+    parts = maker.make_many(instances, targets, refs, places, paths, part_pins)
+    del pins, paths, instances
     connected = sorted(compress(range(len(pin_nets)), map(is_not, pin_nets, repeat(None))),
                        key=pin_nets.__getitem__)  # by net, in part and pin order (stable)
     slot_refs = list(chain.from_iterable(map(repeat, refs, pin_counts)))
@@ -336,6 +334,8 @@ def _fields(cell: Cell, view: View, instance: Instance) -> _Fields:
                    properties or _NO_PROPERTIES)
 
 
+_Reading = tuple  # (kind, value, ohms, problem, cell, part number, properties)
+
 _NO_PROPERTIES: dict[str, str] = {}
 """One empty property table for every part without properties (never changed)."""
 
@@ -367,15 +367,25 @@ class _PartMaker:
     def make(self, instance: Instance, cell: Cell, view: View, ref: str,
              location: SourceLocation, path: str, pins: tuple[Pin, ...]) -> Part:
         """The part an instance of ``cell``'s ``view`` places, with its pins made."""
+        kind, value, ohms, problem, cell_name, part_number, properties = self.reading(
+            instance, cell, view, ref)
+        if problem:
+            raise self.doc.error(instance.form, f"{ref}: {problem}")
+        return Part(ref, kind, value, pins, location, ohms, path, cell_name, part_number,
+                    properties)
+
+    def reading(self, instance: Instance, cell: Cell, view: View, ref: str) -> _Reading:
+        """What the part's fields are (kind, value, ohms, problem, cell, part number and
+        properties), worked out once per property reading and reference stem."""
         key = (id(cell), id(view), id(instance.properties))
-        fields = self.fields.get(key)
-        if fields is None:
-            fields = self.fields[key] = _fields(cell, view, instance)
-            self.kept += (cell, view, instance.properties)
-        value, cell_name = fields.value, cell.name.display
         stem = ref.rstrip(_DIGITS)
         known = self.kinds.get((stem, key))
         if known is None:
+            fields = self.fields.get(key)
+            if fields is None:
+                fields = self.fields[key] = _fields(cell, view, instance)
+                self.kept += (cell, view, instance.properties)
+            value, cell_name = fields.value, cell.name.display
             kind = infer_kind(ref, value, fields.part_number, fields.description,
                               fields.package, cell_name)
             reading = self.values.get((kind, value))
@@ -383,12 +393,31 @@ class _PartMaker:
                 ohms = _ohms(kind, value)
                 reading = self.values[(kind, value)] = (ohms,
                                                         _resistance_problem(kind, value, ohms))
-            known = self.kinds[(stem, key)] = (kind, reading)
-        kind, reading = known
-        if reading[1]:
-            raise self.doc.error(instance.form, f"{ref}: {reading[1]}")
-        return Part(ref, kind, value, pins, location, reading[0], path, cell_name,
-                    fields.part_number, fields.properties)
+            known = self.kinds[(stem, key)] = (kind, value, *reading, cell_name,
+                                               fields.part_number, fields.properties)
+        return known
+
+    def make_many(self, instances: list[Instance], targets: list, refs: list[str],
+                  places: list[SourceLocation], paths: list[str],
+                  pins: Iterator[tuple[Pin, ...]]) -> dict[str, Part]:
+        """:meth:`make` of many parts (instance ``i`` placing ``targets[i]``'s cell view) by
+        built-in passes: each distinct reading is worked out once, from the first part that
+        has it; the first part whose reading is a problem is refused, as :meth:`make` would."""
+        def keys() -> Iterator[tuple[str, int, int]]:
+            return zip(map(str.rstrip, refs, repeat(_DIGITS)), map(id, targets),
+                       map(id, map(attrgetter("properties"), instances)))
+        first: dict[tuple[str, int, int], int] = {}
+        list(map(first.setdefault, keys(), range(len(refs))))
+        rows = {key: self.reading(instances[at], targets[at].cell, targets[at].view, refs[at])
+                for key, at in first.items()}
+        readings = list(map(rows.__getitem__, keys()))
+        if any(map(itemgetter(3), rows.values())):
+            at = next(at for at, row in enumerate(readings) if row[3])
+            raise self.doc.error(instances[at].form, f"{refs[at]}: {readings[at][3]}")
+        columns = [list(map(itemgetter(column), readings)) for column in range(7)]
+        kinds, values, ohms, _, cells, part_numbers, properties = columns
+        return dict(zip(refs, map(Part, refs, kinds, values, pins, places, ohms, paths, cells,
+                                  part_numbers, properties)))
 
     def view_pin_names(self, view: View) -> tuple[str, ...]:
         """The pin names of a view, in pin-block order (worked out once per view)."""

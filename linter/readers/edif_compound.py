@@ -38,9 +38,9 @@ _STRING = r'"([^"]*+)"'
 
 
 def _kw(word: str) -> str:
-    """A keyword in any ASCII letter case, followed by the end of its atom."""
-    letters = "".join(f"[{c.upper()}{c.lower()}]" for c in word)
-    return rf'{letters}(?![^{_WS}()"])'
+    """A keyword in any ASCII letter case (only: the ``a`` flag), followed by the end of its
+    atom. (The case-blind literal is matched faster than a class per letter.)"""
+    return rf'(?ai:{word})(?![^{_WS}()"])'
 
 
 def _ws_form(*pieces: str) -> str:

@@ -26,8 +26,8 @@ from __future__ import annotations
 
 from collections import Counter
 from dataclasses import dataclass
-from itertools import accumulate, chain, compress, repeat
-from operator import attrgetter, floordiv, is_, not_
+from itertools import accumulate, chain, compress, count, repeat
+from operator import attrgetter, eq, floordiv, is_, not_
 
 from linter.errors import NetlistError
 from linter.limits import active
@@ -143,11 +143,13 @@ def _connect(nets: list[Net], view: View, own_ports: dict[str, int], targets: li
 def _instance_numbers(view: View, written: list[str]) -> list[int] | None:
     """The number (in ``view.instances``) of each instance named in ``written``, or None
     when one is not there."""
-    index = {key: number for number, key in enumerate(view.instances)}
-    as_declared = {instance.name.display: index[key] for key, instance in view.instances.items()
-                   if instance.name.display.casefold() == key}
+    keys = list(view.instances)
+    displays = list(map(attrgetter("name.display"), view.instances.values()))
+    as_declared = dict(compress(zip(displays, count()), map(eq, map(str.casefold, displays), keys)))
+    del displays
     at = list(map(as_declared.get, written))
     if None in at:  # named in another letter case (or not at all)
+        index = dict(zip(keys, count()))
         for position in compress(range(len(at)), map(is_, at, repeat(None))):
             at[position] = index.get(written[position].casefold())
         if None in at:

@@ -226,9 +226,10 @@ class Document:
         starts = [0, *offsets[:-1]]
         lines = list(accumulate(map(text.count, repeat("\n"), starts, offsets), initial=1))
         del lines[0]
-        line_starts = accumulate(map(text.rfind, repeat("\n"), starts, offsets), max, initial=-1)
-        next(line_starts)
-        columns = list(map(sub, offsets, line_starts))  # offset - (start - 1): 1-based
+        line_ends = list(map(text.rfind, repeat("\n"), starts, offsets))
+        if -1 in line_ends[1:]:  # two offsets on one line: carry the line start over
+            line_ends = accumulate(line_ends, max)
+        columns = list(map(sub, offsets, line_ends))  # offset - (start - 1): 1-based
         return lines, columns
 
     def position_of(self, node: list | int) -> tuple[int, int]:
