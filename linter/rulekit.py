@@ -208,12 +208,14 @@ def at_corner(corner: Corner | None, result: Any, focus: Iterable[str] = (),
     rails = corner.rails
     key = _phrase_key(corner, rail)
     if refs is not None and key is None:  # LEDs named: the follower's names, in order
-        if not focus:
-            form = _named_form(corner, rail)
-            if form is not None:
-                names = tuple(map(refs.__getitem__, form[1]))
-                if len(set(names)) == len(names):
-                    return form[0] % names
+        focus = tuple(focus)
+        if len(focus) <= 1:
+            names = tuple(map(refs.__getitem__, corner.vf.keys()))
+            if len(set(names)) == len(names):  # one to one: the template's words renamed
+                position = names.index(focus[0]) if focus and focus[0] in names else None
+                form = _named_form(corner, rail, position)
+                if form is not None:
+                    return form[0] % tuple(names[i] for i in form[1])
         return _renamed_phrase(corner, rail, focus, refs)
     if key is not None:
         entry = _PHRASES.get(key)
@@ -269,29 +271,32 @@ def _renamed_phrase(corner: Corner, rail: Any, focus: Iterable[str], refs: Any) 
                                            for name, level in corner.vf.items()})
 
 
-def _named_form(corner: Corner, rail: Any) -> tuple[str, tuple[str, ...]] | None:
-    """(a %-format, the corner's LED names in order): ``form % names`` is
-    :func:`at_corner` of ``corner`` (no focus) for a follower whose LEDs are ``names``
-    (the corner's renamed one to one, in order), when the corner's LEDs are named; made
-    once per corner and rail. None when a rail's or level's text holds a NUL (the
-    placeholders' mark)."""
-    key = (id(corner), rail)
+def _named_form(corner: Corner, rail: Any, focus: int | None = None
+                ) -> tuple[str, tuple[int, ...]] | None:
+    """(a %-format, positions in the corner's LEDs): ``form % names`` (the named LEDs'
+    names at those positions) is :func:`at_corner` of ``corner`` for a follower whose LEDs
+    are the corner's renamed one to one, in order, with the LED at position ``focus`` as
+    its focus (None: no focus), when the corner's LEDs are named; made once per corner,
+    rail and focus. None when a rail's or level's text holds a NUL (the placeholders' mark)."""
+    key = (id(corner), rail, focus)
     entry = _FORMS.get(key)
     if entry is not None and entry[0] is corner:
         return entry[1]
     rails = corner.rails
-    names = tuple(corner.vf.keys())
     ordered = [(rail, rails[rail])] if rail in rails else []
     ordered += [(n, level_v) for n, level_v in rails.items() if n != rail and level_v[0] != "nom"]
     marks = {f"\0{index}\0": level for index, (_, level) in enumerate(corner.vf.items())}
-    text = _phrase(ordered, corner, (), marks)
+    names = list(marks)
+    text = _phrase(ordered, corner, () if focus is None else (names[focus],), marks)
     form = None
-    if text.count("\0") == 2 * len(names) and len(marks) == len(names):
+    found = sorted((text.find(mark), index) for index, mark in enumerate(names)
+                   if mark in text)
+    if (text.count("\0") == 2 * len(found)
+            and all(text.count(names[index]) == 1 for _, index in found)):
         cut = text.replace("%", "%%")
-        for mark in marks:
-            cut = cut.replace(mark, "%s", 1)
-        if cut.count("%s") == len(names):
-            form = (cut, names)
+        for _, index in found:
+            cut = cut.replace(names[index], "%s", 1)
+        form = (cut, tuple(index for _, index in found))
     if len(_FORMS) >= _PHRASES_KEPT:
         _FORMS.clear()
     _FORMS[key] = (corner, form)

@@ -117,11 +117,16 @@ def test_named_corner_forms_give_the_written_out_words():
                     for renamed in ({n: f"L{i}%s" for i, n in enumerate(names)},
                                     {n: "D9" for n in names},  # not one to one
                                     {n: n.lower() for n in names}):
+                        focuses = [(), ("nobody",), *((renamed[n],) for n in names),
+                                   tuple(renamed[n] for n in names[:2])]
                         for rail in ("+5V", "+12V", None):
                             result = SimpleNamespace(rail=rail)
-                            for _ in range(2):  # the form made, then kept
-                                assert rulekit.at_corner(corner, result, (), renamed) == \
-                                    rulekit._renamed_phrase(corner, rail, (), renamed)
-                            cases += 1
+                            for focus in focuses:
+                                for _ in range(2):  # the form made, then kept
+                                    assert rulekit.at_corner(corner, result, focus,
+                                                             renamed) == \
+                                        rulekit._renamed_phrase(corner, rail, focus, renamed)
+                                cases += 1
     rulekit.forget_board()
-    assert cases == 4 * 4 * 3 * 2 * 3 * 3
+    # rail sets, ambients, vf kinds, renamings, group rails; focuses of 2, 3, 1, 0 LEDs
+    assert cases == 4 * 3 * 2 * 3 * 3 * (5 + 6 + 4 + 3)
