@@ -63,9 +63,20 @@ class ResistorOverload(Rule):
                 out.append((resistor, allowance, over(resistor.power.max, allowance)))
             return tuple(out)
 
-        verdicts = PerTemplate(rated)
-        for result, items in flagged(context, verdicts):  # groups with a rated part
-            name = renamer(figures_of(result)[1])
+        def summary(base: GroupResult) -> tuple:
+            """(:func:`rated`, the rated parts' names, whether one is over), or () when
+            none is rated."""
+            items = rated(base)
+            return (items, tuple(item[0].ref for item in items),
+                    any(item[2] for item in items)) if items else ()
+
+        verdicts = PerTemplate(summary)
+        for result, (items, names, any_over) in flagged(context, verdicts):  # rated parts
+            refs = figures_of(result)[1]
+            if not any_over:  # nothing to report: the parts are only seen
+                seen.update(names if refs is None else map(refs.__getitem__, names))
+                continue
+            name = renamer(refs)
             for resistor, allowance, is_over in items:
                 ref = name(resistor.ref)
                 if ref in seen:
