@@ -116,7 +116,7 @@ def load_inputs(request: CheckRequest, registry: Mapping[str, Any] | None = None
                 bom = read_bom(request.bom)
         if bom is not None:
             circuit, discrepancies = apply_bom(circuit, bom, fresh=True)  # (just read)
-        circuit, part_data = resolve_part_data(circuit, settings)
+        circuit, part_data = resolve_part_data(circuit, settings, fresh=True)  # (just read)
         rails = resolve_rails(circuit, settings)
     return AnalysisContext(circuit=circuit, settings=settings, rails=rails, part_data=part_data,
                            bom=bom, bom_discrepancies=discrepancies)

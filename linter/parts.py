@@ -13,6 +13,9 @@ from __future__ import annotations
 
 import math
 from dataclasses import replace
+from functools import cached_property
+from itertools import compress, count
+from operator import attrgetter, itemgetter
 from typing import TYPE_CHECKING, Any, Mapping
 
 from linter.generic_parts import (AXIAL_POWER, GENERIC_BJT, GENERIC_LEDS, GENERIC_MCU,
@@ -57,40 +60,104 @@ def folded_specs(specs: Mapping[str, PartSpec]) -> dict[str, PartSpec]:
     return {number.casefold(): spec for number, spec in specs.items()}
 
 
-def resolve_part_data(circuit: Circuit, settings: "Settings") -> tuple[Circuit, dict[str, PartData]]:
+def resolve_part_data(circuit: Circuit, settings: "Settings", *, fresh: bool = False,
+                      ) -> tuple[Circuit, dict[str, PartData]]:
     """A Circuit with kinds and part numbers from part data applied, and part data by ref.
 
     Everything but the note is worked out once per *reading*: the part's kind, value and its
-    reading, part number, cell, properties mapping and model (everything :func:`find_spec`
-    and the records read but the reference and, for a microcontroller, the pins); a record
-    whose note names the part is renamed for each. :func:`resolve_part_data_plain` is the
-    same, part by part.
+    reading, part number, cell, properties (by content) and model (everything
+    :func:`find_spec` and the records read but the reference and, for a microcontroller, the
+    pins: its record is made once per reading and pin names); a record whose note names the
+    part is renamed for each. The readings are gathered in C-level passes over the parts and
+    the records handed out in bulk. ``fresh=True`` says the circuit's Part objects are the
+    caller's alone (just read, seen by nothing else): a changed kind or part number is then
+    stored into the part in place. :func:`resolve_part_data_plain` is the same, part by part.
     """
-    parts: dict[str, Part] | None = None
-    data: dict[str, PartData] = {}
-    folded = folded_specs(settings.parts)
-    readings: dict[tuple, tuple[PartSpec | None, str, str | None, PartData | None, str | None]] = {}
-    tolerance = settings.assume.resistor_tolerance
-    for ref, part in circuit.parts.items():
-        properties, model = part.properties, part.model
-        key = (part.kind, part.value, part.value_si, part.part_number, part.cell,
-               id(properties) if properties else 0, id(model))
-        reading = readings.get(key)
-        if reading is None:
-            reading = readings[key] = _reading(part, settings, folded, tolerance)
-        spec, kind, number, record, note = reading
-        if kind != part.kind or number != part.part_number:
-            part = replace(part, kind=kind, part_number=number,
-                           location=stored_location(part))  # (packed or not, as read)
-            if parts is None:
-                parts = dict(circuit.parts)
-            parts[ref] = part
-        if record is None:
-            if kind == "mcu":  # (its record reads the pins: made for each)
-                data[ref] = _mcu_data(part, spec)
+    parts = circuit.parts
+    refs = list(parts)
+    held = list(parts.values())
+    keys = [(part.kind, part.value, part.value_si, part.part_number, part.cell,  # (one pass)
+             id(part.properties), id(part.model)) for part in held]
+    readings = _readings(dict(zip(keys, held)), settings)
+    per_part = list(map(readings.__getitem__, keys))
+    changed: dict[str, Part] | None = None
+    for index in compress(count(), map(_CHANGES, per_part)):
+        part, (_, kind, number, *_) = held[index], per_part[index]
+        if fresh:
+            _SET_KIND(part, kind)
+            _SET_NUMBER(part, number)
             continue
-        data[ref] = record if note is None else _renamed(record, f"{ref}: {note}")
-    return replace(circuit, parts=circuit.parts if parts is None else parts), data
+        if changed is None:
+            changed = dict(parts)
+        held[index] = changed[refs[index]] = Part(
+            part.ref, kind, part.value, part.pins, stored_location(part), part.value_si,
+            part.path, part.cell, number, part.properties, part.model)  # (replace, in short)
+    data = dict(compress(zip(refs, map(_RECORD, per_part)), map(_HAS_DATA, per_part)))
+    mcus: dict[tuple, tuple[PartData, str | None]] = {}
+    for index in compress(count(), map(_SPECIAL, per_part)):
+        ref, (spec, kind, _, record, note, *_) = refs[index], per_part[index]
+        if record is _MCU:  # (its record reads the pins: made once per reading and pin names)
+            part = held[index]
+            key = (id(spec), part.part_number, tuple(map(_NAME, part.pins)))
+            made = mcus.get(key)
+            if made is None:
+                made = mcus[key] = _without_ref(_mcu_data(part, spec), part.ref)
+            record, note = made
+            data[ref] = record if note is None else _renamed(record, f"{ref}: {note}")
+        else:
+            data[ref] = _renamed(record, f"{ref}: {note}")
+    return (replace(circuit, parts=parts if changed is None else changed),
+            data)  # type: ignore[return-value]
+
+
+def _readings(firsts: Mapping[tuple, Part], settings: "Settings") -> dict[tuple, tuple]:
+    """For each reading key (see :func:`resolve_part_data`) and a part that has it: the
+    :func:`_reading` of that part (its record :data:`_MCU` for a microcontroller), then
+    whether the part's kind or part number changes, whether its record must be made or
+    renamed for it (a microcontroller, a note naming it) and whether it has a record.
+    Keys whose properties mappings are equal share one reading."""
+    folded = folded_specs(settings.parts)
+    tolerance = settings.assume.resistor_tolerance
+    by_content: dict[tuple, tuple] = {}
+    readings: dict[tuple, tuple] = {}
+    for key, part in firsts.items():
+        content = key
+        try:
+            content = (*key[:5], tuple(part.properties.items()), key[6])
+            hash(content)
+        except TypeError:  # (a property value that is no hash key: by identity)
+            content = key
+        reading = by_content.get(content)
+        if reading is None:
+            spec, kind, number, record, note = _reading(part, settings, folded, tolerance)
+            mcu = record is None and kind == "mcu"
+            reading = by_content[content] = (
+                spec, kind, number, _MCU if mcu else record, note,
+                kind != part.kind or number != part.part_number,
+                note is not None or mcu, record is not None or mcu)
+        readings[key] = reading
+    return readings
+
+
+def _without_ref(record: PartData, ref: str) -> tuple[PartData, str | None]:
+    """``record`` and its note without the ``"{ref}: "`` it starts with (None when it does
+    not start so: the record is then the part's as it is)."""
+    note = getattr(record, "note", None)
+    prefix = f"{ref}: "
+    if note is None or not note.startswith(prefix):
+        return record, None
+    return record, note[len(prefix):]
+
+
+_NAME = attrgetter("name")
+_RECORD = itemgetter(3)
+_CHANGES = itemgetter(5)
+_SPECIAL = itemgetter(6)
+_HAS_DATA = itemgetter(7)
+_MCU: Any = object()
+"""Stands for a microcontroller's record (made for each part) until it is made."""
+_SET_KIND = Part.__dict__["kind"].__set__
+_SET_NUMBER = Part.__dict__["part_number"].__set__
 
 
 def _reading(part: Part, settings: "Settings", folded: Mapping[str, PartSpec], tolerance: float,
@@ -116,8 +183,25 @@ def _reading(part: Part, settings: "Settings", folded: Mapping[str, PartSpec], t
 
 
 def _renamed(record: PartData, note: str) -> PartData:
-    """``dataclasses.replace(record, note=note)``."""
+    """``dataclasses.replace(record, note=note)``: for a record of :func:`linter.records.record`
+    that keeps its fields in its ``__dict__`` (no slots, no ``__post_init__``), the
+    dictionary copied in field order with the note replaced (what its ``__init__`` stores)."""
+    kind = type(record)
+    if kind in _DICT_RECORDS:
+        made = object.__new__(kind)
+        fields = made.__dict__
+        fields.update(record.__dict__)
+        fields["note"] = note
+        return made
     return replace(record, note=note)
+
+
+_DICT_RECORDS = frozenset(kind for kind in (LedData, ResistorData, BjtData, MosfetData, McuData)
+                          if "__slots__" not in kind.__dict__
+                          and not hasattr(kind, "__post_init__")
+                          and "note" in kind.__dataclass_fields__
+                          and not any(isinstance(value, cached_property)
+                                      for value in vars(kind).values()))
 
 
 def _plain_record(part: Part, spec: PartSpec | None, default_tolerance: float) -> PartData | None:

@@ -20,6 +20,8 @@ from __future__ import annotations
 
 import re
 from collections import deque
+from itertools import compress, repeat
+from operator import attrgetter, eq
 from typing import TYPE_CHECKING, Mapping
 
 from linter.model import Circuit, Part
@@ -104,7 +106,30 @@ def _source_rail(part: Part, rails: Mapping[str, Rail], tolerance: float) -> Rai
 
 
 def resolve_rails(circuit: Circuit, settings: "Settings") -> dict[str, Rail]:
-    """Every net of the circuit with a known voltage, by net name (settings, SPICE, names)."""
+    """Every net of the circuit with a known voltage, by net name (settings, SPICE, names).
+
+    The parts that may set a rail (kind ``source``) and the net names that may spell one
+    (:data:`_RAIL_NAME`, the ground and voltage patterns in one) are picked out in C-level
+    passes; :func:`resolve_rails_plain` looks at every part and name.
+    """
+    tolerance = settings.assume.rail_tolerance
+    nets = circuit.nets
+    rails = {name: rail for name, rail in settings.rails.items() if name in nets}
+    held = circuit.parts.values()
+    for part in compress(held, map(eq, map(_KIND, held), repeat("source"))):
+        rail = _source_rail(part, rails, tolerance)
+        if rail is not None and rail.name not in rails:
+            rails[rail.name] = rail
+    for name in filter(_RAIL_NAME.match, nets):
+        if name not in rails:
+            rail = rail_from_name(name, tolerance)
+            if rail is not None:
+                rails[name] = rail
+    return rails
+
+
+def resolve_rails_plain(circuit: Circuit, settings: "Settings") -> dict[str, Rail]:
+    """:func:`resolve_rails` part by part and name by name: the reference for its tests."""
     tolerance = settings.assume.rail_tolerance
     rails = {name: rail for name, rail in settings.rails.items() if name in circuit.nets}
     for part in circuit.parts.values():
@@ -117,6 +142,11 @@ def resolve_rails(circuit: Circuit, settings: "Settings") -> dict[str, Rail]:
             if rail is not None:
                 rails[name] = rail
     return rails
+
+
+_RAIL_NAME = re.compile(f"{_GROUND.pattern}|{_VOLTAGE_NAME.pattern}", re.IGNORECASE)
+"""Matches exactly the names :func:`rail_from_name` gives a rail (either pattern)."""
+_KIND = attrgetter("kind")
 
 
 def unknown_supply_nets(circuit: Circuit, rails: Mapping[str, Rail]) -> tuple[str, ...]:

@@ -7,6 +7,7 @@ Expected values: the plain path of our own code, :func:`linter.parts.resolve_par
 
 from __future__ import annotations
 
+import pickle
 import sys
 from pathlib import Path
 
@@ -25,14 +26,23 @@ AT = SourceLocation("t.cir", 1, 1)
 
 
 def _same(circuit: Circuit, settings) -> None:
-    fast, fast_data = resolve_part_data(circuit, settings)
     plain, plain_data = resolve_part_data_plain(circuit, settings)
-    assert fast == plain and dict(fast.parts) == dict(plain.parts)
-    assert list(fast.parts) == list(plain.parts)
-    assert fast_data == plain_data and list(fast_data) == list(plain_data)
-    for ref, record in fast_data.items():  # a note names its own part
-        note = getattr(record, "note", None)
-        assert note is None or note.startswith(f"{ref}: ")
+    before = dict(circuit.parts)
+    fresh = pickle.loads(pickle.dumps(circuit))  # (parts of its own, for fresh=True)
+    for fast, fast_data in (resolve_part_data(circuit, settings),
+                            resolve_part_data(fresh, settings, fresh=True)):
+        assert fast == plain and dict(fast.parts) == dict(plain.parts)
+        assert list(fast.parts) == list(plain.parts)
+        for ref, part in fast.parts.items():  # (field by field: properties are no hash key)
+            assert part.properties == plain.parts[ref].properties
+            assert part.location == plain.parts[ref].location
+        assert fast_data == plain_data and list(fast_data) == list(plain_data)
+        for ref, record in fast_data.items():  # a note names its own part
+            note = getattr(record, "note", None)
+            assert note is None or note.startswith(f"{ref}: ")
+            assert type(record) is type(plain_data[ref])
+            assert list(vars(record)) == list(vars(plain_data[ref]))  # (fields in order)
+    assert all(before[ref] is part for ref, part in circuit.parts.items())
 
 
 @pytest.mark.parametrize("netlist", ["dust_extractor_panel.edif", "dust_extractor_panel.cir"])
@@ -100,3 +110,22 @@ def test_nothing_changed_keeps_the_parts_mapping() -> None:
     circuit = Circuit("t.cir", "spice", parts, {})
     resolved, _ = resolve_part_data(circuit, default_settings())
     assert resolved.parts is circuit.parts and resolved == circuit
+
+
+def test_renamed_is_replace() -> None:
+    """The note renaming copies the record's fields: dataclasses.replace is the plain way."""
+    from dataclasses import replace
+
+    from linter.parts import _DICT_RECORDS, _renamed
+    from linter.partdata import BjtData, LedData, McuData, MosfetData, ResistorData
+
+    assert _DICT_RECORDS == {LedData, ResistorData, BjtData, MosfetData, McuData}
+    for record in (LedData(color="red", vf_typ=2.0, assumed=("vf_min",), note="D1: x"),
+                   ResistorData(ohms=1e3, tolerance=0.05, note="R1: y"),
+                   BjtData(polarity="npn", note=None), MosfetData(polarity="nmos"),
+                   McuData(supply_pins=("VDD",), note="U1: z")):
+        renamed = _renamed(record, "Q9: w")
+        assert renamed == replace(record, note="Q9: w") and renamed.note == "Q9: w"
+        assert list(vars(renamed).items()) == list(vars(replace(record, note="Q9: w")).items())
+        assert record.note != "Q9: w"  # (the given record unchanged)
+        assert hash(renamed) == hash(replace(record, note="Q9: w"))
