@@ -103,7 +103,8 @@ def _pipeline(netlist: Path, bom_path: Path | None, stages: _Stages) -> None:
         discrepancies = ()
         if bom is not None:
             circuit, discrepancies = stages.run("bom join", lambda: apply_bom(circuit, bom, fresh=True))
-        circuit, part_data = stages.run("part data", lambda: resolve_part_data(circuit, settings))
+        circuit, part_data = stages.run("part data", lambda: resolve_part_data(circuit, settings,
+                                                                          fresh=True))
         rails = stages.run("rails", lambda: resolve_rails(circuit, settings))
     context = AnalysisContext(circuit=circuit, settings=settings, rails=rails,
                               part_data=part_data, bom=bom, bom_discrepancies=discrepancies)
