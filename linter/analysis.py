@@ -20,6 +20,7 @@ import time
 from collections import deque
 from contextlib import contextmanager
 from dataclasses import dataclass
+from itertools import repeat
 from typing import Iterable, Iterator, Mapping
 
 import numpy as np
@@ -246,11 +247,12 @@ def analyse(groups: Iterable[Group], circuit: Circuit, part_data: PartDataMap,
             for (index, _), result in zip(members, solved):
                 results[index] = result
         with _stage("rename"):
-            for template, (indices, refs_maps) in work.followers.items():
+            for template, (indices, references) in work.followers.items():
                 if not indices:
                     continue
-                made = Template(results[template],  # type: ignore[arg-type]
-                                work.templates[template][1])
+                names, note_parts = work.templates[template]
+                made = Template(results[template], note_parts)  # type: ignore[arg-type]
+                refs_maps = list(map(dict, map(zip, repeat(names), references)))
                 deque(map(results.__setitem__, indices, made.followers(
                     list(map(groups.__getitem__, indices)), refs_maps)), 0)
             work.followers.clear()
@@ -260,12 +262,11 @@ def analyse(groups: Iterable[Group], circuit: Circuit, part_data: PartDataMap,
 @dataclass(frozen=True, eq=False)
 class _Work:
     """What :func:`_build` leaves to solve: models by structure signature (with their
-    group's index); per template index, its followers (their indices, and the maps from the
-    template's part references to each one's); per template index, its references in key
-    order and its model's note parts."""
+    group's index); per template index, its followers (their indices and their references
+    in key order) and its own references in key order and its model's note parts."""
 
     buckets: dict[tuple, list[tuple[int, GroupModel]]]
-    followers: dict[int, tuple[list[int], list[dict[str, str]]]]
+    followers: dict[int, tuple[list[int], list[tuple[str, ...]]]]
     templates: dict[int, tuple[tuple[str, ...], tuple[tuple[str, str], ...]]]
 
 
@@ -288,9 +289,9 @@ def _build(groups: tuple[Group, ...], circuit: Circuit, part_data: PartDataMap,
             except TypeError:   # a figure that cannot be hashed: built on its own
                 key, template = None, ()
             if template:
-                indices, refs_maps = work.followers[template[0]]
+                indices, references = work.followers[template[0]]
                 indices.append(index)
-                refs_maps.append(dict(zip(template[1], names)))
+                references.append(names)
                 continue
         try:
             model = build_model(group, circuit, part_data, rails)

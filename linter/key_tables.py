@@ -57,7 +57,7 @@ class GroupKeys:
         self._part_data = part_data
         self._interned: dict[Any, int] = {}
         self._data_codes: dict[int, int] = {}    # id of a part datum → its number
-        self._model_codes: dict[int, int] = {}   # id of a SPICE model (or None) → its number
+        self._model_codes: dict[int, int] = {}   # id of a SPICE model → its number
         self._kept: list[Any] = []   # those objects (so that their ids are not reused)
         self._getters = (circuit.parts.get, part_data.get, self._data_codes.get,
                          self._model_codes.get)
@@ -77,10 +77,10 @@ class GroupKeys:
         return found
 
     def _model_code(self, model: Any) -> int:
-        """The number of a SPICE model's parameters (None: no model), by identity."""
+        """The number of a SPICE model's parameters, by identity."""
         found = self._model_codes.get(id(model))
         if found is None:
-            made = None if model is None else tuple(model.params.items())
+            made = tuple(model.params.items())
             found = self._model_codes[id(model)] = self._interned.setdefault(
                 ("m", made), len(self._interned))
             self._kept.append(model)
@@ -169,9 +169,12 @@ class GroupKeys:
                 if data_code is None:
                     data_code = self._data_code(data)
                 model = part.model
-                model_code = model_codes(id(model))
-                if model_code is None:
-                    model_code = self._model_code(model)
+                if model is not None:
+                    model_code = model_codes(id(model))
+                    if model_code is None:
+                        model_code = self._model_code(model)
+                else:
+                    model_code = None
                 pins = part.pins
                 out += (kind, part.value_si, part.part_number, model_code, data_code,
                         len(pins))
