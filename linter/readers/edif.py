@@ -190,14 +190,6 @@ def _flat_circuit(doc: Document, edif: EdifFile, plan: FlatPlan, refs: list[str]
     return Circuit(source=doc.source, format="edif", parts=parts, nets=nets, design=design)
 
 
-def _handed_over(items: list) -> Iterator:
-    """The items in order, each let go of by the list as it is handed over (so that each
-    record can go once its part is made)."""
-    for index, item in enumerate(items):
-        items[index] = None
-        yield item
-
-
 def _parts(leaves: list[Leaf], refs: list[str], places: list[SourceLocation], flat: FlatDesign,
            net_names: dict[int, str], doc: Document) -> dict[str, Part]:
     """Parts by reference; each leaf is let go of once its part is made."""
@@ -403,14 +395,14 @@ class _PartMaker:
         """:meth:`make` of many parts (instance ``i`` placing ``targets[i]``'s cell view) by
         built-in passes: each distinct reading is worked out once, from the first part that
         has it; the first part whose reading is a problem is refused, as :meth:`make` would."""
-        def keys() -> Iterator[tuple[str, int, int]]:
-            return zip(map(str.rstrip, refs, repeat(_DIGITS)), map(id, targets),
-                       map(id, map(attrgetter("properties"), instances)))
+        keys = zip(map(str.rstrip, refs, repeat(_DIGITS)), map(id, targets),
+                   map(id, map(attrgetter("properties"), instances)))
         first: dict[tuple[str, int, int], int] = {}
-        list(map(first.setdefault, keys(), range(len(refs))))
-        rows = {key: self.reading(instances[at], targets[at].cell, targets[at].view, refs[at])
-                for key, at in first.items()}
-        readings = list(map(rows.__getitem__, keys()))
+        firsts = list(map(first.setdefault, keys, range(len(refs))))  # the first with its key
+        rows = {at: self.reading(instances[at], targets[at].cell, targets[at].view, refs[at])
+                for at in first.values()}
+        readings = list(map(rows.__getitem__, firsts))
+        del firsts
         if any(map(itemgetter(3), rows.values())):
             at = next(at for at, row in enumerate(readings) if row[3])
             raise self.doc.error(instances[at].form, f"{refs[at]}: {readings[at][3]}")

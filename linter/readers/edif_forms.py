@@ -8,6 +8,9 @@ located message rather than skipped, so a connection is never silently lost.
 
 from __future__ import annotations
 
+from itertools import islice
+from operator import attrgetter
+
 from linter.readers.edif_syntax import (
     Cell, Design, EdifFile, Instance, Library, Name, Net, Port, PortRef, View, _child,
     _children, FormReader, _show, keyword,
@@ -82,6 +85,15 @@ def read_view(reader: FormReader, form: list, cell: Name) -> View:
     instances: dict[str, Instance] = {}
     nets: list[Net] = []
     contents = _child(form, "contents")
+    if contents is not None and _records_only(contents):
+        # every instance and net read whole: taken by built-in passes when no name repeats
+        # (the loop below is the twin: tests/test_edif_compound.py reads both ways)
+        placed = [item for item in contents if type(item) is Instance]
+        instances = dict(zip(map(_KEY, placed), placed))
+        if len(instances) == len(placed):
+            nets = [item for item in contents if type(item) is Net]
+            return View(name, ports, instances, nets, reader.properties(form), True, form)
+        instances = {}
     for item in contents or ():
         if type(item) is Instance:  # read whole by the parser
             _add_instance(reader, item, instances, cell)
@@ -94,6 +106,14 @@ def read_view(reader: FormReader, form: list, cell: Name) -> View:
         elif type(item) is Net:  # read whole by the parser
             nets.append(item)
     return View(name, ports, instances, nets, reader.properties(form), contents is not None, form)
+
+
+_KEY = attrgetter("name.key")
+
+
+def _records_only(contents: list) -> bool:
+    """Whether every item after the keyword is an instance or a net read whole."""
+    return set(map(type, islice(contents, 1, None))) <= {Instance, Net}
 
 
 def _add_instance(reader: FormReader, form: list | Instance, instances: dict[str, Instance],
