@@ -24,7 +24,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 from itertools import compress
-from operator import attrgetter
+from operator import attrgetter, itemgetter
 from typing import Any, Callable, Literal, Mapping
 
 from linter.model import Circuit, Part, Pin
@@ -93,6 +93,10 @@ _NO_CONTROLS: frozenset[str] = frozenset()
 
 _KIND_OF = attrgetter("kind")
 _PINS_OF = attrgetter("pins")
+_NAME_OF_KEY = itemgetter(1)
+_SMALL_NET = 8
+"""Nets of up to this many pins are read directly by :meth:`CircuitIndex.mcu_pairs` and
+:meth:`CircuitIndex.pins_of` (a larger one through the memos, read once)."""
 
 
 def role_of(kind: str, pin_count: int) -> Role:
@@ -180,6 +184,7 @@ class CircuitIndex:
         self.mcu_on = _Memo(self._mcu_on).__getitem__
         self.led_rank: dict[str, int] = {}  # LED → its place in natural order (set by topology)
         self._rail_keys = {net: natural_key(net) for net in rails}
+        self._rail_names = frozenset(self._rail_keys)
         self._rail_tuples: dict[tuple[str, ...], tuple[str, ...]] = {}
         self.walk_tables = (rails, circuit.nets, self._roles, circuit.parts, self.series_pins)
         """What a chain walk reads at each step: rails, nets, roles, parts, series_pins."""
@@ -193,6 +198,49 @@ class CircuitIndex:
         """
         rail_keys, key = self._rail_keys, natural_key
         return [pair[1] for pair in sorted([rail_keys.get(name) or key(name) for name in names])]
+
+    def sorted_nets_and_rails(self, names: set[str]) -> tuple[tuple[str, ...], tuple[str, ...]]:
+        """``(tuple(natural_sorted(names)), rails_among(...))`` in one call, without a Python
+        step a name but its key (the twin: those two methods; ``tests/test_topology_calls.py``).
+        """
+        rail_names = self._rail_names
+        keys = list(map(natural_key, names.difference(rail_names)))
+        keys += map(self._rail_keys.__getitem__, names.intersection(rail_names))
+        keys.sort()
+        ordered = tuple(map(_NAME_OF_KEY, keys))
+        found = tuple(filter(self.rails.__contains__, ordered))
+        return ordered, self._rail_tuples.setdefault(found, found)
+
+    def mcu_pairs(self, net: str) -> tuple[tuple[str, str], ...]:
+        """``mcu_on(net)``, a small listed net read directly (not kept: a chain's end is asked
+        about once): its microcontroller pins are those of its listed pins (``pins_on`` leaves
+        out open and unknown parts only). Twin: :attr:`mcu_on` (``tests/test_topology_calls.py``).
+        """
+        declared = self.circuit.nets.get(net)
+        if declared is None or len(pins := declared.pins) > _SMALL_NET:
+            return self.mcu_on(net)
+        roles = self._roles
+        found = None
+        for pair in pins:
+            if roles.get(pair[0]) == "mcu":
+                if found is None:
+                    found = [pair]
+                else:
+                    found.append(pair)
+        return () if found is None else tuple(found)
+
+    def pins_of(self, net: str) -> tuple[tuple[str, str], ...]:
+        """``pins_on(net)``, a small listed net of known parts none of them open read directly:
+        its own pins (the memo otherwise). Twin: :attr:`pins_on`."""
+        declared = self.circuit.nets.get(net)
+        if declared is None or len(pins := declared.pins) > _SMALL_NET:
+            return self.pins_on(net)
+        roles = self._roles
+        for pair in pins:
+            role = roles.get(pair[0])
+            if role is None or role == "open":
+                return self.pins_on(net)
+        return pins
 
     def rails_among(self, sorted_nets: list[str]) -> tuple[str, ...]:
         """The rails of ``sorted_nets``, in their order, as one shared tuple per combination

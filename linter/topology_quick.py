@@ -24,16 +24,22 @@ and off).
 
 from __future__ import annotations
 
+from itertools import compress
+from operator import attrgetter
 from typing import Mapping
 
 from linter.groups import NO_LEVELS, Group, PinDrive, Scenario
 from linter.refs import natural_key
-from linter.topology_index import CircuitIndex
+from linter.topology_index import LED_ANODE_NAMES, LED_CATHODE_NAMES, CircuitIndex
 from linter.topology_draft import resistor_label
 from linter.topology_shape import NotABank, Strand, find_bank
 from linter.topology_walk import MAX_GROUP_PARTS, Chain, walk_chain, walk_control
 
 __all__ = ["quick_group"]
+
+_new_tuple = tuple.__new__  # (a named tuple made without its Python-level ``__new__``)
+_PART_OF = attrgetter("part")
+_RESISTOR = frozenset({"resistor"})
 
 
 def _end_pins(index: CircuitIndex, net: str | None, rails: Mapping,
@@ -43,11 +49,12 @@ def _end_pins(index: CircuitIndex, net: str | None, rails: Mapping,
         return False
     if net in rails:
         return True
-    mcu = index.mcu_on(net)
+    mcu = index.mcu_pairs(net)
     if not mcu:
         return False
     supply = index.supply_net
-    found.extend([PinDrive(ref, pin, net, supply(ref)) for ref, pin in mcu])
+    for ref, pin in mcu:
+        found.append(PinDrive(ref, pin, net, supply(ref)))
     return True
 
 
@@ -55,18 +62,26 @@ def _oriented(index: CircuitIndex, chain: Chain) -> tuple[Strand, list[str]] | N
     """:func:`linter.topology_shape.orient` in one loop, and the chain's LEDs in chain order;
     None where orient raises (an LED without anode and cathode names, or with both on one
     net, or LEDs facing opposite ways)."""
-    kind, led_pins = index.kind, index.led_pins
+    kind, all_parts = index.kind, index.circuit.parts
     parts, nets = chain
     leds: list[str] = []
     resistors: list[str] = []
     forward = None
-    for position, ref in enumerate(parts):
+    position = 0
+    for ref in parts:
         part_kind = kind(ref)
         if part_kind == "led":
-            ends = led_pins(ref)
-            if ends is None:
+            pins = all_parts[ref].pins  # (index.led_pins written in line)
+            if len(pins) != 2:
                 return None
-            anode, cathode = ends[0].net, ends[1].net
+            first, second = pins
+            one, other = first.name.casefold(), second.name.casefold()
+            if one in LED_ANODE_NAMES and other in LED_CATHODE_NAMES:
+                anode, cathode = first.net, second.net
+            elif other in LED_ANODE_NAMES and one in LED_CATHODE_NAMES:
+                anode, cathode = second.net, first.net
+            else:
+                return None
             if anode == cathode:
                 return None
             way = anode == nets[position] and cathode == nets[position + 1]
@@ -77,11 +92,12 @@ def _oriented(index: CircuitIndex, chain: Chain) -> tuple[Strand, list[str]] | N
             leds.append(ref)
         elif part_kind == "resistor":
             resistors.append(ref)
+        position += 1
     if forward is False:
-        strand = Strand(Chain(parts[::-1], nets[::-1]), tuple(leds[::-1]),
-                        tuple(resistors[::-1]))
+        strand = _new_tuple(Strand, (_new_tuple(Chain, (parts[::-1], nets[::-1])),
+                                     tuple(leds[::-1]), tuple(resistors[::-1])))
     else:
-        strand = Strand(chain, tuple(leds), tuple(resistors))
+        strand = _new_tuple(Strand, (chain, tuple(leds), tuple(resistors)))
     return strand, leds
 
 
@@ -109,7 +125,7 @@ def quick_group(index: CircuitIndex, led: str, order: Mapping[str, int],
         inner = end if start_done else start
         if inner is None:
             return None
-        if len(index.pins_on(inner)) == 2:
+        if len(index.pins_of(inner)) == 2:
             return _through_transistor(index, chain, inner, order, placed)
         return _bank_on_node(index, chain, inner, order, placed)
     oriented = _oriented(index, chain)
@@ -119,7 +135,10 @@ def quick_group(index: CircuitIndex, led: str, order: Mapping[str, int],
     resistors = strand.resistors
     if not resistors:
         return None
-    leds_t = _unplaced(leds, strand.leds, order, placed)
+    if len(leds) == 1:  # (_unplaced's first case in line)
+        leds_t = strand.leds if leds[0] not in placed else ()
+    else:
+        leds_t = _unplaced(leds, strand.leds, order, placed)
     top, bottom = strand.chain.nets[0], strand.chain.nets[-1]
     top_rail, bottom_rail = rails.get(top), rails.get(bottom)
     if top_rail is not None and bottom_rail is not None:
@@ -137,20 +156,20 @@ def quick_group(index: CircuitIndex, led: str, order: Mapping[str, int],
     parts = set(chain.parts)
     net_set = set(nets)
     if found:
-        unique = dict.fromkeys(found)
-        pins = tuple(unique) if len(unique) == 1 else \
-            tuple(sorted(unique, key=lambda pin: natural_key(pin.id)))
-        parts.update([pin.part for pin in pins])
-        net_set.update([pin.supply for pin in pins if pin.supply in rails])
-        scenario = Scenario("on", {pin.id: level for pin in pins if pin.net == pin_net},
-                            leds_t)
-    sorted_nets = index.natural_sorted(net_set)
-    rank = index.led_rank
-    first = min(leds_t, key=rank.__getitem__) if len(leds_t) > 1 else leds_t[0]
+        pins = tuple(dict.fromkeys(found)) if len(found) == 1 else _sorted_pins(found)
+        parts.update(map(_PART_OF, pins))
+        levels = {}
+        for pin in pins:
+            if pin.supply in rails:
+                net_set.add(pin.supply)
+            if pin.net == pin_net:
+                levels[f"{pin.part}.{pin.pin}"] = level  # (pin.id)
+        scenario = Scenario("on", levels, leds_t)
+    sorted_nets, group_rails = index.sorted_nets_and_rails(net_set)
+    first = min(leds_t, key=index.led_rank.__getitem__) if len(leds_t) > 1 else leds_t[0]
     return Group(f"G-{first}", label, leds_t, (strand.leds,),
-                 tuple(sorted(parts, key=natural_key)), tuple(sorted_nets),
-                 index.rails_among(sorted_nets), resistors[0], pins,
-                 (scenario,), None, None, None)
+                 tuple(sorted(parts, key=natural_key)), sorted_nets, group_rails,
+                 resistors[0], pins, (scenario,), None, None, None)
 
 
 def _unplaced(leds: list[str], string: tuple[str, ...], order: Mapping[str, int],
@@ -182,7 +201,7 @@ def _through_transistor(index: CircuitIndex, chain: Chain, c_net: str,
     rail. The label follows :func:`linter.topology_transistor.classify_transistor` step by
     step; anything it would not label as a sink, source or switch returns None.
     """
-    pins = index.pins_on(c_net)
+    pins = index.pins_of(c_net)
     if len(pins) != 2:
         return None
     edge = chain.parts[0] if chain.nets[0] == c_net else chain.parts[-1]
@@ -202,8 +221,8 @@ def _through_transistor(index: CircuitIndex, chain: Chain, c_net: str,
     if e_net in rails:
         e_rail, emitter_resistors = e_net, ()
     else:
-        e_pins = index.pins_on(e_net)
-        if len(e_pins) != 2 or index.mcu_on(e_net):
+        e_pins = index.pins_of(e_net)
+        if len(e_pins) != 2 or index.mcu_pairs(e_net):
             return None
         (ref_a, pin_a), (ref_b, pin_b) = e_pins
         other = ref_b if (ref_a, pin_a) == (ref, terminals["e"].name) else ref_a
@@ -211,11 +230,12 @@ def _through_transistor(index: CircuitIndex, chain: Chain, c_net: str,
             return None
         tail = walk_chain(index, other)
         far = tail.nets[-1] if tail.nets[0] == e_net else tail.nets[0]
-        if far not in rails or any(kind(part) == "led" for part in tail.parts):
+        if far not in rails or "led" in map(kind, tail.parts):
             return None
         chains.append(tail)
         e_rail = far
-        emitter_resistors = tuple([part for part in tail.parts if kind(part) == "resistor"])
+        emitter_resistors = tuple(compress(tail.parts,
+                                           map(_RESISTOR.__contains__, map(kind, tail.parts))))
     oriented = _oriented(index, chain)
     if oriented is None:
         return None
@@ -247,10 +267,20 @@ def _through_transistor(index: CircuitIndex, chain: Chain, c_net: str,
             setter, reason = strand.resistors[0], None
         else:
             setter, reason = None, f"nothing but {ref} limits the current"
-    leds_t = _unplaced(leds, strand.leds, order, placed)
+    if len(leds) == 1:  # (_unplaced's first case in line)
+        leds_t = strand.leds if leds[0] not in placed else ()
+    else:
+        leds_t = _unplaced(leds, strand.leds, order, placed)
     level = "high" if low else "low"
-    scenario = Scenario("on", {pin.id: level for pin in control.pins} or NO_LEVELS, leds_t)
-    reason = "; ".join([text for text in [reason, *control.notes] if text]) or None
+    if control.pins:
+        levels = {}
+        for pin in control.pins:
+            levels[f"{pin.part}.{pin.pin}"] = level  # (pin.id)
+    else:
+        levels = NO_LEVELS
+    scenario = Scenario("on", levels, leds_t)
+    if control.notes:
+        reason = "; ".join([text for text in [reason, *control.notes] if text]) or None
     pins_t = _sorted_pins(control.pins)
     parts = set(control.parts)
     for each in chains:
@@ -258,13 +288,14 @@ def _through_transistor(index: CircuitIndex, chain: Chain, c_net: str,
     parts.add(ref)
     net_set = cluster_nets.union(control.nets)
     if pins_t:
-        parts.update([pin.part for pin in pins_t])
-        net_set.update([pin.supply for pin in pins_t if pin.supply in rails])
-    sorted_nets = index.natural_sorted(net_set)
+        parts.update(map(_PART_OF, pins_t))
+        for pin in pins_t:
+            if pin.supply in rails:
+                net_set.add(pin.supply)
+    sorted_nets, group_rails = index.sorted_nets_and_rails(net_set)
     first = min(leds_t, key=index.led_rank.__getitem__) if len(leds_t) > 1 else leds_t[0]
     return Group(f"G-{first}", label, leds_t, (strand.leds,),
-                 tuple(sorted(parts, key=natural_key)), tuple(sorted_nets),
-                 index.rails_among(sorted_nets), setter, pins_t,
+                 tuple(sorted(parts, key=natural_key)), sorted_nets, group_rails, setter, pins_t,
                  (scenario,), reason, ref, control.drive)
 
 
@@ -324,8 +355,8 @@ def _bank_on_node(index: CircuitIndex, chain: Chain, node: str, order: Mapping[s
     net_set = {node}
     for each in chains:
         net_set.update(each.nets)
-    sorted_nets = index.natural_sorted(net_set)
+    sorted_nets, group_rails = index.sorted_nets_and_rails(net_set)
     first = min(leds_t, key=rank.__getitem__) if len(leds_t) > 1 else leds_t[0]
     return Group(f"G-{first}", label, leds_t, strings, tuple(sorted(seen, key=natural_key)),
-                 tuple(sorted_nets), index.rails_among(sorted_nets), setter, (),
+                 sorted_nets, group_rails, setter, (),
                  (Scenario("on", NO_LEVELS, leds_t),), reason, None, None)
