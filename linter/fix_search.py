@@ -20,7 +20,7 @@ from linter import eseries
 from linter.analysis import analyse
 from linter.fix_batch import Overlay, SeriesWalk, solve_resistor_values
 from linter.fixes import SERIES_STEP, ResistorChoice, resistor_for_current_solved
-from linter.model import Circuit
+from linter.model import Circuit, Pin
 from linter.partdata import ResistorData
 from linter.results import GroupResult
 
@@ -502,12 +502,33 @@ def _plain_text(context: Any, group: Any, refs: list[str], names: set[str],
     parts, question, part data by sorted name, rails, ambient))``, records shared by many
     parts (and the board's rails) written once."""
     circuit_parts = context.circuit.parts
-    parts = [_part_record(circuit_parts[r]) for r in refs if r in circuit_parts]
+    parts = ", ".join([_part_text(circuit_parts[r]) for r in refs if r in circuit_parts])
     known = context.part_data
-    data = ", ".join(f"({r!r}, {_record_text(_data_record(r, known.get(r)))})"
-                     for r in sorted(names))
-    return (f"({_group_text(group)}, {parts!r}, {question!r}, [{data}], "
+    data = ", ".join([f"({r!r}, {_record_text(_data_record(r, known.get(r)))})"
+                      for r in sorted(names)])
+    return (f"({_group_text(group)}, [{parts}], {question!r}, [{data}], "
             f"{_board_text(context)})")
+
+
+def _part_text(part: Any) -> str:
+    """``repr(_part_record(part))``, its pins written in place when each is a plain
+    :class:`~linter.model.Pin` (whose text is ``Pin(name=…, net=…)``, checked at import)."""
+    pins = part.pins
+    if not _PIN_TEXT or type(pins) is not tuple or any(type(p) is not Pin for p in pins):
+        return repr(_part_record(part))
+    inner = ", ".join([f"Pin(name={p.name!r}, net={p.net!r})" for p in pins])
+    if len(pins) == 1:
+        inner += ","
+    model = part.model
+    if model is not None:
+        model = replace(model, location=None)
+    return (f"({part.ref!r}, {part.kind!r}, {part.value!r}, ({inner}), {part.value_si!r}, "
+            f"{part.cell!r}, {part.part_number!r}, {model!r})")
+
+
+_PIN_TEXT = (repr(Pin("a", None)) == "Pin(name='a', net=None)"
+             and repr(Pin("b", "c")) == "Pin(name='b', net='c')")
+"""Whether a Pin's text is the one :func:`_part_text` writes."""
 
 
 def _names(group: Any) -> tuple[list[str], list[str]]:

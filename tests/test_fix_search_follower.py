@@ -146,3 +146,27 @@ def test_every_follower_of_generated_boards_gets_its_plain_signature(monkeypatch
                     worked_out += any(call is result for call in calls)
     assert followers > 1000
     assert worked_out < followers / 2  # most followers take their template's
+
+
+def test_part_texts_are_the_records_reprs():
+    # expected: repr of fix_search._part_record, the plain path of our own code
+    from dataclasses import dataclass
+
+    from linter.engine import CheckRequest, load_inputs
+    from linter.model import Part, Pin, SourceLocation
+
+    @dataclass(frozen=True)
+    class OddPin:  # not a Pin: written by repr
+        name: str
+        net: str | None
+
+    here = SourceLocation("board.cir", 1, 1)
+    parts = [Part("R'1", "resistor", "4k7", (), here, value_si=4700.0),
+             Part("D1", "led", None, (Pin("A", "n\\1"),), here, value_si=-0.0),
+             Part("Q1", "npn", "x", (Pin("C", None), Pin("B", "b"), Pin("E", "0")), here),
+             Part("U1", "mcu", "m", (Pin("P1", "a"), OddPin("P2", "b")), here)]
+    for netlist, bom in _boards():
+        parts += list(load_inputs(CheckRequest(netlist=netlist, bom=bom)).circuit.parts.values())
+    assert any(p.model is not None for p in parts)  # SPICE models among them
+    for part in parts:
+        assert fix_search._part_text(part) == repr(fix_search._part_record(part))
