@@ -101,7 +101,8 @@ class GroupKeys:
         out: list = [group.topology, group.rails, len(parts)]
         self._read(parts, out, codes)
         index = dict(zip(parts, count()))
-        if len(index) != len(parts):   # a reference named twice: numbered where first met
+        same = len(index) == len(parts)   # (then, unless more are added, refs is ``parts``)
+        if not same:   # a reference named twice: numbered where first met
             index = dict(zip(dict.fromkeys(parts), count()))
         extra = ()
         for string in strings:
@@ -146,7 +147,7 @@ class GroupKeys:
         else:
             code = index_get(setter) if setter is not None else None
             append(("l", setter) if code is None else code)
-        return tuple(out), tuple(index)
+        return tuple(out), parts if same and len(index) == len(parts) else tuple(index)
 
     def _read(self, refs: Any, out: list, codes: dict) -> None:
         """Append each part to ``out``: None when the circuit lacks it; else its kind, then,

@@ -85,7 +85,8 @@ def test_keys_of_odd_groups_partition_as_the_plain_key() -> None:
            replace(groups[1], setter="Z9", strings=(("D1",), ())),
            replace(groups[2], setter=None, parts=groups[2].parts + ("RB1",)),
            replace(groups[0], strings=(("D0", "R0"), ())),
-           replace(groups[0], strings=(("D0",), ("R0",)))]
+           replace(groups[0], strings=(("D0",), ("R0",))),
+           replace(groups[0], parts=("R0", "R0", "D0"))]   # as many references with U1
     model = DeviceModel("LX", "D", {"IS": 1e-18, "N": 2.0})
     same_model = DeviceModel("LY", "D", {"IS": 1e-18, "N": 2.0})
     with_models = _with_part(_with_part(c, "D0", model=model), "D1", model=same_model)
