@@ -11,8 +11,8 @@ from linter.findings import Finding
 from linter.fixes import per_led_resistors
 from linter.refs import natural_key, natural_sorted
 from linter.results import GroupResult, LedResult
-from linter.rulekit import (PerTemplate, amps, at_corner, figures_of, group_rail, led_data, ohms,
-                            renamer, solved_groups, watts)
+from linter.rulekit import (PerTemplate, amps, at_corner, figures_of, flagged, group_rail,
+                            led_data, ohms, renamer, watts)
 from linter.rules import Rule, register
 from linter.rules.led_overcurrent import target_current
 
@@ -68,8 +68,10 @@ class SharedBallast(Rule):
     default_severity = "error"
 
     def check(self, context: Any) -> Iterable[Finding]:
-        results = [result for result in solved_groups(context)
-                   if result.group.topology == "parallel" and len(result.group.strings) > 1]
+        # parallel banks of several strings (a follower's shape is its template's)
+        banks = PerTemplate(lambda base: base.group.topology == "parallel"
+                            and len(base.group.strings) > 1)
+        results = [result for result, _ in flagged(context, banks)]
         verdicts = PerTemplate(lambda base: _verdict(context, base))
         keys = _solve_first_splits(context, results, verdicts)
         severity = context.severity(self)  # the same for every finding of the board
