@@ -62,9 +62,10 @@ class Cluster:
     seen: set[str] = field(default_factory=set)
 
 
-@dataclass(slots=True)
+@dataclass(slots=True, init=False)
 class Control:
-    """A transistor's base or gate network and how it drives the transistor."""
+    """A transistor's base or gate network and how it drives the transistor (made empty;
+    ``__init__`` written out: one is made for every transistor a walk meets)."""
 
     parts: list[str] = field(default_factory=list)
     nets: list[str] = field(default_factory=list)
@@ -73,6 +74,15 @@ class Control:
     drive: str | None = None
     problems: list[str] = field(default_factory=list)
     notes: list[str] = field(default_factory=list)
+
+    def __init__(self) -> None:
+        self.parts = []
+        self.nets = []
+        self.rails = []
+        self.pins = []
+        self.drive = None
+        self.problems = []
+        self.notes = []
 
 
 def terminal_word(index: CircuitIndex, ref: str, role: str) -> str:

@@ -101,3 +101,19 @@ def test_odd_nets() -> None:
 def test_random_small_circuits(specs: list[tuple]) -> None:
     circuit, data = _circuit(specs)
     _assert_same_answers(circuit, RAILS, data)
+
+
+def test_control_starts_as_its_field_defaults() -> None:
+    """Control's written-out ``__init__`` gives each field its declared default (the
+    dataclass's own definition: a new empty list per factory, None for ``drive``)."""
+    import dataclasses
+
+    from linter.topology_walk import Control
+
+    made, other = Control(), Control()
+    for field in dataclasses.fields(Control):
+        expected = field.default_factory() if field.default_factory is not dataclasses.MISSING \
+            else field.default
+        assert getattr(made, field.name) == expected, field.name
+        if isinstance(expected, list):
+            assert getattr(made, field.name) is not getattr(other, field.name)  # not shared
