@@ -150,7 +150,7 @@ class EdifCompounds:
     def _instance(self, match: re.Match[str]) -> Instance:
         ident, renamed, display, view, cell, library, items = match.group(2, 3, 4, 5, 6, 7, 8)
         if ident is not None:
-            ident = self._atoms[ident]
+            ident = self._atoms.setdefault(ident, ident)  # (mostly a new name)
             name = Name(ident.casefold(), ident[1:] if ident[0] == "&" else ident)
         else:
             name = Name(renamed.casefold(), decode_string(display))
