@@ -77,6 +77,10 @@ _SIMPLE = "%s\x00%s%s\x00\x01%s\x00"
 significant digits, the end of the chunks, the name."""
 
 
+_LISTED_SIMPLE = "\x02" + _SIMPLE
+"""A common designator's text as a list entry (after ``\\x02``)."""
+
+
 def names_text(names: Iterable[str]) -> str:
     """One string comparing as ``tuple(natural_key(n) for n in names)`` does."""
     out = []
@@ -89,8 +93,8 @@ def names_text(names: Iterable[str]) -> str:
         significant = digits.lstrip("0")
         if len(significant) > _LONGEST_RUN:
             raise _Plain(name)
-        out.append("\x02" + _SIMPLE % (prefix.casefold(), chr(3 + len(significant)),
-                                       significant, name))
+        out.append(_LISTED_SIMPLE % (prefix.casefold(), chr(3 + len(significant)),
+                                     significant, name))
     out.append("\x01")
     return "".join(out)
 
