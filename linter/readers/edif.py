@@ -4,7 +4,10 @@ Three steps, one module each: :mod:`linter.readers.sexpr` parses the text (the f
 forms read whole into records by :mod:`linter.readers.edif_compound`),
 :mod:`linter.readers.edif_forms` turns the forms into declaration records, and
 :mod:`linter.readers.edif_flatten` walks the hierarchy from the design's top cell and joins
-nets through ports. This module names what the walk found and builds the Circuit:
+nets through ports. A flat design (the top view places only leaf cells, nothing to merge)
+takes a shorter road, :mod:`linter.readers.edif_direct`, to the same Circuit (its parts and
+nets made by built-in passes here, :func:`_flat_circuit`); the walk stays the plain twin
+(``_circuit(doc, direct=False)``). This module names what was found and builds the Circuit:
 
 * a part's reference is its ``designator`` (or a property named reference, refdes or
   designator), else its leaf instance name, while that is unique in the design; where a
