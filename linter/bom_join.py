@@ -78,7 +78,8 @@ def apply_bom(circuit: Circuit, bom: Bom, *, fresh: bool = False,
                 flagged.update(dict.fromkeys(refs, join))
             if fresh:
                 deque(map(_SET_PROPERTIES, held, repeat(join[2], len(held))), maxlen=0)
-                deque(map(_SET_NUMBER, held, repeat(join[3], len(held))), maxlen=0)
+                if join[3] is not readings[0][3]:  # (a part number the parts lack)
+                    deque(map(_SET_NUMBER, held, repeat(join[3], len(held))), maxlen=0)
                 continue
             joins: list[tuple] | repeat = repeat(join, len(held))
         else:
