@@ -5,10 +5,11 @@ identical structure into one batch, chooses the corners (:mod:`linter.corners`),
 scenario at every corner of every group of a batch in one vectorised Newton run
 (:mod:`linter.batchsolve`) and reduces the rows to spans with the corner of each extreme.
 Work is done once per electrically distinct group: a group whose key
-(:mod:`linter.group_key`) repeats an earlier group's takes that result with its own names
-(:mod:`linter.result_rename`: a :class:`~linter.result_rename.FollowerResult`, whose records
-are built from the template's on first access), and groups of a batch with equal solver
-inputs are solved once (:mod:`linter.solve_memo`).
+(:mod:`linter.group_key`, coded flat by :mod:`linter.key_tables`) repeats an earlier group's
+takes that result with its own names (:mod:`linter.result_rename`: a
+:class:`~linter.result_rename.FollowerResult`, whose records are built from the template's
+on first access; a template's followers are made together), and groups of a batch with
+equal solver inputs are solved once (:mod:`linter.solve_memo`).
 :func:`operating_point` solves one group at one named corner (for tests and for rules that
 need a particular point).
 """
@@ -275,8 +276,8 @@ def _build(groups: tuple[Group, ...], circuit: Circuit, part_data: PartDataMap,
     """Models of the groups to solve; with ``memoise``, a group whose key
     (:class:`~linter.key_tables.GroupKeys`: equal exactly when the plain
     :func:`~linter.group_key.group_key_plain` keys are) equals an earlier modelled group's is
-    a follower of it. A group that cannot be modelled gets its
-    ``unsolved`` result in ``results`` (its followers are then built each on its own)."""
+    a follower of it. A group that cannot be modelled gets its ``unsolved`` result in
+    ``results`` (its followers are then built each on its own)."""
     work = _Work({}, {}, {})
     first: dict[tuple, tuple[int, tuple[str, ...]] | None] = {}
     keyed = GroupKeys(circuit, part_data, rails).key
