@@ -20,7 +20,7 @@ from linter.units import format_si
 __all__ = ["part_location", "solved_groups", "group_rail", "led_data", "resistor_data", "bjt_data",
            "corner_phrase", "at_corner", "amps", "volts", "ohms", "watts", "say", "memoised",
            "sink_design", "sink_search", "forget_board", "figures_of", "renamer", "PerTemplate",
-           "renamed_corner", "nameless_at_corner", "flagged"]
+           "renamed_corner", "nameless_at_corner", "flagged", "over_rated"]
 
 
 def part_location(context: Any, ref: str) -> Any:
@@ -92,6 +92,36 @@ def flagged(context: Any, verdicts: "PerTemplate") -> Iterator[tuple[Any, Any]]:
     answers = {key: verdicts(base) for key, base in bases.items()}
     picked = list(map(answers.__getitem__, ids))
     return compress(zip(results, picked), picked)
+
+
+def over_rated(context: Any, rated: Callable[[Any], tuple]) -> Iterator[tuple[Any, tuple, str]]:
+    """(result, item, name) of each rated part over its allowance, each part judged once: a
+    part that several groups hold is judged in the first of them (in group order) that rates it.
+
+    ``rated(template_result)`` gives one tuple per rated part of a group, in order, whose first
+    entry is the part's record (a follower's template's, see :func:`figures_of`) and whose
+    third says whether it is over; it must read figures and ratings only (a follower's are its
+    template's). The followers of a template with no part over have their part names marked
+    as judged in one update, without a step of Python each."""
+    def summary(base: Any) -> tuple:
+        items = rated(base)
+        return (items, tuple(item[0].ref for item in items),
+                any(item[2] for item in items)) if items else ()
+
+    seen: set[str] = set()
+    for result, (items, names, any_over) in flagged(context, PerTemplate(summary)):
+        refs = figures_of(result)[1]
+        if not any_over:  # nothing to report: the parts are only judged
+            seen.update(names if refs is None else map(refs.__getitem__, names))
+            continue
+        name = renamer(refs)
+        for item in items:
+            ref = name(item[0].ref)
+            if ref in seen:
+                continue
+            seen.add(ref)
+            if item[2]:
+                yield result, item, ref
 
 
 def forget_board() -> None:

@@ -8,8 +8,7 @@ from linter.dissipation import Allowance, over, resistor_allowance
 from linter.findings import Finding
 from linter.fixes import resistor_rating
 from linter.results import GroupResult, ResistorResult
-from linter.rulekit import (PerTemplate, at_corner, figures_of, flagged, part_location, renamer,
-                            say, watts)
+from linter.rulekit import at_corner, figures_of, over_rated, part_location, say, watts
 from linter.rules import Rule, register
 
 
@@ -49,7 +48,6 @@ class ResistorOverload(Rule):
     def check(self, context: Any) -> Iterable[Finding]:
         ambient = context.settings.ambient.max
         share = context.settings.derating.resistor_power
-        seen: set[str] = set()
         allowances: dict[float, Allowance] = {}  # by rating: ambient and share are the board's
 
         def rated(base: GroupResult) -> tuple:
@@ -63,27 +61,8 @@ class ResistorOverload(Rule):
                 out.append((resistor, allowance, over(resistor.power.max, allowance)))
             return tuple(out)
 
-        def summary(base: GroupResult) -> tuple:
-            """(:func:`rated`, the rated parts' names, whether one is over), or () when
-            none is rated."""
-            items = rated(base)
-            return (items, tuple(item[0].ref for item in items),
-                    any(item[2] for item in items)) if items else ()
-
-        verdicts = PerTemplate(summary)
-        for result, (items, names, any_over) in flagged(context, verdicts):  # rated parts
-            refs = figures_of(result)[1]
-            if not any_over:  # nothing to report: the parts are only seen
-                seen.update(names if refs is None else map(refs.__getitem__, names))
-                continue
-            name = renamer(refs)
-            for resistor, allowance, is_over in items:
-                ref = name(resistor.ref)
-                if ref in seen:
-                    continue
-                seen.add(ref)
-                if is_over:
-                    yield self._finding(context, result, resistor, allowance, ref)
+        for result, (resistor, allowance, _), ref in over_rated(context, rated):
+            yield self._finding(context, result, resistor, allowance, ref)
 
     def _finding(self, context: Any, result: GroupResult, resistor: ResistorResult,
                  allowance: Allowance, ref: str | None = None) -> Finding:

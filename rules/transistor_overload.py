@@ -9,8 +9,8 @@ from linter.dissipation import Allowance, over, semiconductor_allowance
 from linter.findings import Finding
 from linter.partdata import BjtData, MosfetData
 from linter.results import GroupResult, TransistorResult
-from linter.rulekit import (PerTemplate, amps, at_corner, figures_of, flagged, ohms,
-                            part_location, renamer, say, volts, watts)
+from linter.rulekit import (amps, at_corner, figures_of, ohms, over_rated, part_location, say,
+                            volts, watts)
 from linter.rules import Rule, register
 
 REGULATING = ("npn-sink", "pnp-source")
@@ -57,7 +57,6 @@ class TransistorOverload(Rule):
     def check(self, context: Any) -> Iterable[Finding]:
         ambient = context.settings.ambient.max
         share = context.settings.derating.transistor_power
-        seen: set[str] = set()
 
         def rated(base: GroupResult) -> tuple:
             """(transistor record, its allowance, whether over it, whether pd_max is
@@ -73,27 +72,8 @@ class TransistorOverload(Rule):
                             "pd_max" in data.assumed))
             return tuple(out)
 
-        def summary(base: GroupResult) -> tuple:
-            """(:func:`rated`, the rated parts' names, whether one is over), or () when
-            none is rated."""
-            items = rated(base)
-            return (items, tuple(item[0].ref for item in items),
-                    any(item[2] for item in items)) if items else ()
-
-        verdicts = PerTemplate(summary)
-        for result, (items, names, any_over) in flagged(context, verdicts):  # rated parts
-            refs = figures_of(result)[1]
-            if not any_over:  # nothing to report: the parts are only seen
-                seen.update(names if refs is None else map(refs.__getitem__, names))
-                continue
-            name = renamer(refs)
-            for transistor, allowance, is_over, generic in items:
-                ref = name(transistor.ref)
-                if ref in seen:
-                    continue
-                seen.add(ref)
-                if is_over:
-                    yield self._finding(context, result, transistor, allowance, generic, ref)
+        for result, (transistor, allowance, _, generic), ref in over_rated(context, rated):
+            yield self._finding(context, result, transistor, allowance, generic, ref)
 
     def _finding(self, context: Any, result: GroupResult, transistor: TransistorResult,
                  allowance: Allowance, generic: bool, ref: str | None = None) -> Finding:
