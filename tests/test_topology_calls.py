@@ -23,7 +23,7 @@ from linter.model import Circuit, Net, Part, Pin, SourceLocation
 from linter.partdata import McuData, Rail
 from linter.topology_index import CircuitIndex
 
-from test_topology_quick import RAILS, _circuit, _part
+from test_topology_quick import RAILS, _circuit, _part, board_context
 
 ROOT = Path(__file__).resolve().parent.parent
 if str(ROOT) not in sys.path:
@@ -62,9 +62,7 @@ def test_demo(netlist: str) -> None:
 @pytest.mark.parametrize("parts, seed", [(300, 8), (2000, 9)])
 @pytest.mark.parametrize("role", ["edif", "edif_hier", "spice"])
 def test_generated_board(tmp_path: Path, parts: int, seed: int, role: str) -> None:
-    files = write_all(generate(parts, seed), tmp_path)
-    bom = files["bom_hier"] if role == "edif_hier" else files["bom"]
-    context = load_inputs(CheckRequest(files[role], bom=bom))
+    context = board_context(write_all(generate(parts, seed), tmp_path), role)
     assert _assert_same_answers(context.circuit, context.rails, context.part_data) > 50
 
 

@@ -72,12 +72,17 @@ def boards(tmp_path_factory) -> dict[tuple[int, int], dict[str, Path]]:
     return made
 
 
+def board_context(files: dict[str, Path], role: str):
+    """The loaded inputs of a generated board's netlist ``role`` (edif, edif_hier, spice)
+    with the BOM that goes with it."""
+    bom = files["bom_hier"] if role == "edif_hier" else files["bom"]
+    return load_inputs(CheckRequest(files[role], bom=bom))
+
+
 @pytest.mark.parametrize("size", [(400, 1), (900, 2), (2500, 3), (1500, 7)])
 @pytest.mark.parametrize("role", ["edif", "edif_hier", "spice"])
 def test_generated_board(boards, size: tuple[int, int], role: str) -> None:
-    files = boards[size]
-    bom = files["bom_hier"] if role == "edif_hier" else files["bom"]
-    context = load_inputs(CheckRequest(files[role], bom=bom))
+    context = board_context(boards[size], role)
     assert _assert_same(context.circuit, context.rails, context.part_data) > 20
 
 

@@ -23,7 +23,7 @@ from linter.partdata import McuData, Rail
 from linter.topology_index import CircuitIndex
 from linter.topology_walk import walk_chain, walk_chain_plain
 
-from test_topology_quick import RAILS, SPICE_RAILS, _circuit, _part
+from test_topology_quick import RAILS, SPICE_RAILS, _circuit, _part, board_context
 
 ROOT = Path(__file__).resolve().parent.parent
 if str(ROOT) not in sys.path:
@@ -65,9 +65,7 @@ def test_topology_fixture(path: Path) -> None:
 @pytest.mark.parametrize("parts, seed", [(300, 4), (1200, 5), (3000, 6)])
 @pytest.mark.parametrize("role", ["edif", "edif_hier", "spice"])
 def test_generated_board(tmp_path: Path, parts: int, seed: int, role: str) -> None:
-    files = write_all(generate(parts, seed), tmp_path)
-    bom = files["bom_hier"] if role == "edif_hier" else files["bom"]
-    context = load_inputs(CheckRequest(files[role], bom=bom))
+    context = board_context(write_all(generate(parts, seed), tmp_path), role)
     assert _assert_same_chains(context.circuit, context.rails, context.part_data) > 50
 
 
