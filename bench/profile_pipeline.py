@@ -147,6 +147,8 @@ def main(argv: Sequence[str] | None = None) -> int:
     parser.add_argument("--sort", default="cumulative", help="pstats sort key (tottime, …)")
     parser.add_argument("--stages", help="comma-separated stages to profile (default: all)")
     parser.add_argument("--stop-after", metavar="STAGE", help="end after this stage (topology…)")
+    parser.add_argument("--dump", type=Path, metavar="FILE",
+                        help="also write the cProfile statistics to FILE (for pstats callers)")
     args = parser.parse_args(argv)
     profiled = set(args.stages.split(",")) if args.stages else None
     stages = _Stages(profiled, bool(args.profile), args.stop_after)
@@ -165,6 +167,8 @@ def main(argv: Sequence[str] | None = None) -> int:
     print(f"{'peak memory':14} {peak / 1024:8.1f} MiB   ({peak / max(parts, 1):.2f} KiB a part)")
     if stages.profiler is not None:
         pstats.Stats(stages.profiler).sort_stats(args.sort).print_stats(args.profile)
+        if args.dump is not None:
+            stages.profiler.dump_stats(str(args.dump))
     return 0
 
 
