@@ -2,7 +2,8 @@
 
 A command is run once untimed (the warm-up, which also checks that it works and keeps its
 standard output for inspection), then ``runs`` times with its standard output sent to
-/dev/null. Each run's wall-clock time is taken around the process; its peak resident memory
+/dev/null. Measures that are compared are timed in rounds (:func:`in_rounds`): each round
+runs every measure once, so that a slow spell of a shared machine falls on all of them. Each run's wall-clock time is taken around the process; its peak resident memory
 is the ``ru_maxrss`` that :func:`os.wait4` returns for that one child (KiB on Linux), both
 taken by ``bench/launch.py``, a small process the command is forked from (forked from this
 harness, a child would be charged with the harness's own resident memory).
@@ -24,7 +25,8 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any, Callable, Sequence
 
-__all__ = ["Measure", "run_command", "time_call", "OK_EXIT_CODES"]
+__all__ = ["Measure", "CommandMeasure", "CallMeasure", "in_rounds", "run_command", "time_call",
+           "OK_EXIT_CODES"]
 
 OK_EXIT_CODES = (0, 1)
 """Exit statuses that mean the command did its work (ledlint: 1 = findings at the fail level)."""
@@ -95,33 +97,101 @@ def _error_text(status: int, stderr: str) -> str:
     return f"{cause}: {last[:200]}"
 
 
-def run_command(name: str, command: Sequence[str], runs: int,
-                failed: Callable[[str], str | None] = lambda stderr: None) -> Measure:
-    """Warm up once, then time ``runs`` runs of ``command``.
+class CommandMeasure:
+    """A command timed in fresh processes: one untimed warm-up, then one run per round.
 
     ``failed`` may inspect standard error and return an error text for a program that
     reports failure without a bad exit status (ngspice).
     """
-    measure = Measure(name)
-    try:
-        _, status, peak, measure.output, stderr = _once(command, keep_output=True)
-    except OSError as exc:
-        measure.error = f"cannot start {command[0]}: {exc.strerror or exc}"
-        return measure
-    problem = failed(stderr)
-    if status not in OK_EXIT_CODES or problem:
-        measure.error = problem or _error_text(status, stderr)
-        return measure
-    peaks = [peak]
-    for _ in range(runs):
-        seconds, status, peak, _, stderr = _once(command, keep_output=False)
+
+    def __init__(self, name: str, command: Sequence[str],
+                 failed: Callable[[str], str | None] = lambda stderr: None,
+                 runs: int | None = None) -> None:
+        self.measure = Measure(name)
+        self.command = list(command)
+        self.failed = failed
+        self.runs = runs  # at most this many timed runs (None: one per round)
+        self._peaks: list[int] = []
+
+    def warm_up(self) -> None:
+        measure = self.measure
+        try:
+            _, status, peak, measure.output, stderr = _once(self.command, keep_output=True)
+        except OSError as exc:
+            measure.error = f"cannot start {self.command[0]}: {exc.strerror or exc}"
+            return
+        problem = self.failed(stderr)
+        if status not in OK_EXIT_CODES or problem:
+            measure.error = problem or _error_text(status, stderr)
+            return
+        self._peaks.append(peak)
+
+    def run_once(self) -> None:
+        seconds, status, peak, _, stderr = _once(self.command, keep_output=False)
         if status not in OK_EXIT_CODES:
-            measure.error = _error_text(status, stderr)
-            return measure
-        measure.seconds.append(seconds)
-        peaks.append(peak)
-    measure.peak_kb = max(peaks)
-    return measure
+            self.measure.error = _error_text(status, stderr)
+            return
+        self.measure.seconds.append(seconds)
+        self._peaks.append(peak)
+        self.measure.peak_kb = max(self._peaks)
+
+
+class CallMeasure:
+    """A Python call timed in this process, after a full garbage collection each time (no
+    warm-up: the first call is timed too). ``collect=False`` runs it with the garbage
+    collector disabled."""
+
+    def __init__(self, name: str, call: Callable[[], object], collect: bool = True,
+                 runs: int | None = None) -> None:
+        self.measure = Measure(name)
+        self.call = call
+        self.collect = collect
+        self.runs = runs
+
+    def warm_up(self) -> None:
+        pass
+
+    def run_once(self) -> None:
+        gc.collect()
+        if not self.collect:
+            gc.disable()
+        try:
+            started = time.perf_counter()
+            result = self.call()
+            self.measure.seconds.append(time.perf_counter() - started)
+        except Exception as exc:  # noqa: BLE001 - any failure is recorded, never hidden
+            self.measure.error = f"{type(exc).__name__}: {str(exc)[:200]}"
+            return
+        finally:
+            gc.enable()
+        del result
+
+
+Timed = CommandMeasure | CallMeasure
+
+
+def in_rounds(timed: Sequence[Timed], runs: int) -> list[Measure]:
+    """Warm every measure up, then time them in turn, one run each a round, ``runs`` rounds
+    (a measure with its own ``runs`` drops out after that many).
+
+    Measures meant to be compared are thus taken side by side: a slow spell of a shared
+    machine falls on one round of every measure, not on every run of one (which could move
+    a ratio by half). A measure that fails is left out of the later rounds with its error.
+    """
+    for item in timed:
+        item.warm_up()
+    for round_number in range(runs):
+        for item in timed:
+            wanted = runs if item.runs is None else item.runs
+            if item.measure.error is None and round_number < wanted:
+                item.run_once()
+    return [item.measure for item in timed]
+
+
+def run_command(name: str, command: Sequence[str], runs: int,
+                failed: Callable[[str], str | None] = lambda stderr: None) -> Measure:
+    """Warm up once, then time ``runs`` runs of ``command`` (one measure on its own)."""
+    return in_rounds([CommandMeasure(name, command, failed)], runs)[0]
 
 
 def time_call(name: str, call: Callable[[], object], runs: int, collect: bool = True) -> Measure:
@@ -129,19 +199,4 @@ def time_call(name: str, call: Callable[[], object], runs: int, collect: bool = 
 
     ``collect=False`` runs the calls with the garbage collector disabled.
     """
-    measure = Measure(name)
-    for _ in range(runs):
-        gc.collect()
-        if not collect:
-            gc.disable()
-        try:
-            started = time.perf_counter()
-            result = call()
-            measure.seconds.append(time.perf_counter() - started)
-        except Exception as exc:  # noqa: BLE001 - any failure is recorded, never hidden
-            measure.error = f"{type(exc).__name__}: {str(exc)[:200]}"
-            return measure
-        finally:
-            gc.enable()
-        del result
-    return measure
+    return in_rounds([CallMeasure(name, call, collect)], runs)[0]

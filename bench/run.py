@@ -2,7 +2,8 @@
 
 For each size (default 1k, 10k and 100k parts) a synthetic board is generated
 (:mod:`bench.gen_board`, seed 1) and these are measured, each the median of ``--runs`` runs
-(3 by default) after one untimed warm-up:
+(3 by default) after one untimed warm-up, in rounds (every measure once a round, so that a
+slow spell of the machine falls on all of them alike, :func:`bench.measure.in_rounds`):
 
 * floor: read the flat EDIF text and tokenize it with one compiled regex into nested lists
   (:func:`floor_parse`: iterative, explicit stack), the least any Python reader must do; also
@@ -40,7 +41,7 @@ if __package__ in (None, ""):  # run as a script: make ``bench`` importable
     sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
 from bench.gen_board import Board, generate, write_all  # noqa: E402
-from bench.measure import Measure, run_command, time_call  # noqa: E402
+from bench.measure import CallMeasure, CommandMeasure, Measure, in_rounds  # noqa: E402
 
 ROOT = Path(__file__).resolve().parent.parent
 BIN = ROOT / ".venv" / "bin"
@@ -115,44 +116,49 @@ def _reported_groups(measure: Measure) -> int | None:
         return None
 
 
-def _sexpdata_measure(path: Path, parts: int, runs: int, skip_large: bool) -> Measure:
+def _sexpdata_measure(path: Path, parts: int, skip_large: bool) -> CallMeasure | Measure:
     import sexpdata
 
     if parts >= LARGE and skip_large:
         return Measure("sexpdata.loads", error="skipped (--skip-sexpdata-large)")
-    return time_call("sexpdata.loads", lambda: sexpdata.loads(path.read_text()),
-                     1 if parts >= LARGE else runs)
+    return CallMeasure("sexpdata.loads", lambda: sexpdata.loads(path.read_text()),
+                       runs=1 if parts >= LARGE else None)
 
 
 def measure_size(board: Board, files: dict[str, Path], runs: int,
                  skip_large: bool) -> dict[str, Measure]:
-    """Every per-size measure of one generated board."""
+    """Every per-size measure of one generated board, taken in rounds (:func:`in_rounds`)."""
     edif = files["edif"]
-    measures = [
-        time_call("floor", lambda: floor_parse(edif.read_text()), runs),
-        time_call("floor, GC off", lambda: floor_parse(edif.read_text()), runs, collect=False),
-        _sexpdata_measure(edif, board.parts, runs, skip_large),
-        run_command("ledlint EDIF", _ledlint(edif, files["bom"]), runs),
-        run_command("ledlint EDIF hier", _ledlint(files["edif_hier"], files["bom_hier"]), runs),
-        run_command("ledlint SPICE", _ledlint(files["spice"], files["bom"]), runs),
-        run_command("ngspice -b", ["ngspice", "-b", str(files["spice"])], runs,
-                    failed=_ngspice_failed),
+    sexpdata = _sexpdata_measure(edif, board.parts, skip_large)
+    timed = [
+        CallMeasure("floor", lambda: floor_parse(edif.read_text())),
+        CallMeasure("floor, GC off", lambda: floor_parse(edif.read_text()), collect=False),
+        *([sexpdata] if isinstance(sexpdata, CallMeasure) else []),
+        CommandMeasure("ledlint EDIF", _ledlint(edif, files["bom"])),
+        CommandMeasure("ledlint EDIF hier", _ledlint(files["edif_hier"], files["bom_hier"])),
+        CommandMeasure("ledlint SPICE", _ledlint(files["spice"], files["bom"])),
+        CommandMeasure("ngspice -b", ["ngspice", "-b", str(files["spice"])],
+                       failed=_ngspice_failed),
     ]
+    measures = in_rounds(timed, runs)
+    if isinstance(sexpdata, Measure):
+        measures.insert(2, sexpdata)
     return {m.name: m for m in measures}
 
 
 def measure_startup(runs: int) -> dict[str, Measure]:
-    """ledlint on the demo board against importing numpy and networkx, fresh processes."""
+    """ledlint on the demo board against importing numpy and networkx, fresh processes, in
+    rounds."""
+    floor = CommandMeasure("import numpy, networkx",
+                           [str(BIN / "python"), "-c", "import numpy, networkx"])
     if not DEMO.exists():
         demo = Measure("demo check", error=f"no demo board at {DEMO.relative_to(ROOT)}")
-    else:
-        command = [str(BIN / "ledlint"), "check", str(DEMO), "--format", "json"]
-        if DEMO_BOM.exists():
-            command[3:3] = ["--bom", str(DEMO_BOM)]
-        demo = run_command("demo check", command, runs)
-    floor = run_command("import numpy, networkx",
-                        [str(BIN / "python"), "-c", "import numpy, networkx"], runs)
-    return {demo.name: demo, floor.name: floor}
+        return {demo.name: demo, floor.measure.name: in_rounds([floor], runs)[0]}
+    command = [str(BIN / "ledlint"), "check", str(DEMO), "--format", "json"]
+    if DEMO_BOM.exists():
+        command[3:3] = ["--bom", str(DEMO_BOM)]
+    measured = in_rounds([CommandMeasure("demo check", command), floor], runs)
+    return {measure.name: measure for measure in measured}
 
 
 @dataclass

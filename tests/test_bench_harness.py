@@ -115,3 +115,23 @@ def test_a_missing_program_is_an_error_not_a_number() -> None:
     measure = run_command("nothing", ["/nonexistent/ledlint-bench-missing"], runs=1)
     assert measure.error is not None and "cannot start" in measure.error
     assert measure.peak_kb is None and measure.median is None
+
+
+def test_measures_are_taken_in_rounds() -> None:
+    """Each round times every measure once (the harness's documented order), a measure with
+    its own run count drops out after it, and one that fails is not run again."""
+    from bench.measure import CallMeasure, in_rounds
+
+    calls: list[str] = []
+
+    def failing() -> None:
+        calls.append("bad")
+        raise RuntimeError("broken")
+
+    measures = in_rounds([CallMeasure("a", lambda: calls.append("a")),
+                          CallMeasure("b", lambda: calls.append("b")),
+                          CallMeasure("once", lambda: calls.append("once"), runs=1),
+                          CallMeasure("bad", failing)], runs=3)
+    assert calls == ["a", "b", "once", "bad", "a", "b", "a", "b"]
+    assert [len(m.seconds) for m in measures] == [3, 3, 1, 0]
+    assert measures[3].error == "RuntimeError: broken"
