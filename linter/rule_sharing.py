@@ -21,8 +21,9 @@ Nothing is guessed when something goes wrong:
   again by the plain loop, so the exception is the one the plain loop raises.
 
 Only for boards of at least :data:`MIN_GROUPS` LED groups (below that a fork costs more
-than it saves) on a system with ``os.fork`` and more than one usable CPU, and never from a
-process running other Python threads (a fork copies only the calling thread).
+than it saves), on Linux with more than one usable CPU, and never from a process running
+other Python threads (a fork copies only the calling thread; a terminal's progress timer is
+one, so a check drawing progress keeps its rules to one process).
 """
 
 from __future__ import annotations
@@ -56,13 +57,19 @@ def usable_processes(asked: int | None, groups: int) -> int:
     """How many processes share the rules: ``asked`` when given (``--jobs``), else two
     when the board has :data:`MIN_GROUPS` groups or more and two CPUs are usable, else one.
     Always one where a fork is unavailable or another Python thread runs."""
-    if not hasattr(os, "fork") or _other_threads():
+    if not _can_fork() or _other_threads():
         return 1
     if asked is not None:
         return max(1, asked)
     if groups < MIN_GROUPS:
         return 1
     return min(2, _cpus())
+
+
+def _can_fork() -> bool:
+    """Linux only: elsewhere a fork may leave system libraries unusable in the child (macOS
+    warns against forking after its frameworks start), and Windows has no fork."""
+    return sys.platform.startswith("linux") and hasattr(os, "fork")
 
 
 def _cpus() -> int:

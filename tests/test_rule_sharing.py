@@ -29,7 +29,8 @@ from bench.gen_board import generate, write_all  # noqa: E402
 
 DEMO = ROOT / "fixtures" / "demo"
 
-needs_fork = pytest.mark.skipif(not hasattr(os, "fork"), reason="rules are shared by fork")
+needs_fork = pytest.mark.skipif(not sys.platform.startswith("linux"),
+                                reason="rules are shared by fork, on Linux")
 
 
 @pytest.fixture(scope="module")
