@@ -123,6 +123,7 @@ def test_too_few_processes_or_rules_ask_for_the_plain_loop() -> None:
     assert shared_findings([f"r{i}" for i in range(257)], lambda rule_id: [], 2) is None
 
 
+@needs_fork
 def test_usable_processes(monkeypatch) -> None:
     monkeypatch.setattr(rule_sharing, "_cpus", lambda: 4)
     assert usable_processes(None, rule_sharing.MIN_GROUPS - 1) == 1
