@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+from itertools import chain, compress, repeat
+from operator import attrgetter, eq
 from typing import Any, Iterable
 
 from linter.findings import Finding
@@ -39,9 +41,13 @@ class FloatingLed(Rule):
     id = "floating-led"
     default_severity = "warning"
 
-    def check(self, context: Any) -> Iterable[Finding]:
+    def check(self, context: Any, screen: bool = True) -> Iterable[Finding]:
+        """``screen``: pass over the recognised groups and the LED pins in built-in steps
+        (:func:`_unrecognised`, :func:`may_be_open`); False: the plain loops (the same
+        findings)."""
         reported: set[str] = set()
-        for result in getattr(context, "groups", ()) or ():
+        groups = getattr(context, "groups", ()) or ()
+        for result in _unrecognised(groups) if screen else groups:
             group = result.group
             reason = group.reason or ""
             if group.topology != "unrecognised" or not _is_floating(reason):
@@ -49,7 +55,10 @@ class FloatingLed(Rule):
             reported.update(group.leds)
             yield self._finding(context, group.leds, reason, group.id)
         nets = context.circuit.nets
-        for part in context.circuit.leds():
+        leds = context.circuit.leds()
+        if screen and not may_be_open(leds, nets):
+            return
+        for part in leds:
             if part.ref in reported:
                 continue
             open_pins = [pin.name for pin in part.pins if not _joined(nets, pin.net)]
@@ -68,6 +77,29 @@ class FloatingLed(Rule):
                        fix="connect the open side to its driver (a resistor to a rail, a pin "
                            "or a sink), or remove the part if it is left from an old revision",
                        location=None if first is None else first.location)
+
+
+_TOPOLOGY = attrgetter("group.topology")
+_PINS = attrgetter("pins")
+_NET = attrgetter("net")
+
+
+def _unrecognised(groups: Iterable[Any]) -> Iterable[Any]:
+    """The results of ``groups`` whose group's topology is ``"unrecognised"``, in order,
+    picked without a step of Python per result (the check's loop asks the same again)."""
+    groups = tuple(groups)
+    return compress(groups, map(eq, map(_TOPOLOGY, groups), repeat("unrecognised")))
+
+
+def may_be_open(leds: Iterable[Any], nets: Any) -> bool:
+    """False only when no pin of ``leds`` is open in the sense of :func:`_joined` (on no net,
+    or on a net of the circuit with fewer than two pins): then the check's loop over the
+    LEDs finds nothing. Built-in passes over the pins and the nets, no step of Python each."""
+    on = set(map(_NET, chain.from_iterable(map(_PINS, leds))))
+    if None in on:
+        return True
+    lonely = compress(nets.keys(), map((2).__gt__, map(len, map(_PINS, nets.values()))))
+    return not on.isdisjoint(lonely)
 
 
 def _is_floating(reason: str) -> bool:

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+from itertools import compress, repeat
+from operator import attrgetter, eq
 from typing import Any, Iterable
 
 from linter import eseries
@@ -40,9 +42,12 @@ class NonstandardValue(Rule):
     id = "nonstandard-value"
     default_severity = "info"
 
-    def check(self, context: Any) -> Iterable[Finding]:
+    def check(self, context: Any, screen: bool = True) -> Iterable[Finding]:
+        """``screen``: first ask :func:`may_flag` (False: the plain loop only)."""
         severity = context.severity(self)
         standard: dict[tuple[float, float], bool] = {}  # by (Ω, tolerance): board's values repeat
+        if screen and not may_flag(context.circuit.parts.values(), context.part_data, standard):
+            return
         for part in context.circuit.parts.values():
             if part.kind != "resistor":
                 continue
@@ -52,10 +57,63 @@ class NonstandardValue(Rule):
                 yield finding
 
 
+_KIND = attrgetter("kind")
+_REF = attrgetter("ref")
+_VALUE = attrgetter("value_si")
+
+
+def may_flag(parts: Iterable[Part], part_data: Any,
+             standard: dict[tuple[float, float], bool] | None = None) -> bool:
+    """False only when no resistor of ``parts`` has a finding. A resistor's verdict reads
+    nothing but its ``value_si`` and its part-data record (:func:`_flags`), and a board has
+    few distinct pairs of them (records are shared by equal readings): each distinct pair
+    (the value by its type and value, the record by identity) is judged once. Values equal
+    but differently written (``0.0``, ``-0.0``) both give no finding. ``standard``: as for
+    :func:`_check_resistor`."""
+    parts = tuple(parts)
+    resistors = tuple(compress(parts, map(eq, map(_KIND, parts), repeat("resistor"))))
+    values = tuple(map(_VALUE, resistors))
+    records = tuple(map(part_data.get, map(_REF, resistors)))
+    by_id = dict(zip(map(id, records), records))
+    try:
+        pairs = set(zip(map(type, values), values, map(id, records)))
+    except TypeError:  # a value that cannot be a set member: judged part by part
+        return True
+    return any(_flags(value, by_id[key], standard) for _, value, key in pairs)
+
+
+def _flags(value_si: Any, data: Any, standard: dict[tuple[float, float], bool] | None) -> bool:
+    """Whether :func:`_check_resistor` gives a finding for a resistor of this ``value_si``
+    and part data (the same steps up to its verdict)."""
+    ohms, tolerance, _ = _ohms_tolerance(value_si, data)
+    if ohms is None or ohms <= 0 or tolerance <= 0:
+        return False
+    return not _is_standard(ohms, tolerance, standard)
+
+
+def _is_standard(ohms: float, tolerance: float,
+                 standard: dict[tuple[float, float], bool] | None) -> bool:
+    """Whether ``ohms`` is in a series accepted at ``tolerance``; ``standard`` keeps the
+    verdicts of (Ω, tolerance) pairs of floats met before."""
+    key = (ohms, tolerance) if type(ohms) is float and type(tolerance) is float else None
+    known = None if standard is None or key is None else standard.get(key)
+    if known is None:
+        known = any(eseries.is_standard(ohms, series)
+                    for series in eseries.accepted_series(tolerance))
+        if standard is not None and key is not None:
+            standard[key] = known
+    return known
+
+
 def _ohms_and_tolerance(part: Part, data: Any) -> tuple[float | None, float, bool]:
     """(value in Ω, tolerance fraction, whether the tolerance was assumed)."""
+    return _ohms_tolerance(part.value_si, data)
+
+
+def _ohms_tolerance(value_si: Any, data: Any) -> tuple[float | None, float, bool]:
+    """:func:`_ohms_and_tolerance` of a part whose ``value_si`` is given."""
     record = data if isinstance(data, ResistorData) else None
-    ohms = record.ohms if record is not None and record.ohms is not None else part.value_si
+    ohms = record.ohms if record is not None and record.ohms is not None else value_si
     if record is None or record.tolerance is None:
         return ohms, DEFAULT_TOLERANCE, True
     return ohms, record.tolerance, "tolerance" in record.assumed
@@ -82,14 +140,7 @@ def _check_resistor(part: Part, data: Any, rule: str, severity: str,
     ohms, tolerance, assumed = _ohms_and_tolerance(part, data)
     if ohms is None or ohms <= 0 or tolerance <= 0:
         return None  # a link, or a value nobody knows: other rules report those
-    key = (ohms, tolerance) if type(ohms) is float and type(tolerance) is float else None
-    known = None if standard is None or key is None else standard.get(key)
-    if known is None:
-        known = any(eseries.is_standard(ohms, series)
-                    for series in eseries.accepted_series(tolerance))
-        if standard is not None and key is not None:
-            standard[key] = known
-    if known:
+    if _is_standard(ohms, tolerance, standard):
         return None
     accepted = eseries.accepted_series(tolerance)
     own = accepted[0]
