@@ -111,12 +111,75 @@ def _finding_key(finding: Finding) -> tuple:
             finding.message)
 
 
-def lean_ordered_findings(findings: Iterable[Finding]) -> list[Finding]:
-    """``ordered_findings(findings)``: the same list, sorted by shorter keys."""
+class _Rest(tuple):
+    """A finding's parts after the first, compared only when the first parts are the same
+    (rarely: the text of each is made then, :func:`names_text` of ``self[1:]``)."""
+
+    __slots__ = ()
+
+    def _text(self) -> str:
+        return names_text(self[1:])
+
+    def __eq__(self, other: object) -> bool:
+        return self._text() == other._text()  # type: ignore[attr-defined]
+
+    def __ne__(self, other: object) -> bool:
+        return self._text() != other._text()  # type: ignore[attr-defined]
+
+    def __lt__(self, other: "_Rest") -> bool:  # type: ignore[override]
+        return self._text() < other._text()
+
+    def __le__(self, other: "_Rest") -> bool:  # type: ignore[override]
+        return self._text() <= other._text()
+
+    def __gt__(self, other: "_Rest") -> bool:  # type: ignore[override]
+        return self._text() > other._text()
+
+    def __ge__(self, other: "_Rest") -> bool:  # type: ignore[override]
+        return self._text() >= other._text()
+
+    __hash__ = None  # type: ignore[assignment]
+
+
+_ALONE = _Rest(("",))
+"""The rest of a list of one name or none: nothing (its text is ``\x01``)."""
+
+
+def _finding_key_first(finding: Finding) -> tuple:
+    """A key ordering as :func:`_finding_key` does, with the parts' text split in two: the
+    first part's (``\x02`` and its :func:`name_text`; ``\x01`` for no part), then the rest
+    as a :class:`_Rest`. The list text is the first name's text followed by the rest's, and
+    no name's text begins another's (the module docstring), so the pair compares as the
+    whole text does; a tie on the first part (same name) falls to the rest's texts."""
+    severity = finding.severity
+    rank = _RANKS[severity] if severity in _RANKS else -severity_rank(severity)
+    parts, nets = finding.parts, finding.nets
+    if not parts:
+        first = "\x01"
+    else:
+        name = parts[0]
+        simple = _DESIGNATOR(name)
+        if simple is None:
+            first = "\x02" + name_text(name)
+        else:
+            prefix, digits = simple.groups()
+            significant = digits.lstrip("0")
+            if len(significant) > _LONGEST_RUN:
+                raise _Plain(name)
+            first = _LISTED_SIMPLE % (prefix.casefold(), chr(3 + len(significant)),
+                                      significant, name)
+    return (rank, finding.rule, first, _Rest(parts) if len(parts) > 1 else _ALONE,
+            names_text(nets) if nets else "\x01", finding.message)
+
+
+def lean_ordered_findings(findings: Iterable[Finding], *, first: bool = True
+                          ) -> list[Finding]:
+    """``ordered_findings(findings)``: the same list, sorted by shorter keys
+    (:func:`_finding_key_first`; ``first=False``: :func:`_finding_key`, every name's text)."""
     findings = findings if isinstance(findings, Sequence) else list(findings)
     try:
         with paused_gc():
-            return sorted(findings, key=_finding_key)
+            return sorted(findings, key=_finding_key_first if first else _finding_key)
     except _Plain:
         return ordered_findings(findings)
 
