@@ -586,11 +586,12 @@ _FORMS_KEPT = 4096
 
 def _form(context: Any, template: Any, question: Any) -> _Form:
     """The :class:`_Form` of ``template`` for ``question``, made once per template and
-    question (by the question's text: ``-0.0`` and ``0.0`` are told apart)."""
+    question (by the question's text: ``-0.0`` and ``0.0`` are told apart; the same question
+    object is the same text)."""
     key = id(template)
     entry = _FORMS.get(key)
     if (entry is None or entry.template is not template
-            or repr(entry.question) != repr(question)):
+            or (entry.question is not question and repr(entry.question) != repr(question))):
         if len(_FORMS) >= _FORMS_KEPT:
             _FORMS.clear()
         entry = _FORMS[key] = _Form(context, template, question)

@@ -301,6 +301,7 @@ def _solve_first_splits(context: Any, results: list[GroupResult],
             return _verdict(context, result)
     keys: dict[int, Any] = {}
     pending: dict[bytes, tuple[GroupResult, str, float]] = {}
+    asked: dict[int, tuple[GroupResult, tuple]] = {}  # each template's question, one object
     for result in results:
         shared = result.group.setter
         verdict = verdicts(result)
@@ -312,9 +313,13 @@ def _solve_first_splits(context: Any, results: list[GroupResult],
             continue
         ohms_each, tolerance, _ = first
         template = figures_of(result)[0]  # the same question in the template's names
+        entry = asked.get(id(template))
+        if (entry is None or entry[0] is not template or entry[1][2] is not ohms_each
+                or entry[1][3] is not tolerance):  # (the verdict's own numbers: one object)
+            entry = asked[id(template)] = (template, _split_question(
+                template.group.setter, ohms_each, tolerance))
         key = fix_search.follower_signature(
-            context, result, _split_question(shared, ohms_each, tolerance),
-            _split_question(template.group.setter, ohms_each, tolerance))
+            context, result, _split_question(shared, ohms_each, tolerance), entry[1])
         keys[id(result)] = (key, first)
         if key is not None and key not in pending and not fix_search.is_remembered(key):
             pending[key] = (result, shared, ohms_each)
