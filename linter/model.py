@@ -29,9 +29,10 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 from functools import cached_property
+from collections import deque
 from itertools import repeat
 from operator import lshift, or_
-from typing import TYPE_CHECKING, Any, Callable, Literal, Mapping
+from typing import TYPE_CHECKING, Any, Callable, Literal, Mapping, Sequence
 
 if TYPE_CHECKING:  # networkx costs start-up time; only the graph property imports it
     import networkx as nx
@@ -51,6 +52,9 @@ __all__ = [
     "location_packer",
     "stored_location",
     "stored_location_getter",
+    "new_pins",
+    "new_parts",
+    "new_nets",
 ]
 
 PartKind = Literal[
@@ -303,10 +307,11 @@ class Part:
         return tuple(pin.net for pin in self.pins)
 
 
+_PART_SETTERS = _slot_setters(Part, "ref", "kind", "value", "pins", "location", "value_si",
+                              "path", "cell", "part_number", "properties", "model")
 (_set_part_ref, _set_part_kind, _set_part_value, _set_part_pins, _set_part_location,
  _set_part_value_si, _set_part_path, _set_part_cell, _set_part_number, _set_part_properties,
- _set_part_model) = _slot_setters(Part, "ref", "kind", "value", "pins", "location", "value_si",
-                                  "path", "cell", "part_number", "properties", "model")
+ _set_part_model) = _PART_SETTERS
 Part.location = _LocationSlot(Part.__dict__["location"])  # type: ignore[assignment]
 
 
@@ -342,6 +347,45 @@ def stored_location_getter(cls: type[Part] | type[Net]) -> Callable[[object, typ
     """``get(obj, cls)``: :func:`stored_location` of an instance of ``cls`` in one C call (for
     a loop over many parts)."""
     return cls.__dict__["location"]._get
+
+
+def _made_in_bulk(cls: type, setters: Sequence[Callable[[object, object], None]],
+                  columns: Sequence[Sequence[object]]) -> list:
+    """New ``cls`` objects, one per row of ``columns`` (one column per slot, in ``setters``'
+    order): each slot filled over all of them by one C-level pass of its setter, so no Python
+    call is made per object (as ``linter.result_rename.Template.followers`` makes results)."""
+    count = len(columns[0]) if columns else 0
+    if any(len(column) != count for column in columns):
+        raise ValueError("columns of different lengths")
+    made = list(map(object.__new__, repeat(cls, count)))
+    for setter, column in zip(setters, columns):
+        deque(map(setter, made, column), 0)
+    return made
+
+
+def new_pins(names: Sequence[str], nets: Sequence[str | None]) -> list[Pin]:
+    """``Pin(name, net)`` of each (name, net) pair, made in bulk (equal to the one by one)."""
+    return _made_in_bulk(Pin, (_set_pin_name, _set_pin_net), (names, nets))
+
+
+def new_parts(refs: Sequence[str], kinds: Sequence[str], values: Sequence[str | None],
+              pins: Sequence[tuple[Pin, ...]], locations: Sequence[Any],
+              values_si: Sequence[float | None], paths: Sequence[str], cells: Sequence[str],
+              part_numbers: Sequence[str | None],
+              properties: Sequence[Mapping[str, str]]) -> list[Part]:
+    """``Part(ref, kind, value, pins, location, value_si, path, cell, part_number,
+    properties)`` of each row of the columns (no model), made in bulk; a location is stored as
+    given (a SourceLocation or a packed place), as ``Part`` stores it."""
+    columns = (refs, kinds, values, pins, locations, values_si, paths, cells, part_numbers,
+               properties)
+    return _made_in_bulk(Part, _PART_SETTERS, (*columns, [None] * len(refs)))
+
+
+def new_nets(names: Sequence[str], pins: Sequence[tuple[tuple[str, str], ...]],
+             locations: Sequence[Any]) -> list[Net]:
+    """``Net(name, pins, location)`` of each row of the columns (no aliases), made in bulk."""
+    return _made_in_bulk(Net, (_set_net_name, _set_net_pins, _set_net_location, _set_net_aliases),
+                         (names, pins, locations, [()] * len(names)))
 
 
 @dataclass(frozen=True)

@@ -29,14 +29,14 @@ import math
 import re
 from collections import Counter
 from dataclasses import dataclass
-from typing import Iterator
 from itertools import accumulate, chain, compress, repeat
-from operator import attrgetter, is_not, itemgetter
+from operator import add, attrgetter, floordiv, is_not, itemgetter, mod, mul
 
 from linter.errors import NetlistError
 from linter.kinds import infer_kind
 from linter.model import (
-    Circuit, Net, Part, Pin, SourceLocation, location_packer, packed_locations,
+    Circuit, Net, Part, Pin, SourceLocation, location_packer, new_nets, new_parts, new_pins,
+    packed_locations,
 )
 from linter.readers.edif_compound import EdifCompounds
 from linter.readers.edif_direct import FlatPlan, flat_plan
@@ -150,10 +150,11 @@ def _flat_circuit(doc: Document, edif: EdifFile, plan: FlatPlan, refs: list[str]
 
     Pins are made for all parts at once (one object per name and net), and each net's
     (part, pin) pairs come from one sort of the connected pins by net, in part and pin order
-    as the plain road lists them.
+    as the plain road lists them; parts, pins and nets are made in bulk
+    (:func:`linter.model.new_parts` and its siblings).
     """
     design = edif.design.name.display if edif.design is not None else ""
-    instances, targets, names, pin_nets = plan.instances, plan.targets, plan.names, plan.pin_nets
+    instances, names, pin_nets = plan.instances, plan.names, plan.pin_nets
     forms = [instance.form for instance in instances] + [net.form for net in plan.nets]
     plan.instances = plan.nets = []  # type: ignore[assignment]  # the net records can go
     _release_instances(edif)
@@ -161,36 +162,62 @@ def _flat_circuit(doc: Document, edif: EdifFile, plan: FlatPlan, refs: list[str]
     places = _locations(doc, forms)
     del forms
     maker = _PartMaker(None, {}, doc)  # type: ignore[arg-type]
+    slot_names, pin_counts, pins = _flat_pins(maker, plan.targets, names, pin_nets)
+    firsts = plan.firsts
+    part_pins = list(map(tuple, map(pins.__getitem__,
+                                    map(slice, firsts, firsts[1:] + [len(pins)]))))
+    del pins
+    paths = [instance.name.display for instance in instances]
+    parts = maker.make_many(instances, plan.targets, refs, places[:len(refs)], paths, part_pins)
+    del paths, instances, part_pins
+    nets = _flat_nets(refs, pin_counts, slot_names, pin_nets, names, places[len(refs):])
+    return Circuit(source=doc.source, format="edif", parts=parts, nets=nets, design=design)
+
+
+def _flat_pins(maker: _PartMaker, targets: list, names: list[str], pin_nets: list[int | None]
+               ) -> tuple[list[str], list[int], list[Pin]]:
+    """Every pin slot's name, each part's pin count, and every slot's Pin (one object per
+    name and net, made in bulk).
+
+    A slot's name and net are coded as one int, ``name number + width x net number``
+    (``width``: the distinct pin names; an unconnected slot has net number ``len(names)``),
+    so that equal pins are found by ints, without a tuple per slot.
+    """
     views = list(map(attrgetter("view"), targets))
     view_ids = list(map(id, views))  # (the views are alive: ids are unique)
-    names_of = {number: maker.view_pin_names(view)
-                for number, view in dict(zip(view_ids, views)).items()}
-    pin_names_of = list(map(names_of.__getitem__, view_ids))
-    del view_ids
-    pin_counts = list(map(len, pin_names_of))
-    slot_names = list(chain.from_iterable(pin_names_of))
-    del pin_names_of
-    net_of: dict[int | None, str | None] = dict(enumerate(names))
-    net_of[None] = None
-    distinct = dict.fromkeys(zip(slot_names, map(net_of.__getitem__, pin_nets)))
-    known = dict(zip(distinct, map(Pin, *zip(*distinct)))) if distinct else {}
-    del distinct
-    pins = list(map(known.__getitem__, zip(slot_names, map(net_of.__getitem__, pin_nets))))
-    del known
-    firsts = plan.firsts
-    part_pins = map(tuple, map(pins.__getitem__, map(slice, firsts, firsts[1:] + [len(pins)])))
-    paths = [instance.name.display for instance in instances]
-    parts = maker.make_many(instances, targets, refs, places, paths, part_pins)
-    del pins, paths, instances
+    numbers: dict[str, int] = {}
+    names_of, codes_of = {}, {}
+    for number, view in dict(zip(view_ids, views)).items():
+        names_of[number] = view_names = maker.view_pin_names(view)
+        codes_of[number] = tuple(numbers.setdefault(name, len(numbers)) for name in view_names)
+    del views
+    slot_names = list(chain.from_iterable(map(names_of.__getitem__, view_ids)))
+    pin_counts = list(map(len, map(names_of.__getitem__, view_ids)))
+    width = max(len(numbers), 1)
+    unconnected = {None: len(names)}  # .get(net, net): the net's number, or len(names)
+    codes = list(map(add, chain.from_iterable(map(codes_of.__getitem__, view_ids)),
+                     map(mul, map(unconnected.get, pin_nets, pin_nets), repeat(width))))
+    distinct = list(dict.fromkeys(codes))
+    pin_names, net_names = list(numbers), [*names, None]
+    made = new_pins(list(map(pin_names.__getitem__, map(mod, distinct, repeat(width)))),
+                    list(map(net_names.__getitem__, map(floordiv, distinct, repeat(width)))))
+    pin_of = dict(zip(distinct, made))
+    return slot_names, pin_counts, list(map(pin_of.__getitem__, codes))
+
+
+def _flat_nets(refs: list[str], pin_counts: list[int], slot_names: list[str],
+               pin_nets: list[int | None], names: list[str], places: list) -> dict[str, Net]:
+    """Nets by name in declaration order, each with its (part, pin) pairs in part and pin
+    order: the connected slots sorted by net (a stable sort keeps slot order within a net)."""
     connected = sorted(compress(range(len(pin_nets)), map(is_not, pin_nets, repeat(None))),
-                       key=pin_nets.__getitem__)  # by net, in part and pin order (stable)
+                       key=pin_nets.__getitem__)
     slot_refs = list(chain.from_iterable(map(repeat, refs, pin_counts)))
     pairs = list(zip(map(slot_refs.__getitem__, connected), map(slot_names.__getitem__, connected)))
+    del slot_refs, connected
     sizes = Counter(pin_nets)
     bounds = list(accumulate(map(sizes.__getitem__, range(len(names))), initial=0))
-    net_pins = map(tuple, map(pairs.__getitem__, map(slice, bounds, bounds[1:])))
-    nets = dict(zip(names, map(Net, names, net_pins, places[len(refs):], repeat(()))))
-    return Circuit(source=doc.source, format="edif", parts=parts, nets=nets, design=design)
+    net_pins = list(map(tuple, map(pairs.__getitem__, map(slice, bounds, bounds[1:]))))
+    return dict(zip(names, new_nets(names, net_pins, places)))
 
 
 def _parts(leaves: list[Leaf], refs: list[str], places: list[SourceLocation], flat: FlatDesign,
@@ -394,7 +421,7 @@ class _PartMaker:
 
     def make_many(self, instances: list[Instance], targets: list, refs: list[str],
                   places: list[SourceLocation], paths: list[str],
-                  pins: Iterator[tuple[Pin, ...]]) -> dict[str, Part]:
+                  pins: list[tuple[Pin, ...]]) -> dict[str, Part]:
         """:meth:`make` of many parts (instance ``i`` placing ``targets[i]``'s cell view) by
         built-in passes: each distinct reading is worked out once, from the first part that
         has it; the first part whose reading is a problem is refused, as :meth:`make` would."""
@@ -411,8 +438,8 @@ class _PartMaker:
             raise self.doc.error(instances[at].form, f"{refs[at]}: {readings[at][3]}")
         columns = [list(map(itemgetter(column), readings)) for column in range(7)]
         kinds, values, ohms, _, cells, part_numbers, properties = columns
-        return dict(zip(refs, map(Part, refs, kinds, values, pins, places, ohms, paths, cells,
-                                  part_numbers, properties)))
+        return dict(zip(refs, new_parts(refs, kinds, values, pins, places, ohms, paths, cells,
+                                        part_numbers, properties)))
 
     def view_pin_names(self, view: View) -> tuple[str, ...]:
         """The pin names of a view, in pin-block order (worked out once per view)."""

@@ -114,7 +114,12 @@ class _Atoms(dict):
 
 class EdifCompounds:
     """The compound forms of one parse (see the module docstring); equal property sets and
-    texts are shared, one object each."""
+    texts are shared, one object each.
+
+    ``builders[k]`` is the builder of a match whose ``lastindex`` is ``k`` (1 an instance,
+    9 a net, 14 a port reference; None elsewhere): :func:`linter.readers.sexpr.parse` calls it
+    directly, one Python call per form; :meth:`build` is the same by one more call.
+    """
 
     pattern = PATTERN
     token_group = TOKEN_GROUP
@@ -124,45 +129,72 @@ class EdifCompounds:
         self._texts: dict[str, str] = {}
         self._atoms: _Atoms = _Atoms()
         self._references: dict[tuple[str | None, str, str], tuple[str | None, str, str]] = {}
+        builders: list = [None] * TOKEN_GROUP
+        builders[1], builders[9], builders[14] = self._instance_builder(), self._net_builder(), \
+            self._port_ref_builder()
+        self.builders: tuple = tuple(builders)
 
     def build(self, match: re.Match[str]) -> object:
-        which = match.lastindex
-        if which == 1:
-            return self._instance(match)
-        if which == 9:
-            return self._net(match)
-        instance = match.group(16)
-        port, share = match.group(15), self._atoms.setdefault
-        return PortRef(share(port, port), None,
-                       instance if instance is None else share(instance, instance),
-                       match.start(14))
+        return self.builders[match.lastindex](match)  # type: ignore[index]
 
-    def _net(self, match: re.Match[str]) -> Net:
-        ident, renamed, display, joined = match.group(10, 11, 12, 13)
-        if ident is not None:
-            name = Name(ident.casefold(), ident[1:] if ident[0] == "&" else ident)
-        else:
-            name = Name(renamed.casefold(), decode_string(display))
-        # one object for equal names, no Python call for a name seen before
-        pairs = tuple(map(self._atoms.__getitem__, chain.from_iterable(_PAIRS(joined))))
-        return Net(name, (), match.start(9), pairs)
+    def _port_ref_builder(self):
+        share = self._atoms.setdefault
 
-    def _instance(self, match: re.Match[str]) -> Instance:
-        ident, renamed, display, view, cell, library, items = match.group(2, 3, 4, 5, 6, 7, 8)
-        if ident is not None:
-            ident = self._atoms.setdefault(ident, ident)  # (mostly a new name)
-            name = Name(ident.casefold(), ident[1:] if ident[0] == "&" else ident)
-        else:
-            name = Name(renamed.casefold(), decode_string(display))
-        found = self._items.get(items)
-        designator, properties = found if found is not None else self._properties(items)
-        reference = (library, cell, view)
-        shared = self._references.get(reference)
-        if shared is None:
+        def port_ref(match: re.Match[str]) -> PortRef:
+            instance = match.group(16)
+            port = match.group(15)
+            return PortRef(share(port, port), None,
+                           instance if instance is None else share(instance, instance),
+                           match.start(14))
+
+        return port_ref
+
+    def _net_builder(self):
+        """``net(match)``: the Net of a net form read whole; its pairs one object per name
+        (no Python call for a name seen before)."""
+        names, chained, pairs_of = self._atoms.__getitem__, chain.from_iterable, _PAIRS
+
+        def net(match: re.Match[str]) -> Net:
+            ident, renamed, display, joined = match.group(10, 11, 12, 13)
+            if ident is not None:
+                name = Name(ident.casefold(), ident[1:] if ident[0] == "&" else ident)
+            else:
+                name = Name(renamed.casefold(), decode_string(display))
+            return Net(name, (), match.start(9), tuple(map(names, chained(pairs_of(joined)))))
+
+        return net
+
+    def _instance_builder(self):
+        """``instance(match)``: the Instance of an instance form read whole; its name one
+        object with the port references' spelling of it, its library, cell and view names
+        and its property table shared."""
+        share, tables, references = self._atoms.setdefault, self._items.get, self._references.get
+        properties_of, shared_reference = self._properties, self._shared_reference
+
+        def instance(match: re.Match[str]) -> Instance:
+            ident, renamed, display, view, cell, library, items = match.group(2, 3, 4, 5, 6, 7, 8)
+            if ident is not None:
+                ident = share(ident, ident)  # (mostly a new name)
+                name = Name(ident.casefold(), ident[1:] if ident[0] == "&" else ident)
+            else:
+                name = Name(renamed.casefold(), decode_string(display))
+            found = tables(items) or properties_of(items)
+            reference = (library, cell, view)
+            shared = references(reference) or shared_reference(reference)
+            return Instance(name, *shared, *found, match.start(1))
+
+        return instance
+
+    def _shared_reference(self, reference: tuple[str | None, str, str]
+                          ) -> tuple[str | None, str, str]:
+        """(library, cell, view) as first met, its names one object each."""
+        found = self._references.get(reference)
+        if found is None:
+            library, cell, view = reference
             share = self._atoms.__getitem__
-            shared = self._references[reference] = (
+            found = self._references[reference] = (
                 library if library is None else share(library), share(cell), share(view))
-        return Instance(name, *shared, designator, properties, match.start(1))
+        return found
 
     def _properties(self, items: str) -> tuple[str | None, dict[str, str]]:
         """Designator (the first) and properties by display name, later ones winning; equal
