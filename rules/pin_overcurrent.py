@@ -65,9 +65,14 @@ class PinOvercurrent(Rule):
                 if index < len(ids):
                     yield self._pin_finding(context, result, _pin(result, index))
             for part, index in _largest_per_part(ids, pins).items():
-                contributions.setdefault(part, []).append((_pin(result, index), result))
-        for part, pins in sorted(contributions.items()):
-            finding = self._package_finding(context, part, pins)
+                contributions.setdefault(part, []).append((result, index, pins[index].current))
+        for part, entries in sorted(contributions.items()):
+            # the package total from the figures alone; the pin records made only when over
+            # (a pin's span is its figures' record's, _pin)
+            if not _package_over(context, part, [current for _, _, current in entries]):
+                continue
+            finding = self._package_finding(
+                context, part, [(_pin(result, index), result) for result, index, _ in entries])
             if finding is not None:
                 yield finding
 
@@ -111,6 +116,16 @@ class PinOvercurrent(Rule):
         return Finding(rule=self.id, severity=context.severity(self), message=message,
                        parts=(part,), nets=tuple(sorted({pin.net for pin, _ in pins})),
                        values=values, fix=fix, location=part_location(context, part))
+
+
+def _package_over(context: Any, part: str, currents: list[Any]) -> bool:
+    """Whether :meth:`PinOvercurrent._package_finding` gives a finding for ``part`` whose
+    pins' spans are ``currents`` (in order): its package rating is known and the pins'
+    highest currents add up (in that order) to more."""
+    data = context.part_data.get(part)
+    if not isinstance(data, McuData) or data.package_current_max is None:
+        return False
+    return sum(current.max for current in currents) > data.package_current_max
 
 
 def _largest_pin_per_part(result: GroupResult) -> dict[str, PinResult]:

@@ -43,3 +43,25 @@ def test_positions_give_the_plain_pins(tmp_path):
             followers += bool(plain) and result.origin is not None
         forget_board()
     assert followers > 20
+
+
+def test_package_over_says_what_the_package_finding_says(tmp_path):
+    """``_package_over`` on the pins' spans alone agrees with ``_package_finding`` on the
+    plain records of every microcontroller of the boards and the rule's fixtures, and the
+    boards hold parts on both sides of it (a package finding and none)."""
+    decks = sorted((ROOT / "fixtures" / "rules" / "pin-overcurrent").glob("*.cir"))
+    boards = list(_boards(tmp_path)) + [(deck, None) for deck in decks]
+    answers = set()
+    checker = rule.PinOvercurrent()
+    for netlist, bom in boards:
+        context = analyse(load_inputs(CheckRequest(netlist=netlist, bom=bom)))
+        contributions: dict[str, list] = {}
+        for result in solved_groups(context):
+            for part, pin in rule._largest_pin_per_part(result).items():
+                contributions.setdefault(part, []).append((pin, result))
+        for part, pins in sorted(contributions.items()):
+            over = rule._package_over(context, part, [pin.current for pin, _ in pins])
+            assert over == (checker._package_finding(context, part, pins) is not None)
+            answers.add(over)
+        forget_board()
+    assert answers == {True, False}
