@@ -81,13 +81,21 @@ class LedUndercurrent(Rule):
         return self._finding(context, result, [base.leds[i] for i in positions], floor,
                              nominal)
 
-    def _shorted(self, context: Any) -> Iterable[Finding]:
-        """LEDs whose two pins are joined through 0 Ω links: they can never light."""
+    def _shorted(self, context: Any, unlinked: bool = True) -> Iterable[Finding]:
+        """LEDs whose two pins are joined through 0 Ω links: they can never light.
+        ``unlinked``: on a board without links (every net its own set) compare the two
+        nets themselves, not their sets' roots (False: the roots always)."""
         circuit = context.circuit
         joined = _link_clusters(circuit)
+        alone = unlinked and not joined.links  # find(net) is net for every net
         for led in circuit.leds():
             nets = [pin.net for pin in led.pins if pin.net is not None]
-            if len(nets) != 2 or joined.find(nets[0]) != joined.find(nets[1]):
+            if len(nets) != 2:
+                continue
+            if alone:
+                if nets[0] != nets[1]:
+                    continue
+            elif joined.find(nets[0]) != joined.find(nets[1]):
                 continue
             links = natural_sorted(joined.links_between(nets[0], nets[1]))
             via = f"through {fold_refs(links)} (0 Ω)" if links else "by a single net"

@@ -93,8 +93,9 @@ class SharedBallast(Rule):
         verdict = _verdict(context, result) if verdicts is None else verdicts(result)
         name = renamer(refs)
         tied = verdict.tied
-        index = tied[0] if len(tied) == 1 else min(
-            tied, key=lambda i: natural_key(name(base.leds[i].ref)))
+        leds = tuple(natural_sorted(group.leds))
+        index = tied[0] if len(tied) == 1 else _first_in_order(
+            [name(base.leds[i].ref) for i in tied], tied, leds)
         hottest = base.leds[index]
         hottest_ref = name(hottest.ref)
         shared = group.setter or "one part"
@@ -103,7 +104,6 @@ class SharedBallast(Rule):
         values = {"count": float(count), "share_nom_a": share,
                   "hottest_current_max_a": hottest.current.max}
         where = at_corner(hottest.current.at_max, result, (hottest_ref,), refs)
-        leds = tuple(natural_sorted(group.leds))
         text = (f"{fold(leds)} share {shared}: {hottest_ref} takes up to "
                 f"{amps(hottest.current.max)} ({where})")
         data = led_data(context, hottest.ref)  # the template's: equal but for the note
@@ -224,6 +224,21 @@ def _verdict(context: Any, result: GroupResult) -> _Verdict:
         if transistor is not None:
             shared_part = (transistor.current.max, transistor.power.max)
     return _Verdict(tied, share, shared_part, by_resistor, first, limit)
+
+
+def _first_in_order(names: list[str], positions: tuple[int, ...],
+                    ordered: tuple[str, ...]) -> int:
+    """The position (of ``positions``) whose name (``names``, one per position) is lowest
+    in natural order, the first of them on equal keys: ``min(positions, key=natural_key of
+    its name)``. ``ordered``: names in natural order without repeats; when the names are
+    distinct and all in it, the first of it among them is that name (a name's key is its
+    own, with the name itself last), and no key is worked out again."""
+    at = dict(zip(names, positions))
+    if len(at) == len(names) and at.keys() <= set(ordered):
+        for name in ordered:
+            if name in at:
+                return at[name]
+    return positions[min(range(len(positions)), key=lambda k: natural_key(names[k]))]
 
 
 def _hottest(leds: Iterable[LedResult]) -> LedResult:

@@ -6,7 +6,8 @@ crafted circuits' expectations (an open pin, a 1.05 kΩ resistor at 5 %) follow 
 rule's own definition (its docstring), from memory of the E24 and E96 series for 1 kΩ and
 1.05 kΩ. Boards: every rule fixture, the demo (EDIF and SPICE) and generated
 boards (bench/gen_board.py), whose large channels find nothing in these rules, so that the
-short road is the one taken there.
+short road is the one taken there. led-undercurrent's shorted LEDs on a board without links
+compare an LED's two nets, not their roots (``unlinked=False``: the roots always).
 """
 
 from __future__ import annotations
@@ -165,3 +166,34 @@ def test_values_that_give_no_verdict_stay_out(value):
     context = StandIn(_circuit(parts))
     assert not nonstandard_value.may_flag(context.circuit.parts.values(), {})
     assert _assert_same(context)["nonstandard-value"] == 0
+
+
+def _shorted_both(context) -> tuple[list, list]:
+    rule = all_rules()["led-undercurrent"]()
+    return list(rule._shorted(context)), list(rule._shorted(context, unlinked=False))
+
+
+@pytest.mark.parametrize("name", sorted(CORPUS))
+def test_shorted_leds_same_comparing_nets_on_boards_without_links(name):
+    netlist, bom = CORPUS[name]
+    fast, plain = _shorted_both(analyse(load_inputs(CheckRequest(netlist, bom=bom))))
+    assert [repr(f) for f in fast] == [repr(f) for f in plain]
+
+
+@pytest.mark.parametrize("extra, found", [
+    ([_led("D2", "a", "a")], 1),  # both pins on one net (no link on the board)
+    ([_led("D2", "b", "c"), _two_pin("L1", "link", "b", "c")], 1),  # a 0 Ω link across
+    ([_led("D2", "b", "0"), _two_pin("L1", "link", "b", "x")], 0),  # a link on one side only
+    ([_led("D2", "a", "a"), _two_pin("L1", "link", "b", "x")], 1),  # one net, links elsewhere
+    ([Part("D2", "led", "RED", (Pin("A", "a"), Pin("K", "a"), Pin("T", None)), HERE)], 1),
+])
+def test_shorted_leds_same_on_made_circuits(extra, found):
+    fast, plain = _shorted_both(StandIn(_circuit([*CLEAN, *extra])))
+    assert [repr(f) for f in fast] == [repr(f) for f in plain]
+    assert len(plain) == found
+
+
+def test_shorted_leds_same_on_generated_boards(generated):
+    for context in generated.values():
+        fast, plain = _shorted_both(context)
+        assert fast == plain == []
