@@ -12,16 +12,16 @@ whose tables use dashes under the header and no frame.
 from __future__ import annotations
 
 import io
-from typing import TYPE_CHECKING, Any, Iterator, Mapping
+from typing import TYPE_CHECKING, Any, Callable, Iterator, Mapping
 
 from linter.findings import SEVERITIES, Finding
 from linter.gc_pause import paused_gc
-from linter.refs import fold_refs
+from linter.refs import MIN_RUN, fold_refs, natural_sorted
 from linter.results import GroupResult
-from linter.report.common import (finding_location, group_entry, ordered_findings,
-                                  plain_data, severity_counts, sorted_records)
+from linter.report.common import finding_location, group_entry, plain_data, severity_counts
+from linter.report.lean_order import lean_ordered_findings, lean_sorted_records
 from linter.report.stream import StreamingReporter
-from linter.report.text_line import Line
+from linter.report.text_line import Line, stripped
 from linter.report.text_tables import plain_table
 from linter.units import format_si
 
@@ -75,6 +75,14 @@ def _summary(result: "CheckResult") -> Line:
     return text
 
 
+def _folded(parts: tuple[str, ...]) -> str:
+    """``fold_refs(parts)``: fewer names than :data:`~linter.refs.MIN_RUN` hold no run to
+    fold, so they are only put in natural order (one name is itself)."""
+    if len(parts) >= MIN_RUN:
+        return fold_refs(parts)
+    return parts[0] if len(parts) == 1 else ", ".join(natural_sorted(parts))
+
+
 def _finding_line(finding: Finding, result: "CheckResult") -> Line:
     where = finding_location(finding, result.circuit)
     line = Line(f"{where}: " if where is not None else "")
@@ -82,9 +90,22 @@ def _finding_line(finding: Finding, result: "CheckResult") -> Line:
     line.append(" ")
     line.append(finding.rule, style="bold")
     if finding.parts:
-        line.append(f" [{fold_refs(finding.parts)}]")
+        line.append(f" [{_folded(finding.parts)}]")
     line.append(f": {finding.message}")
     return line
+
+
+def _finding_text(finding: Finding, result: "CheckResult") -> str:
+    """The pieces of :func:`_finding_line` joined (its ``plain`` before stripping)."""
+    where = finding_location(finding, result.circuit)
+    parts = finding.parts
+    return "".join((f"{where}: " if where is not None else "", finding.severity, " ",
+                    finding.rule, f" [{_folded(parts)}]" if parts else "",
+                    f": {finding.message}"))
+
+
+def _fix_line(fix: str) -> Line:
+    return Line(f"    fix: {fix}")
 
 
 def _si(value: Any, unit: str) -> str:
@@ -262,6 +283,17 @@ class _Lines:
         self.buffer.seek(0)
         self.buffer.truncate()
 
+    def print_text(self, text: str, make: Callable[..., Line], *args: Any) -> None:
+        """``print(make(*args))``, the Line whose pieces join to ``text``: without colour,
+        the text itself stripped (:attr:`Line.plain`) when it holds no tab, the Line left
+        unmade."""
+        if self.plain:
+            plain = stripped(text)
+            if "\t" not in plain:
+                self.keep(plain + "\n")
+                return
+        self.print(make(*args))
+
     def keep(self, text: str) -> None:
         """Add text as it is (whole lines, each ending in a newline)."""
         self.pending.append(text)
@@ -302,7 +334,7 @@ class TextReporter(StreamingReporter):
 
     def _print_groups(self, lines: _Lines, result: "CheckResult") -> Iterator[None]:
         style: "box.Box | None" = None  # rich's box, only when a table goes through rich
-        for record in sorted_records(result.groups):
+        for record in lean_sorted_records(result.groups):
             group = shown_entry(record)
             lines.print()
             lines.print(_group_heading(group))
@@ -322,7 +354,7 @@ class TextReporter(StreamingReporter):
         return box.SIMPLE_HEAD if self.options.color else _plain_box()
 
     def _print_group_lines(self, lines: _Lines, result: "CheckResult") -> None:
-        records = sorted_records(result.groups)
+        records = lean_sorted_records(result.groups)
         for record in records[:GROUP_LINES_MAX]:
             lines.print(_group_line(shown_entry(record)))
         if len(records) > GROUP_LINES_MAX:
@@ -330,7 +362,7 @@ class TextReporter(StreamingReporter):
                              "(--verbose lists them all)"))
 
     def _print_findings(self, lines: _Lines, result: "CheckResult") -> Iterator[None]:
-        findings = ordered_findings(result.findings)
+        findings = lean_ordered_findings(result.findings)
         for severity in SEVERITIES:
             these = [finding for finding in findings if finding.severity == severity]
             if not these:
@@ -340,7 +372,8 @@ class TextReporter(StreamingReporter):
                 lines.print(Line(_count_of(len(these), severity).upper(),
                                  style=_STYLE[severity]))
             for finding in these:
-                lines.print(_finding_line(finding, result))
-                if finding.fix:
-                    lines.print(Line(f"    fix: {finding.fix}"))
+                lines.print_text(_finding_text(finding, result), _finding_line, finding, result)
+                fix = finding.fix
+                if fix:
+                    lines.print_text(f"    fix: {fix}", _fix_line, fix)
                 yield

@@ -10,41 +10,55 @@ check's start-up; a plain report never needs it. The tests hold both to rich's o
 
 from __future__ import annotations
 
+import re
 from typing import TYPE_CHECKING
 
 if TYPE_CHECKING:
     from rich.text import Text
 
-__all__ = ["CONTROL_CODES", "Line"]
+__all__ = ["CONTROL_CODES", "Line", "stripped"]
 
 CONTROL_CODES: dict[int, None] = {7: None, 8: None, 11: None, 12: None, 13: None}
 """Characters rich removes from a Text's pieces (bell, backspace, vertical tab, form feed,
 carriage return), as a ``str.translate`` table; rich's ``rich.control.strip_control_codes``."""
 
+_HAS_CONTROL = re.compile("[%s]" % "".join(map(chr, CONTROL_CODES))).search
+"""Finds a character of :data:`CONTROL_CODES` (one C scan; ``translate`` looks each
+character up in the table, a large part of a long report's time)."""
+
+
+def stripped(text: str) -> str:
+    """``text.translate(CONTROL_CODES)``: the text itself when it holds none of them."""
+    return text if _HAS_CONTROL(text) is None else text.translate(CONTROL_CODES)
+
 
 class Line:
     """``Line("G-D7", style="bold").append(": parallel")``: a Text's pieces, and its plain text."""
 
-    __slots__ = ("_first", "_style", "_pieces", "plain")
+    __slots__ = ("_texts", "_styles")
 
     def __init__(self, text: str = "", style: str = "") -> None:
-        self._first = text
-        self._style = style
-        self._pieces: list[tuple[str, str | None]] = []
-        self.plain = text.translate(CONTROL_CODES)
-        """The line's text as rich's ``Text.plain`` gives it."""
+        self._texts = [text]
+        self._styles: list[str | None] = [style]
 
     def append(self, text: str, style: str | None = None) -> "Line":
         """Add a piece, styled or not (as ``Text.append``); returns the line."""
-        self._pieces.append((text, style))
-        self.plain += text.translate(CONTROL_CODES)
+        self._texts.append(text)
+        self._styles.append(style)
         return self
+
+    @property
+    def plain(self) -> str:
+        """The line's text as rich's ``Text.plain`` gives it (the pieces joined, then
+        stripped: :data:`CONTROL_CODES` are dropped character by character, so once for the
+        whole line is the same as once per piece)."""
+        return stripped("".join(self._texts))
 
     def rich_text(self) -> "Text":
         """The rich Text built from the same pieces in the same way."""
         from rich.text import Text
 
-        text = Text(self._first, style=self._style)
-        for piece, style in self._pieces:
+        text = Text(self._texts[0], style=self._styles[0])
+        for piece, style in zip(self._texts[1:], self._styles[1:]):
             text.append(piece, style=style)
         return text
