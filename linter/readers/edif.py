@@ -164,8 +164,7 @@ def _flat_circuit(doc: Document, edif: EdifFile, plan: FlatPlan, refs: list[str]
     maker = _PartMaker(None, {}, doc)  # type: ignore[arg-type]
     slot_names, pin_counts, pins = _flat_pins(maker, plan.targets, names, pin_nets)
     firsts = plan.firsts
-    part_pins = list(map(tuple, map(pins.__getitem__,
-                                    map(slice, firsts, firsts[1:] + [len(pins)]))))
+    part_pins = list(map(pins.__getitem__, map(slice, firsts, firsts[1:] + [len(pins)])))
     del pins
     paths = [instance.name.display for instance in instances]
     parts = maker.make_many(instances, plan.targets, refs, places[:len(refs)], paths, part_pins)
@@ -175,9 +174,9 @@ def _flat_circuit(doc: Document, edif: EdifFile, plan: FlatPlan, refs: list[str]
 
 
 def _flat_pins(maker: _PartMaker, targets: list, names: list[str], pin_nets: list[int | None]
-               ) -> tuple[list[str], list[int], list[Pin]]:
+               ) -> tuple[list[str], list[int], tuple[Pin, ...]]:
     """Every pin slot's name, each part's pin count, and every slot's Pin (one object per
-    name and net, made in bulk).
+    name and net, made in bulk; a tuple, so that a part's slice of it is its pin tuple).
 
     A slot's name and net are coded as one int, ``name number + width x net number``
     (``width``: the distinct pin names; an unconnected slot has net number ``len(names)``),
@@ -202,7 +201,7 @@ def _flat_pins(maker: _PartMaker, targets: list, names: list[str], pin_nets: lis
     made = new_pins(list(map(pin_names.__getitem__, map(mod, distinct, repeat(width)))),
                     list(map(net_names.__getitem__, map(floordiv, distinct, repeat(width)))))
     pin_of = dict(zip(distinct, made))
-    return slot_names, pin_counts, list(map(pin_of.__getitem__, codes))
+    return slot_names, pin_counts, tuple(map(pin_of.__getitem__, codes))
 
 
 def _flat_nets(refs: list[str], pin_counts: list[int], slot_names: list[str],
@@ -212,11 +211,12 @@ def _flat_nets(refs: list[str], pin_counts: list[int], slot_names: list[str],
     connected = sorted(compress(range(len(pin_nets)), map(is_not, pin_nets, repeat(None))),
                        key=pin_nets.__getitem__)
     slot_refs = list(chain.from_iterable(map(repeat, refs, pin_counts)))
-    pairs = list(zip(map(slot_refs.__getitem__, connected), map(slot_names.__getitem__, connected)))
+    pairs = tuple(zip(map(slot_refs.__getitem__, connected),
+                      map(slot_names.__getitem__, connected)))  # (slices of a tuple are tuples)
     del slot_refs, connected
     sizes = Counter(pin_nets)
     bounds = list(accumulate(map(sizes.__getitem__, range(len(names))), initial=0))
-    net_pins = list(map(tuple, map(pairs.__getitem__, map(slice, bounds, bounds[1:]))))
+    net_pins = list(map(pairs.__getitem__, map(slice, bounds, bounds[1:])))
     return dict(zip(names, new_nets(names, net_pins, places)))
 
 
@@ -283,7 +283,13 @@ def _candidates(leaves: list[Leaf]) -> list[str]:
 
 def _candidates_of(instances: list[Instance]) -> list[str]:
     """Each instance's designator, else its reference property, else its name; the
-    properties are looked at once per distinct table (tables are shared between instances)."""
+    properties are looked at once per distinct table (tables are shared between instances).
+    Where no instance has a designator or a reference property, the names by one pass."""
+    if not any(map(attrgetter("designator"), instances)):
+        tables = list(map(attrgetter("properties"), instances))
+        distinct = dict(zip(map(id, tables), tables))  # the instances keep the tables alive
+        if not any(map(_property_reference, distinct.values())):
+            return list(map(attrgetter("name.display"), instances))
     by_table: dict[int, str | None] = {}  # the instances keep the tables alive: ids are unique
     found = []
     for instance in instances:

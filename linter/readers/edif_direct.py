@@ -93,6 +93,9 @@ def flat_plan(edif: EdifFile) -> FlatPlan | None:
     return FlatPlan(cell, view, instances, targets, firsts, pin_nets, nets, names)
 
 
+_DIMS, _PAIRS_OF, _JOINED = attrgetter("name.dims"), attrgetter("pairs"), attrgetter("joined")
+
+
 def _connect(nets: list[Net], view: View, own_ports: dict[str, int], targets: list[_Target],
              firsts: list[int], pin_nets: list[int | None]) -> Counter | None:
     """Fill ``pin_nets`` from the nets' port references; the count of the top cell's own
@@ -102,14 +105,13 @@ def _connect(nets: list[Net], view: View, own_ports: dict[str, int], targets: li
     has some 200,000), names case-folded once per distinct spelling; an instance named as
     it was declared is found by that spelling without folding.
     """
-    texts = []
-    for net in nets:
-        if net.name.dims:
+    if any(map(_DIMS, nets)):
+        return None
+    texts = list(map(_PAIRS_OF, nets))
+    if any(map(_JOINED, nets)):  # references kept as records: read one net at a time
+        texts = list(map(_pairs, nets))
+        if None in texts:
             return None
-        pairs = net.pairs if not net.joined else _pairs(net)
-        if pairs is None:
-            return None
-        texts.append(pairs)
     every = list(chain.from_iterable(texts))
     ports, instances = every[0::2], every[1::2]
     numbers = list(chain.from_iterable(map(repeat, range(len(texts)),
@@ -118,7 +120,7 @@ def _connect(nets: list[Net], view: View, own_ports: dict[str, int], targets: li
     port_keys = {port: port.casefold() for port in set(ports)}
     outside: Counter = Counter()
     if "" in instances:  # the top cell's own ports
-        own = [not instance for instance in instances]
+        own = list(map(not_, instances))
         own_keys = list(map(port_keys.__getitem__, compress(ports, own)))
         if not set(own_keys) <= own_ports.keys() or len(set(own_keys)) != len(own_keys):
             return None

@@ -128,9 +128,10 @@ class Document:
     def offsets_of(self, nodes: Sequence[list | int]) -> list[int]:
         """Character offsets of the ``(`` of many lists of this document (or offsets as they
         are, see :meth:`offset_of`), in one pass."""
-        if all(type(node) is int for node in nodes):
+        types = set(map(type, nodes))
+        if types <= {int}:
             return list(nodes)  # type: ignore[arg-type]
-        if any(type(node) is int for node in nodes):
+        if int in types:
             lists = [node for node in nodes if type(node) is not int]
             found = iter(self.offsets_of(lists))  # type: ignore[arg-type]
             return [node if type(node) is int else next(found) for node in nodes]  # type: ignore[misc]
