@@ -20,7 +20,9 @@ from linter import __version__
 from linter.findings import Finding
 from linter.gc_pause import paused_gc
 from linter.report.common import finding_location, ordered_findings, plain_data
+from linter.report.json_findings import _values_text
 from linter.report.json_layout import Lines, compact_json, layered_chunks
+from linter.report.lean_order import lean_ordered_findings
 from linter.report.stream import StreamingReporter
 
 if TYPE_CHECKING:
@@ -133,8 +135,13 @@ def _message(finding: Finding) -> str:
     return finding.message if not finding.fix else f"{finding.message}\nFix: {finding.fix}"
 
 
+_PLAIN_VALUES: Any = object()
+"""``values`` of :func:`_result` made from the finding's own (the plain path)."""
+
+
 def _result(finding: Finding, rule_index: int, circuit: "Circuit",
-            places: _Places) -> dict[str, Any]:
+            places: _Places, values: Any = _PLAIN_VALUES) -> dict[str, Any]:
+    """The finding's SARIF result; ``values`` stands in ``properties.values`` if given."""
     location: dict[str, Any] = {}
     where = finding_location(finding, circuit)
     if where is not None:
@@ -156,8 +163,32 @@ def _result(finding: Finding, rule_index: int, circuit: "Circuit",
     result["partialFingerprints"] = {FINGERPRINT_KEY: finding.fingerprint}
     result["properties"] = {"parts": list(finding.parts), "nets": list(finding.nets),
                             "group": finding.group, "fix": finding.fix,
-                            "values": plain_data(dict(sorted(finding.values.items())))}
+                            "values": plain_data(dict(sorted(finding.values.items())))
+                            if values is _PLAIN_VALUES else values}
     return result
+
+
+_VALUES_END = '"values": 0}}'
+"""How a result's line ends with 0 standing for its values (the last key of ``properties``,
+itself the last key of the result)."""
+
+
+def _result_line(finding: Finding, rule_index: int, circuit: "Circuit",
+                 places: _Places) -> str:
+    """``compact_json(_result(...))``. Values keyed by text and holding floats only are
+    written by :func:`~linter.report.json_findings._values_text` (their text remembered as
+    the JSON report's: keys in order, each float's ``repr``, null where not finite, which is
+    what ``plain_data`` and the encoder make of them) in the place of a 0."""
+    values = finding.values
+    if type(values) is dict and set(map(type, values)) <= _TEXT_ONLY \
+            and set(map(type, values.values())) <= _FLOAT_ONLY:
+        line = compact_json(_result(finding, rule_index, circuit, places, values=0))
+        if line.endswith(_VALUES_END):
+            return line[:-3] + _values_text(values) + "}}"
+    return compact_json(_result(finding, rule_index, circuit, places))
+
+
+_TEXT_ONLY, _FLOAT_ONLY = {str}, {float}
 
 
 def _results(findings: list[Finding], rules: list[dict[str, Any]], circuit: "Circuit",
@@ -167,6 +198,15 @@ def _results(findings: list[Finding], rules: list[dict[str, Any]], circuit: "Cir
     places = _Places(base)
     for finding in findings:
         yield _result(finding, index[finding.rule], circuit, places)
+
+
+def _result_lines(findings: list[Finding], rules: list[dict[str, Any]], circuit: "Circuit",
+                  base: Path) -> Iterator[str]:
+    """Each of :func:`_results` as one line of JSON (:func:`_result_line`)."""
+    index = {descriptor["id"]: position for position, descriptor in enumerate(rules)}
+    places = _Places(base)
+    for finding in findings:
+        yield _result_line(finding, index[finding.rule], circuit, places)
 
 
 def _log_around(rules: list[dict[str, Any]], base: Path, results: Any) -> dict[str, Any]:
@@ -205,8 +245,7 @@ class SarifReporter(StreamingReporter):
 
     def chunks(self, result: "CheckResult") -> Iterator[str]:
         base = (self.options.base_dir or Path.cwd()).resolve()
-        findings = ordered_findings(result.findings)
+        findings = lean_ordered_findings(result.findings)
         rules = _rules(findings)
-        lines = Lines(compact_json(entry)
-                      for entry in _results(findings, rules, result.circuit, base))
+        lines = Lines(_result_lines(findings, rules, result.circuit, base))
         yield from sarif_chunks(_log_around(rules, base, lines))
