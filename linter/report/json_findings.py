@@ -211,27 +211,27 @@ class _LineWriter:
             known = self.values_texts.get(id(values))
             if known is None or known[0] is not values:
                 known = self.values_texts[id(values)] = (values, _values_text(values))
-            where = None
-            if location is None and parts and self.parts_of is not None:
-                part = self.parts_of(parts[0])
-                if type(part) is Part:
-                    place = _STORED_LOCATION(part, Part)
+            if location is None and parts and self.parts_of is not None \
+                    and type(part := self.parts_of(parts[0])) is Part:
+                place = _STORED_LOCATION(part, Part)
+                if type(place) is int and (place & _FILE_MASK) < len(self.file_forms):
+                    where = self.file_forms[place & _FILE_MASK] % (
+                        place >> _LINE_SHIFT, place >> _FILE_BITS & _COLUMN_MASK)
+                else:
                     where = self._place(place) if type(place) is int else _location_text(place)
-            if where is None:
+            else:
                 where = _location_text(finding_location(finding, self.circuit))
             if nets:
                 key = "\x1f".join((rule, ",".join(sorted(parts)), ",".join(sorted(nets))))
                 nets = ", ".join(map(_TEXT, nets))
             else:  # the same key: the empty nets' text ends it
-                key = rule + "\x1f" + ",".join(sorted(parts)) + "\x1f"
+                key = f"{rule}\x1f{','.join(sorted(parts))}\x1f"
                 nets = ""
-            return "".join((
-                head, ", ".join(map(_TEXT, parts)), '], "nets": [', nets,
-                '], "group": ', "null" if group is None else _TEXT(group),
-                ', "message": ', _TEXT(message), ', "values": ', known[1],
-                ', "fix": ', "null" if fix is None else _TEXT(fix),
-                ', "fingerprint": "', _SHA256(_UTF8(key)).hexdigest()[:16],
-                '", "location": ', where, "}"))
+            return (f'{head}{", ".join(map(_TEXT, parts))}], "nets": [{nets}], "group": '
+                    f'{"null" if group is None else _TEXT(group)}, "message": {_TEXT(message)}'
+                    f', "values": {known[1]}, "fix": {"null" if fix is None else _TEXT(fix)}'
+                    f', "fingerprint": "{_SHA256(_UTF8(key)).hexdigest()[:16]}", "location": '
+                    f'{where}}}')
         except TypeError:
             return finding_line(finding, self.circuit)
 
