@@ -45,7 +45,9 @@ class ResistorOverload(Rule):
     id = "resistor-overload"
     default_severity = "error"
 
-    def check(self, context: Any) -> Iterable[Finding]:
+    def check(self, context: Any, keep: bool = True) -> Iterable[Finding]:
+        """``keep``: each template part's name-free finding pieces worked out once (False:
+        for every finding, the plain path)."""
         ambient = context.settings.ambient.max
         share = context.settings.derating.resistor_power
         allowances: dict[float, Allowance] = {}  # by rating: ambient and share are the board's
@@ -61,28 +63,54 @@ class ResistorOverload(Rule):
                 out.append((resistor, allowance, over(resistor.power.max, allowance)))
             return tuple(out)
 
+        kept: dict[int, tuple] | None = {} if keep else None
         for result, (resistor, allowance, _), ref in over_rated(context, rated):
-            yield self._finding(context, result, resistor, allowance, ref)
+            yield self._finding(context, result, resistor, allowance, kept, ref)
 
     def _finding(self, context: Any, result: GroupResult, resistor: ResistorResult,
-                 allowance: Allowance, ref: str | None = None) -> Finding:
+                 allowance: Allowance, kept: dict[int, tuple] | None = None,
+                 ref: str | None = None) -> Finding:
         """``resistor``: the record holding the figures (a follower's template's, see
         :func:`~linter.rulekit.figures_of`); ``ref`` its name in ``result``'s group
-        (default: the record's)."""
+        (default: the record's). ``kept`` (one check's): :func:`_pieces` by the record it
+        was worked out for (the followers of a template share the template's record and
+        allowance); without it (the plain path) worked out for this finding."""
         refs = figures_of(result)[1] if ref is not None else None
         ref = resistor.ref if ref is None else ref
-        power = resistor.power
-        package = f"{resistor.package}, " if resistor.package else ""
-        rating = allowance.describe(f"{package}rated")
-        message = say(ref, f"{watts(power.max)} at {at_corner(power.at_max, result, (), refs)}, "
-                           f"above the {watts(allowance.allowed_w)} allowed ({rating}); "
-                           f"{watts(power.nom)} nominal")
-        values = {**allowance.values(power.max, power.nom, "rating_w"),
-                  "current_max_a": resistor.current.max}
+        pieces = _pieces(resistor, allowance) if kept is None else _kept_pieces(
+            resistor, allowance, kept)
+        head, tail, values, before, after = pieces
+        message = say(ref, f"{head}{at_corner(resistor.power.at_max, result, (), refs)}{tail}")
         return Finding(rule=self.id, severity=context.severity(self), message=message,
-                       parts=(ref,), group=result.id, values=values,
-                       fix=_fix(ref, power.max, allowance, values),
-                       location=part_location(context, ref))
+                       parts=(ref,), group=result.id, values=dict(values),
+                       fix=f"{before}{ref}{after}", location=part_location(context, ref))
+
+
+def _kept_pieces(resistor: ResistorResult, allowance: Allowance,
+                 kept: dict[int, tuple]) -> tuple:
+    """:func:`_pieces` of the record and allowance, worked out once per record object (the
+    entry holds both, so that the id stays the record's; records are frozen)."""
+    entry = kept.get(id(resistor))
+    if entry is None or entry[0] is not resistor or entry[1] is not allowance:
+        entry = kept[id(resistor)] = (resistor, allowance, _pieces(resistor, allowance))
+    return entry[2]
+
+
+def _pieces(resistor: ResistorResult, allowance: Allowance) -> tuple:
+    """What a finding on the record says that names nothing: (message before the corner,
+    message after it, values, fix before the name, fix after it). The message is
+    ``say(ref, before + corner + after)``; the fix ``before + ref + after``, the same text
+    as :func:`_fix` (whose values it adds)."""
+    power = resistor.power
+    package = f"{resistor.package}, " if resistor.package else ""
+    rating = allowance.describe(f"{package}rated")
+    head = f"{watts(power.max)} at "
+    tail = (f", above the {watts(allowance.allowed_w)} allowed ({rating}); "
+            f"{watts(power.nom)} nominal")
+    values = {**allowance.values(power.max, power.nom, "rating_w"),
+              "current_max_a": resistor.current.max}
+    before, after = _fix_pieces(power.max, allowance, values)
+    return head, tail, values, before, after
 
 
 def _allowance(rating_w: float, ambient_c: float, share: float,
@@ -96,6 +124,20 @@ def _allowance(rating_w: float, ambient_c: float, share: float,
     if found is None:
         found = known[rating_w] = resistor_allowance(rating_w, ambient_c, share)
     return found
+
+
+def _fix_pieces(power_w: float, allowance: Allowance, values: dict) -> tuple[str, str]:
+    """:func:`_fix` as (text before the name, text after it); adds the same values."""
+    choice = resistor_rating(power_w, allowance.ambient_c, allowance.share)
+    if choice is None:
+        return (f"no resistor rating is left at {allowance.ambient_c:g} °C ambient: lower the "
+                f"current through ", " or move it off the hot area")
+    values.update(fix_rating_w=choice.rating_w, fix_count=float(choice.count),
+                  fix_allowed_w=choice.allowed_w)
+    if choice.count == 1:
+        return (f"use a {choice.text} part for ", f" ({watts(choice.allowed_w)} allowed at "
+                f"{allowance.ambient_c:g} °C)")
+    return f"{choice.text} for ", f" ({watts(choice.allowed_w)} allowed each)"
 
 
 def _fix(ref: str, power_w: float, allowance: Allowance, values: dict) -> str:

@@ -54,7 +54,9 @@ class TransistorOverload(Rule):
     id = "transistor-overload"
     default_severity = "error"
 
-    def check(self, context: Any) -> Iterable[Finding]:
+    def check(self, context: Any, keep: bool = True) -> Iterable[Finding]:
+        """``keep``: each template part's name-free finding pieces worked out once (False:
+        for every finding, the plain path)."""
         ambient = context.settings.ambient.max
         share = context.settings.derating.transistor_power
 
@@ -72,14 +74,22 @@ class TransistorOverload(Rule):
                             "pd_max" in data.assumed))
             return tuple(out)
 
+        kept: dict[int, tuple] | None = {} if keep else None
         for result, (transistor, allowance, _, generic), ref in over_rated(context, rated):
-            yield self._finding(context, result, transistor, allowance, generic, ref)
+            yield self._finding(context, result, transistor, allowance, generic, kept, ref)
 
     def _finding(self, context: Any, result: GroupResult, transistor: TransistorResult,
-                 allowance: Allowance, generic: bool, ref: str | None = None) -> Finding:
+                 allowance: Allowance, generic: bool, kept: dict[int, tuple] | None = None,
+                 ref: str | None = None) -> Finding:
         """``transistor``: the record holding the figures (a follower's template's, see
         :func:`~linter.rulekit.figures_of`); ``ref`` its name in ``result``'s group
-        (default: the record's)."""
+        (default: the record's). ``kept`` (one check's, the same ``context``):
+        :func:`_pieces` by the record it was worked out for (the followers of a template
+        share its record and allowance); without it (the plain path) the finding is
+        written from the figures."""
+        if kept is not None:
+            return self._finding_of_pieces(context, result, transistor, allowance, generic,
+                                           kept, ref)
         refs = figures_of(result)[1] if ref is not None else None
         ref = transistor.ref if ref is None else ref
         power = transistor.power
@@ -95,6 +105,55 @@ class TransistorOverload(Rule):
         return Finding(rule=self.id, severity=context.severity(self), message=message,
                        parts=(ref,), group=result.id, values=values, fix=fix,
                        location=part_location(context, ref))
+
+
+    def _finding_of_pieces(self, context: Any, result: GroupResult,
+                           transistor: TransistorResult, allowance: Allowance, generic: bool,
+                           kept: dict[int, tuple], ref: str | None) -> Finding:
+        """:meth:`_finding` from the record's :func:`_pieces`, kept in ``kept``."""
+        refs = figures_of(result)[1] if ref is not None else None
+        ref = transistor.ref if ref is None else ref
+        regulating = result.group.topology in REGULATING
+        entry = kept.get(id(transistor))
+        if (entry is None or entry[0] is not transistor or entry[1] is not allowance
+                or entry[2] is not generic or entry[3] is not regulating):
+            entry = kept[id(transistor)] = (
+                transistor, allowance, generic, regulating,
+                _pieces(context, transistor, allowance, generic, regulating))
+        head, tail, values, fix = entry[4]
+        message = say(ref, f"{head}{at_corner(transistor.power.at_max, result, (), refs)}{tail}")
+        return Finding(rule=self.id, severity=context.severity(self), message=message,
+                       parts=(ref,), group=result.id, values=dict(values), fix=ref.join(fix),
+                       location=part_location(context, ref))
+
+
+def _pieces(context: Any, transistor: TransistorResult, allowance: Allowance, generic: bool,
+            regulating: bool) -> tuple:
+    """What a finding on the record says that names nothing: (message before the corner,
+    message after it, values, the fix's texts between the places of the name). The
+    message is ``say(ref, before + corner + after)``, the fix ``ref.join(texts)``, as
+    :meth:`TransistorOverload._finding` and :func:`_fix` write them for a group whose
+    topology is (``regulating``) or is not one of :data:`REGULATING`."""
+    power = transistor.power
+    drop = "Vds" if transistor.kind in ("nmos", "pmos") else "Vce"
+    rating = allowance.describe("pd_max" + (" (generic figure)" if generic else ""))
+    head = f"{watts(power.max)} at "
+    tail = (f", above the {watts(allowance.allowed_w)} allowed ({rating}); {drop} up to "
+            f"{volts(transistor.vce.max)} at up to {amps(transistor.current.max)}")
+    values = {**allowance.values(power.max, power.nom),
+              "vce_max_v": transistor.vce.max, "current_max_a": transistor.current.max}
+    needed = allowance.rating_needed(power.max)
+    if needed is None:
+        return head, tail, values, (
+            f"no pd_max is left at {allowance.ambient_c:g} °C ambient: take the dissipation "
+            f"off ", " (a series resistor or more LEDs in the string)")
+    values["fix_pd_max_w"] = needed
+    text = f"use a transistor (package) with pd_max of at least {watts(needed)}"
+    collector = _collector_pieces(context, regulating, transistor, allowance, values)
+    if collector is None:
+        return head, tail, values, (text,)
+    first, second, third = collector
+    return head, tail, values, (first, second, f"{third}; or {text}")
 
 
 def _fix(context: Any, result: GroupResult, transistor: TransistorResult,
@@ -124,6 +183,17 @@ def _collector_resistor(context: Any, result: GroupResult, transistor: Transisto
     ref = transistor.ref if ref is None else ref
     if result.group.topology not in REGULATING or transistor.rail_min is None:
         return None
+    pieces = _collector_pieces(context, True, transistor, allowance, values)
+    return None if pieces is None else ref.join(pieces)
+
+
+def _collector_pieces(context: Any, regulating: bool, transistor: TransistorResult,
+                      allowance: Allowance, values: dict) -> tuple[str, str, str] | None:
+    """:func:`_collector_resistor` as the texts between the two places of the
+    transistor's name (``regulating``: whether the group's topology is one of
+    :data:`REGULATING`); adds the same values."""
+    if not regulating or transistor.rail_min is None:
+        return None
     power, vce = transistor.power.max, transistor.vce.max
     if not vce > 0:
         return None
@@ -135,7 +205,8 @@ def _collector_resistor(context: Any, result: GroupResult, transistor: Transisto
         return None
     values.update(fix_collector_ohms=ohms_needed, fix_rail_min_v=new_min)
     left = power - current_at_power ** 2 * ohms_needed
-    return (f"put {ohms(ohms_needed)} (E24) in series with the collector of {ref}: "
-            f"it takes {volts(current_at_power * ohms_needed)} and leaves about "
-            f"{watts(max(left, 0.0))} in {ref}; {transistor.headroom_rail} may then "
+    return (f"put {ohms(ohms_needed)} (E24) in series with the collector of ",
+            f": it takes {volts(current_at_power * ohms_needed)} and leaves about "
+            f"{watts(max(left, 0.0))} in ",
+            f"; {transistor.headroom_rail} may then "
             f"fall to {volts(new_min)} (minimum {volts(rail.min)})")
