@@ -16,14 +16,13 @@ report as one plain tree.
 
 from __future__ import annotations
 
-from itertools import repeat
 from pathlib import Path
 from typing import TYPE_CHECKING, Any, Iterable, Iterator, Mapping
 
 from linter import __version__
 from linter.gc_pause import paused_gc
 from linter.report.common import ordered_findings, plain_data, severity_counts, sorted_groups
-from linter.report.json_findings import finding_dict, finding_line
+from linter.report.json_findings import finding_dict, finding_lines
 from linter.report.json_followers import GroupLines
 from linter.report.json_layout import Lines, layered_chunks
 from linter.report.lean_order import lean_ordered_findings, lean_sorted_records
@@ -104,8 +103,7 @@ class _FindingLines:
         self.result = result
 
     def __iter__(self) -> Iterator[str]:
-        ordered = lean_ordered_findings(self.result.findings)
-        return map(finding_line, ordered, repeat(self.result.circuit, len(ordered)))
+        return finding_lines(lean_ordered_findings(self.result.findings), self.result.circuit)
 
 
 def report_layout(result: "CheckResult",
