@@ -28,7 +28,7 @@ __all__ = ["DEFAULT_TOLERANCE", "resolve", "with_resistor", "led_currents",
            "resistor_for_max", "resistor_for_min", "rail_for_min", "sub_circuit",
            "resolve_circuit", "resistor_record", "tolerance_of", "split_resistor",
            "signature", "signature_plain", "follower_signature", "remembered", "resistor_walk", "solved_walk", "forget_board",
-           "is_remembered", "remember", "ASK", "resistor_ohms"]
+           "is_remembered", "remember", "ASK", "resistor_ohms", "resistor_for_max_question"]
 
 DEFAULT_TOLERANCE = 0.05
 """Resistor tolerance (fraction) when the part data gives none (DESIGN.md: else 5 %)."""
@@ -155,10 +155,18 @@ def resistor_ohms(result: GroupResult, ref: str) -> float:
     return next(r.ohms for r in template.resistors if refs[r.ref] == ref)
 
 
+def resistor_for_max_question(ref: str, leds: tuple[str, ...], limit: float) -> tuple:
+    """The question :func:`resistor_for_max` remembers its answer under (for
+    :func:`follower_signature`)."""
+    return ("resistor_for_max", ref, leds, limit)
+
+
 def resistor_for_max(context: Any, result: GroupResult, ref: str, leds: tuple[str, ...],
-                     limit: float) -> ResistorChoice | None:
+                     limit: float, key: Any = None) -> ResistorChoice | None:
     """The smallest resistor of the series made at ``ref``'s tolerance (IEC 60063) for
-    which the solver's worst-case maximum over ``leds`` is at most ``limit`` (A)."""
+    which the solver's worst-case maximum over ``leds`` is at most ``limit`` (A).
+    ``key``: the :func:`signature` of :func:`resistor_for_max_question` when the caller
+    has it (default: worked out)."""
     def search() -> ResistorChoice | None:
         tolerance = tolerance_of(context, ref)
         series = eseries.series_for_tolerance(tolerance)
@@ -166,7 +174,8 @@ def resistor_for_max(context: Any, result: GroupResult, ref: str, leds: tuple[st
         return resistor_for_current_solved(_solver(context, result, ref, leds, series), limit,
                                            start, series=series, tolerance=tolerance,
                                            max_steps=_MAX_STEPS)
-    return remembered(context, result, ("resistor_for_max", ref, leds, limit), search)
+    return remembered(context, result, resistor_for_max_question(ref, leds, limit), search,
+                      ASK if key is None else key)
 
 
 def resistor_for_min(context: Any, result: GroupResult, ref: str, leds: tuple[str, ...],

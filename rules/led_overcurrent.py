@@ -150,8 +150,16 @@ class LedOvercurrent(Rule):
         target = min(targets)
         name = renamer(refs)
         leds = tuple(name(x.ref) for x in base.leds)
+        key = None
+        if refs is not None:  # a follower: its signature from its template's, when equal
+            asked = current_resistor(context, base)  # the same resistor in the template
+            if asked is not None:
+                key = fix_search.follower_signature(
+                    context, result, fix_search.resistor_for_max_question(ref, leds, target),
+                    fix_search.resistor_for_max_question(
+                        asked, tuple(x.ref for x in base.leds), target))
         try:
-            choice = fix_search.resistor_for_max(context, result, ref, leds, target)
+            choice = fix_search.resistor_for_max(context, result, ref, leds, target, key)
         except RuntimeError:
             return None
         if choice is None:
