@@ -9,15 +9,26 @@ held to rich by tests/test_report_text_plain.py), :func:`linter.refs.fold_refs`,
 from __future__ import annotations
 
 import sys
+from dataclasses import replace
+from pathlib import Path
+from types import MappingProxyType
 
 from hypothesis import given, settings, strategies as st
 from report_samples import sample_result
 
+from linter.engine import CheckRequest, run_check
 from linter.findings import Finding
-from linter.model import SourceLocation
+from linter.model import Circuit, Part, Pin, SourceLocation, packed_location, stored_location
 from linter.refs import fold_refs
 from linter.report import text as text_report
+from linter.report.common import finding_location
 from linter.report.text_line import CONTROL_CODES, Line, stripped
+
+ROOT = Path(__file__).resolve().parent.parent
+if str(ROOT) not in sys.path:
+    sys.path.insert(0, str(ROOT))
+
+from bench.gen_board import generate, write_all  # noqa: E402
 
 _ODD = list("ab -:\n\r\t\x00\x07\x08\x0b\x0c\x0d\x1b\x7f\u0085\u2028\u0301\u03a9\U0001f600")
 
@@ -58,6 +69,7 @@ def test_folded_is_fold_refs(parts: tuple) -> None:
 
 def test_hand_made_lists_fold_as_fold_refs() -> None:
     lists = [("D3", "D1", "D2"), ("D1", "D2"), ("D2", "D1"), ("D1", "D1"), ("D1", "D2", "D2"),
+             ("D01", "D1"), ("D1", "D01"), ("D10", "d2"),
              ("D1", "D2", "D3", "D5"), ("d1", "D1"), ("S2/R7", "S1/R7"), ("R6",), ("",)]
     for parts in lists:  # invented designators
         assert text_report._folded(parts) == fold_refs(parts)
@@ -92,6 +104,43 @@ def test_finding_text_is_the_finding_line(finding: Finding) -> None:
 
 def test_sample_findings_text_is_the_finding_line() -> None:
     result = sample_result()
+    for finding in result.findings:
+        assert text_report._finding_text(finding, result) == \
+            "".join(text_report._finding_line(finding, result)._texts)
+
+
+def _packed_circuit() -> Circuit:
+    """Invented parts: packed places in two files (one named with a colon and a tab), a
+    part without a place, one with a SourceLocation."""
+    pins = (Pin("1", "A"), Pin("2", "B"))
+    parts = [Part("R1", "resistor", "1k", pins, packed_location("a:b\tc.edif", 3, 9)),
+             Part("R2", "resistor", "1k", pins, packed_location("second.edif", 7, 2)),
+             Part("R3", "resistor", "1k", pins, None),
+             Part("R4", "resistor", "1k", pins, SourceLocation("c.edif", 5, 1)),
+             Part("U1", "mcu", None, pins, packed_location("second.edif", 11, 4))]
+    return Circuit("a.edif", "edif", {p.ref: p for p in parts}, {})
+
+
+def test_where_text_is_the_location_written() -> None:
+    circuit = _packed_circuit()
+    findings = [Finding("r", "info", "m", parts)  # invented
+                for parts in [("R1",), ("R2", "R1"), ("R3",), ("R4",), ("U1.PA4",), ("X9", "R2"),
+                              ()]]
+    findings.append(Finding("r", "info", "m", ("R1",), location=SourceLocation("d", 2, 3)))
+    for finding in findings:
+        where = finding_location(finding, circuit)
+        assert text_report._where_text(finding, circuit) == \
+            (f"{where}: " if where is not None else "")
+    proxy = replace(circuit, parts=MappingProxyType(dict(circuit.parts)))
+    assert text_report._where_text(findings[0], proxy) == "a:b\tc.edif:3:9: "
+
+
+def test_generated_board_finding_texts_are_the_finding_lines(tmp_path: Path) -> None:
+    files = write_all(generate(1500, seed=4), tmp_path / "board")
+    result = run_check(CheckRequest(netlist=files["edif"], bom=files["bom"]))
+    parts = result.circuit.parts
+    assert sum(f.location is None and bool(f.parts) and f.parts[0] in parts
+               and type(stored_location(parts[f.parts[0]])) is int for f in result.findings) > 10
     for finding in result.findings:
         assert text_report._finding_text(finding, result) == \
             "".join(text_report._finding_line(finding, result)._texts)

@@ -16,8 +16,10 @@ from typing import TYPE_CHECKING, Any, Callable, Iterator, Mapping
 
 from linter.findings import SEVERITIES, Finding
 from linter.gc_pause import paused_gc
-from linter.refs import MIN_RUN, fold_refs, natural_sorted
+from linter.refs import MIN_RUN, fold_refs, natural_key
 from linter.results import GroupResult
+from linter import model
+from linter.model import _PLACE_FILES, Part, stored_location_getter
 from linter.report.common import finding_location, group_entry, plain_data, severity_counts
 from linter.report.lean_order import lean_ordered_findings, lean_sorted_records
 from linter.report.stream import StreamingReporter
@@ -31,6 +33,7 @@ if TYPE_CHECKING:
     from rich.table import Table
 
     from linter.engine import CheckResult
+    from linter.model import Circuit
 
 __all__ = ["TextReporter", "REPORT_WIDTH", "UNKNOWN", "PIECE_CHARS", "shown_entry"]
 
@@ -80,7 +83,13 @@ def _folded(parts: tuple[str, ...]) -> str:
     fold, so they are only put in natural order (one name is itself)."""
     if len(parts) >= MIN_RUN:
         return fold_refs(parts)
-    return parts[0] if len(parts) == 1 else ", ".join(natural_sorted(parts))
+    if len(parts) == 1:
+        return parts[0]
+    first, second = parts
+    if first == second:
+        return first
+    return f"{first}, {second}" if natural_key(first) < natural_key(second) else \
+        f"{second}, {first}"
 
 
 def _finding_line(finding: Finding, result: "CheckResult") -> Line:
@@ -97,11 +106,31 @@ def _finding_line(finding: Finding, result: "CheckResult") -> Line:
 
 def _finding_text(finding: Finding, result: "CheckResult") -> str:
     """The pieces of :func:`_finding_line` joined (its ``plain`` before stripping)."""
-    where = finding_location(finding, result.circuit)
     parts = finding.parts
-    return "".join((f"{where}: " if where is not None else "", finding.severity, " ",
+    return "".join((_where_text(finding, result.circuit), finding.severity, " ",
                     finding.rule, f" [{_folded(parts)}]" if parts else "",
                     f": {finding.message}"))
+
+
+_STORED_LOCATION = stored_location_getter(Part)
+_FILE_BITS, _FILE_MASK, _COLUMN_MASK = model._FILE_BITS, model._FILE_MASK, model._COLUMN_MASK
+_LINE_SHIFT = model._FILE_BITS + model._COLUMN_BITS
+
+
+def _where_text(finding: Finding, circuit: "Circuit") -> str:
+    """``f"{finding_location(finding, circuit)}: "``, empty where there is none. A finding
+    without its own location whose first part has a packed place: written from the place's
+    file, line and column (``SourceLocation.__str__``) without making the SourceLocation."""
+    parts = finding.parts
+    if finding.location is None and parts and type(circuit.parts) is dict:
+        part = circuit.parts.get(parts[0])
+        if type(part) is Part:
+            place = _STORED_LOCATION(part, Part)
+            if type(place) is int:
+                return (f"{_PLACE_FILES[place & _FILE_MASK]}:{place >> _LINE_SHIFT}:"
+                        f"{place >> _FILE_BITS & _COLUMN_MASK}: ")
+    where = finding_location(finding, circuit)
+    return f"{where}: " if where is not None else ""
 
 
 def _fix_line(fix: str) -> Line:
