@@ -370,13 +370,20 @@ _NO_PROPERTIES: dict[str, str] = {}
 _DIGITS = "0123456789"
 
 
+def _stem(ref: str) -> str:
+    """What of a reference decides its kind for :func:`linter.kinds.infer_kind`: its last
+    path element without the final digits (``S2/LED10`` -> ``LED``)."""
+    return ref.rpartition("/")[2].rstrip(_DIGITS)
+
+
 class _PartMaker:
     """Parts of one design. Parts whose cell, view and instance properties are the same
     objects share their property reading (and its dictionary, never changed); pins with the
     same name and net, and equal values, are one object each. A part's kind and value reading
-    are worked out once per property reading and reference stem (the reference without its
-    final digits: :func:`linter.kinds.infer_kind` reads only the letters that start its last
-    path element, which the stem fixes)."""
+    are worked out once per property reading and reference stem (the last path element of the
+    reference without its final digits: :func:`linter.kinds.infer_kind` reads only the
+    letters that start that element, which the stem fixes; ``S2/R7`` and ``S3/R9`` share the
+    stem ``R``)."""
 
     def __init__(self, flat: FlatDesign, net_names: dict[int, str], doc: Document) -> None:
         self.flat, self.net_names, self.doc = flat, net_names, doc
@@ -406,7 +413,7 @@ class _PartMaker:
         """What the part's fields are (kind, value, ohms, problem, cell, part number and
         properties), worked out once per property reading and reference stem."""
         key = (id(cell), id(view), id(instance.properties))
-        stem = ref.rstrip(_DIGITS)
+        stem = _stem(ref)
         known = self.kinds.get((stem, key))
         if known is None:
             fields = self.fields.get(key)
@@ -431,7 +438,10 @@ class _PartMaker:
         """:meth:`make` of many parts (instance ``i`` placing ``targets[i]``'s cell view) by
         built-in passes: each distinct reading is worked out once, from the first part that
         has it; the first part whose reading is a problem is refused, as :meth:`make` would."""
-        keys = zip(map(str.rstrip, refs, repeat(_DIGITS)), map(id, targets),
+        stems = map(str.rstrip, refs, repeat(_DIGITS))
+        if any(map(str.__contains__, refs, repeat("/"))):  # paths: the last element's stem
+            stems = map(_stem, refs)
+        keys = zip(stems, map(id, targets),
                    map(id, map(attrgetter("properties"), instances)))
         first: dict[tuple[str, int, int], int] = {}
         firsts = list(map(first.setdefault, keys, range(len(refs))))  # the first with its key
