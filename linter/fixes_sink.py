@@ -115,8 +115,10 @@ def _emitter_target(v_reference: float, headroom_v: float, vbe: float) -> float:
     return max(min(wanted, headroom_v), EMITTER_V_FLOOR)
 
 
+@lru_cache(maxsize=1024)
 def _coarseness(ohms: float) -> int:
-    """0 for an E6 value, 1 for E12, 2 for E24: coarser series are easier to stock."""
+    """0 for an E6 value, 1 for E12, 2 for E24: coarser series are easier to stock.
+    Remembered by value (a divider grid asks the same E24 values again and again)."""
     for rank, series in enumerate(("E6", "E12")):
         if eseries.is_standard(ohms, series):
             return rank
@@ -194,7 +196,25 @@ def _thevenin(v_reference: float, top: float, bottom: float) -> tuple[float, flo
     return v_reference * bottom / (top + bottom), top * bottom / (top + bottom)
 
 
+_FIGURES: dict[int, tuple[BjtData | None, tuple[BjtData, tuple[str, ...]]]] = {}
+_FIGURES_KEPT = 256
+"""Transistor records whose :func:`_figures` are kept (by identity; records are frozen)."""
+
+
 def _figures(transistor: BjtData | None) -> tuple[BjtData, tuple[str, ...]]:
+    """:func:`_figures_plain` of the record, worked out once per record object (a sink
+    search designs several sinks with one transistor; the answer is read only)."""
+    entry = _FIGURES.get(id(transistor))
+    if entry is not None and entry[0] is transistor:
+        return entry[1]
+    answer = _figures_plain(transistor)
+    if len(_FIGURES) >= _FIGURES_KEPT:
+        _FIGURES.clear()
+    _FIGURES[id(transistor)] = (transistor, answer)
+    return answer
+
+
+def _figures_plain(transistor: BjtData | None) -> tuple[BjtData, tuple[str, ...]]:
     """The transistor's figures, generic ones filling the gaps; and the names filled."""
     given = transistor or GENERIC_NPN
     if given.polarity != "npn":
