@@ -155,7 +155,7 @@ def _flat_circuit(doc: Document, edif: EdifFile, plan: FlatPlan, refs: list[str]
     """
     design = edif.design.name.display if edif.design is not None else ""
     instances, names, pin_nets = plan.instances, plan.names, plan.pin_nets
-    forms = [instance.form for instance in instances] + [net.form for net in plan.nets]
+    forms = [*map(_FORM, instances), *map(_FORM, plan.nets)]
     plan.instances = plan.nets = []  # type: ignore[assignment]  # the net records can go
     _release_instances(edif)
     del edif
@@ -166,11 +166,14 @@ def _flat_circuit(doc: Document, edif: EdifFile, plan: FlatPlan, refs: list[str]
     firsts = plan.firsts
     part_pins = list(map(pins.__getitem__, map(slice, firsts, firsts[1:] + [len(pins)])))
     del pins
-    paths = [instance.name.display for instance in instances]
+    paths = list(map(_DISPLAY, instances))
     parts = maker.make_many(instances, plan.targets, refs, places[:len(refs)], paths, part_pins)
     del paths, instances, part_pins
     nets = _flat_nets(refs, pin_counts, slot_names, pin_nets, names, places[len(refs):])
     return Circuit(source=doc.source, format="edif", parts=parts, nets=nets, design=design)
+
+
+_FORM, _DISPLAY = attrgetter("form"), attrgetter("name.display")
 
 
 def _flat_pins(maker: _PartMaker, targets: list, names: list[str], pin_nets: list[int | None]

@@ -178,10 +178,10 @@ class EdifCompounds:
                 name = Name(ident.casefold(), ident[1:] if ident[0] == "&" else ident)
             else:
                 name = Name(renamed.casefold(), decode_string(display))
-            found = tables(items) or properties_of(items)
+            designator, properties = tables(items) or properties_of(items)
             reference = (library, cell, view)
-            shared = references(reference) or shared_reference(reference)
-            return Instance(name, *shared, *found, match.start(1))
+            library, cell, view = references(reference) or shared_reference(reference)
+            return Instance(name, library, cell, view, designator, properties, match.start(1))
 
         return instance
 

@@ -84,7 +84,7 @@ def flat_plan(edif: EdifFile) -> FlatPlan | None:
     connections = _connect(nets, view, flattener.scalar_ports(view), targets, firsts, pin_nets)
     if connections is None:
         return None
-    names = [net.name.display for net in nets]
+    names = list(map(attrgetter("name.display"), nets))
     if len(set(names)) != len(names):
         return None
     connections.update(pin_nets)
