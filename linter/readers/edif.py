@@ -136,9 +136,9 @@ def _flat_refs(instances: list[Instance]) -> list[str] | None:
     """:func:`_part_refs` of a flat design's parts (a leaf's path is its instance name), or
     None where two would be equal (the plain road refuses that, located)."""
     candidates = _candidates_of(instances)
-    counts = Counter(candidates)
-    if len(counts) == len(candidates):
+    if len(set(candidates)) == len(candidates):
         return candidates
+    counts = Counter(candidates)
     refs = [c if counts[c] == 1 else instance.name.display
             for c, instance in zip(candidates, instances)]
     return refs if len(set(refs)) == len(refs) else None

@@ -8,8 +8,8 @@ located message rather than skipped, so a connection is never silently lost.
 
 from __future__ import annotations
 
-from itertools import islice
-from operator import attrgetter
+from itertools import compress, islice, repeat
+from operator import attrgetter, is_
 
 from linter.readers.edif_syntax import (
     Cell, Design, EdifFile, Instance, Library, Name, Net, Port, PortRef, View, _child,
@@ -88,10 +88,11 @@ def read_view(reader: FormReader, form: list, cell: Name) -> View:
     if contents is not None and _records_only(contents):
         # every instance and net read whole: taken by built-in passes when no name repeats
         # (the loop below is the twin: tests/test_edif_compound.py reads both ways)
-        placed = [item for item in contents if type(item) is Instance]
+        types = list(map(type, contents))
+        placed = list(compress(contents, map(is_, types, repeat(Instance))))
         instances = dict(zip(map(_KEY, placed), placed))
         if len(instances) == len(placed):
-            nets = [item for item in contents if type(item) is Net]
+            nets = list(compress(contents, map(is_, types, repeat(Net))))
             return View(name, ports, instances, nets, reader.properties(form), True, form)
         instances = {}
     for item in contents or ():
