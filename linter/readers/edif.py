@@ -173,7 +173,7 @@ def _flat_circuit(doc: Document, edif: EdifFile, plan: FlatPlan, refs: list[str]
     return Circuit(source=doc.source, format="edif", parts=parts, nets=nets, design=design)
 
 
-_FORM, _DISPLAY = attrgetter("form"), attrgetter("name.display")
+_FORM, _DISPLAY, _VIEW = attrgetter("form"), attrgetter("name.display"), attrgetter("view")
 
 
 def _flat_pins(maker: _PartMaker, targets: list, names: list[str], pin_nets: list[int | None]
@@ -185,7 +185,7 @@ def _flat_pins(maker: _PartMaker, targets: list, names: list[str], pin_nets: lis
     (``width``: the distinct pin names; an unconnected slot has net number ``len(names)``),
     so that equal pins are found by ints, without a tuple per slot.
     """
-    views = list(map(attrgetter("view"), targets))
+    views = list(map(_VIEW, targets))
     view_ids = list(map(id, views))  # (the views are alive: ids are unique)
     numbers: dict[str, int] = {}
     names_of, codes_of = {}, {}
@@ -224,14 +224,50 @@ def _flat_nets(refs: list[str], pin_counts: list[int], slot_names: list[str],
 
 
 def _parts(leaves: list[Leaf], refs: list[str], places: list[SourceLocation], flat: FlatDesign,
-           net_names: dict[int, str], doc: Document) -> dict[str, Part]:
-    """Parts by reference; each leaf is let go of once its part is made."""
-    make = _PartMaker(flat, net_names, doc).part
+           net_names: dict[int, str], doc: Document, bulk_pins: bool = True) -> dict[str, Part]:
+    """Parts by reference; each leaf is let go of once its part is made. Their pins are made
+    for all parts at once (:func:`_leaf_pins`) when ``bulk_pins`` is set, else part by part
+    (:meth:`_PartMaker.pins_of`, the plain twin)."""
+    maker = _PartMaker(flat, net_names, doc)
+    make = maker.part
+    pins = _leaf_pins(maker, leaves, flat, net_names) if bulk_pins else None
     parts = {}
     for index, (ref, place) in enumerate(zip(refs, places)):
-        parts[ref] = make(leaves[index], ref, place)
+        parts[ref] = make(leaves[index], ref, place, pins[index] if pins else None)
         leaves[index] = None  # type: ignore[call-overload]  # its instance record can go
     return parts
+
+
+_ROUNDS = 8
+"""Rounds of :func:`_leaf_pins` taking every pin node one step up its union–find tree, after
+which the nodes not yet at a root are found one by one (after the net names are chosen the
+deepest pin sits 5 steps below its root on a generated 100,000-part hierarchical board)."""
+
+
+def _leaf_pins(maker: _PartMaker, leaves: list[Leaf], flat: FlatDesign,
+               net_names: dict[int, str]) -> list[tuple[Pin, ...]]:
+    """Each leaf's pins, as :meth:`_PartMaker.pins_of` makes them (one object per name and
+    net), for all leaves at once: every pin node taken up its tree by built-in passes, a
+    round a step, until all stand on their roots (``flat.parent`` is left as it is)."""
+    views = list(map(_VIEW, leaves))
+    sizes = {id(view): len(maker.view_pin_names(view)) for view in views}
+    counts = list(map(sizes.__getitem__, map(id, views)))
+    del views
+    starts = list(map(attrgetter("pins"), leaves))
+    roots = list(chain.from_iterable(map(range, starts, map(add, starts, counts))))
+    parent = flat.parent
+    for _ in range(_ROUNDS):
+        higher = list(map(parent.__getitem__, roots))
+        if higher == roots:
+            break
+        roots = higher
+    else:  # deeper trees: the rest of the way one by one
+        roots = list(map(flat.find, roots))
+    numbers = {root: number for number, root in enumerate(net_names)}
+    _, _, pins = _flat_pins(maker, leaves, list(net_names.values()),
+                            list(map(numbers.get, roots)))
+    firsts = list(accumulate(counts, initial=0))
+    return list(map(pins.__getitem__, map(slice, firsts, firsts[1:])))
 
 
 def _release_instances(edif: EdifFile) -> None:
@@ -397,10 +433,13 @@ class _PartMaker:
         self.names: dict[int, tuple[str, ...]] = {}
         self.kept: list[object] = []  # what the ids above name, kept alive: ids stay unique
 
-    def part(self, leaf: Leaf, ref: str, location: SourceLocation) -> Part:
+    def part(self, leaf: Leaf, ref: str, location: SourceLocation,
+             pins: tuple[Pin, ...] | None = None) -> Part:
+        """The leaf's part; its ``pins`` made here unless given (as :meth:`pins_of` makes them)."""
         instance = leaf.instance
         path = "/".join(leaf.names) if leaf.parents else instance.name.display
-        return self.make(instance, leaf.cell, leaf.view, ref, location, path, self.pins_of(leaf))
+        return self.make(instance, leaf.cell, leaf.view, ref, location, path,
+                         self.pins_of(leaf) if pins is None else pins)
 
     def make(self, instance: Instance, cell: Cell, view: View, ref: str,
              location: SourceLocation, path: str, pins: tuple[Pin, ...]) -> Part:
