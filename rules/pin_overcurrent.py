@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from operator import attrgetter
 from typing import Any, Iterable
 
 from linter import eseries, fix_search
@@ -59,8 +60,8 @@ class PinOvercurrent(Rule):
                                              base.pins))
         for result, (over, pins) in flagged(context, verdicts):  # groups with pins
             # the pins' ids: a follower's its own drives' (as many as _pins pairs up)
-            ids = [pin.id for pin in pins] if result.origin is None else [
-                drive.id for drive, _ in zip(result.group.pins, pins)]
+            ids = list(map(_ID, pins if result.origin is None
+                           else result.group.pins[:len(pins)]))
             for index in over:
                 if index < len(ids):
                     yield self._pin_finding(context, result, _pin(result, index))
@@ -118,6 +119,9 @@ class PinOvercurrent(Rule):
                        values=values, fix=fix, location=part_location(context, part))
 
 
+_ID = attrgetter("id")
+
+
 def _package_over(context: Any, part: str, currents: list[Any]) -> bool:
     """Whether :meth:`PinOvercurrent._package_finding` gives a finding for ``part`` whose
     pins' spans are ``currents`` (in order): its package rating is known and the pins'
@@ -141,6 +145,8 @@ def _largest_pin_per_part(result: GroupResult) -> dict[str, PinResult]:
 def _largest_per_part(ids: list[str], pins: tuple[PinResult, ...]) -> dict[str, int]:
     """:func:`_largest_pin_per_part` as positions: ``ids`` the group's pin ids, ``pins``
     the records holding their figures (a follower's template's), in the same order."""
+    if len(ids) == 1:  # one pin: the largest of its part
+        return {ids[0].split(".", 1)[0]: 0}
     largest: dict[str, int] = {}
     for index, pin_id in enumerate(ids):
         part = pin_id.split(".", 1)[0]
