@@ -10,7 +10,11 @@ loops, into one flat tuple per group:
   equal numbers exactly for equal keys;
 * a rail net is a negative number (its place in the ``rails`` mapping), an unconnected pin
   -1, a plain net the count of plain nets before its first appearance;
-* every variable-length piece comes after its length, so the flat tuple splits one way only.
+* every variable-length piece comes after its length (or is a tuple of its own), so the
+  flat tuple splits one way only;
+* a driving microcontroller's data number and supply pins are read once per reference; when
+  every supply pin is on a rail or unconnected, the coded pins are kept as they are the same
+  in every group, else their nets are numbered in each group (tests/test_key_tables_supply.py).
 
 Two groups of one analysis get equal keys exactly when
 :func:`~linter.group_key.group_key_plain` gives them equal keys, and the references come in
@@ -24,6 +28,7 @@ TypeError (the analysis then builds that group on its own).
 from __future__ import annotations
 
 from itertools import count
+from operator import attrgetter
 from typing import Any, Mapping
 
 from linter.group_key import DataKeys
@@ -35,6 +40,7 @@ from linter.partdata import PartDataMap, Rail
 __all__ = ["GroupKeys"]
 
 _JOINING = frozenset(("link", "inductor"))
+_ID = attrgetter("id")
 
 
 def _names(texts: tuple, index_get: Any) -> tuple:
@@ -61,6 +67,7 @@ class GroupKeys:
         self._kept: list[Any] = []   # those objects (so that their ids are not reused)
         self._getters = (circuit.parts.get, part_data.get, self._data_codes.get,
                          self._model_codes.get)
+        self._supplies: dict[str, tuple[int, Any, bool]] = {}   # see _supply
         self._base: dict[str | None, int] = {None: -1}
         for name, rail in rails.items():
             if rail is not None:
@@ -90,26 +97,32 @@ class GroupKeys:
         """(key, refs) of ``group``: keys equal exactly when
         :func:`~linter.group_key.group_key_plain`'s are; ``refs`` as it gives them.
 
-        The key is one flat tuple, each variable-length piece after its length:
-        topology, group rails, the parts (then the string ends outside them) each as
-        :meth:`_read` writes it, the drives, the strings, the scenarios, the setter. Written
-        as plain loops: for the few parts, pins and strings of one group they cost less than
-        the iterators of bulk calls."""
+        The key is one flat tuple: topology, group rails, the number of parts, the parts
+        (then the string ends outside them) each as :meth:`_read` writes it, the number of
+        those ends, the drives, the strings' names, then per scenario its name, pin levels
+        and LEDs lit, and last the setter. Written as plain loops: for the few parts, pins
+        and strings of one group they cost less than the iterators of bulk calls; a tuple
+        of names that is the very object of a string already coded is not coded again."""
         codes = self._base.copy()
         parts = group.parts
-        strings = group.strings
         out: list = [group.topology, group.rails, len(parts)]
         self._read(parts, out, codes)
         index = dict(zip(parts, count()))
         same = len(index) == len(parts)   # (then, unless more are added, refs is ``parts``)
         if not same:   # a reference named twice: numbered where first met
             index = dict(zip(dict.fromkeys(parts), count()))
-        extra = ()
-        for string in strings:
-            if string and (string[0] not in index or string[-1] not in index):
-                extra = [ref for ref in dict.fromkeys(
-                    [s[i] for s in strings if s for i in (0, -1)]) if ref not in index]
+        index_get = index.get
+        strings = group.strings
+        named = [tuple(map(index_get, string)) for string in strings]
+        whole = True   # every string names only the group's parts
+        for coded in named:
+            if None in coded:
+                whole = False
                 break
+        extra = ()
+        if not whole:
+            extra = [ref for ref in dict.fromkeys(
+                [s[i] for s in strings if s for i in (0, -1)]) if ref not in index]
         out.append(len(extra))
         if extra:
             self._read(extra, out, codes)
@@ -119,28 +132,22 @@ class GroupKeys:
         pin_ids: dict[str, int] = {}
         ids: list[str] = []
         if pins:
-            ids = [drive.id for drive in pins]
+            ids = list(map(_ID, pins))
             for pin_id in ids:
                 pin_ids.setdefault(pin_id, len(pin_ids))
             out.append(self._drives(pins, ids, pin_ids, index, codes))
         else:
             out.append(())
-        index_get = index.get
+        if not whole:   # strings named again: string ends and drives are numbered now
+            named = [_names(string, index_get) for string in strings]
+        out.append(tuple(named))
+        first = strings[0] if strings else None
         append = out.append
-        append(len(strings))
-        for string in strings:
-            append(len(string))
-            for led in string:
-                code = index_get(led)
-                append(("l", led) if code is None else code)
-        scenarios = group.scenarios
-        append(len(scenarios))
-        for scenario in scenarios:
+        for scenario in group.scenarios:
             lit = scenario.lit
             if lit is not None:
-                lit = _names(lit, index_get)
-            levels = scenario.levels
-            append((scenario.name, tuple([levels.get(i) for i in ids]), lit))
+                lit = named[0] if lit is first else _names(lit, index_get)
+            append((scenario.name, tuple(map(scenario.levels.get, ids)) if ids else (), lit))
         setter = group.setter
         if setter in pin_ids:
             append(("p", pin_ids[setter]))
@@ -153,9 +160,11 @@ class GroupKeys:
         """Append each part to ``out``: None when the circuit lacks it; else its kind, then,
         for a modelled kind, its value, part number, model and data numbers, number of pins
         and each pin's name and net code; for a link or inductor, its number of pins and
-        each pin's net code. New plain nets are numbered in ``codes`` on."""
+        each pin's net code. New plain nets are numbered in ``codes`` on (the next number
+        is ``len(codes) - base``; a two-pin part is written as one tuple, its pins coded
+        left to right)."""
         parts_get, data_get, data_codes, model_codes = self._getters
-        codes_get = codes.get
+        setdefault = codes.setdefault
         base = len(self._base)
         append = out.append
         for ref in refs:
@@ -177,23 +186,21 @@ class GroupKeys:
                 else:
                     model_code = None
                 pins = part.pins
-                out += (kind, part.value_si, part.part_number, model_code, data_code,
-                        len(pins))
-                for pin in pins:
-                    net = pin.net
-                    code = codes_get(net)
-                    if code is None:
-                        code = codes[net] = len(codes) - base
-                    out += (pin.name, code)
+                if len(pins) == 2:
+                    one, two = pins
+                    out += (kind, part.value_si, part.part_number, model_code, data_code, 2,
+                            one.name, setdefault(one.net, len(codes) - base),
+                            two.name, setdefault(two.net, len(codes) - base))
+                else:
+                    out += (kind, part.value_si, part.part_number, model_code, data_code,
+                            len(pins))
+                    for pin in pins:
+                        out += (pin.name, setdefault(pin.net, len(codes) - base))
             elif kind in _JOINING:
                 pins = part.pins
                 out += (kind, len(pins))
                 for pin in pins:
-                    net = pin.net
-                    code = codes_get(net)
-                    if code is None:
-                        code = codes[net] = len(codes) - base
-                    append(code)
+                    append(setdefault(pin.net, len(codes) - base))
             else:
                 append(kind)
 
@@ -203,24 +210,40 @@ class GroupKeys:
         number, which pin id, its net, the part's data and supply pins' names and nets);
         new references and nets are numbered on."""
         base = len(self._base)
-
-        def net(name: str | None) -> int:
-            code = codes.get(name)
-            if code is None:
-                code = codes[name] = len(codes) - base
-            return code
-
-        parts_get = self._circuit.parts.get
-        data_get = self._part_data.get
+        setdefault = codes.setdefault
+        supplies = self._supplies
         made = []
         for drive, pin_id in zip(pins, ids):
             ref = drive.part
-            data = data_get(ref)
-            part = parts_get(ref)
-            supply = None if part is None else tuple(
-                [(name, net(pin_net)) for name, pin_net in self._keys.supply_pins(part, data)])
+            found = supplies.get(ref)
+            if found is None:
+                found = self._supply(ref)
+            data_code, supply, fixed = found
+            if not fixed:   # a supply pin on a plain net: numbered in this group
+                supply = tuple([(name, setdefault(net, len(codes) - base))
+                                for name, net in supply])
             if ref not in index:
                 index[ref] = len(index)
-            made.append((index[ref], pin_ids[pin_id], net(drive.net), self._data_code(data),
-                         supply))
+            made.append((index[ref], pin_ids[pin_id], setdefault(drive.net, len(codes) - base),
+                         data_code, supply))
         return tuple(made)
+
+    def _supply(self, ref: str) -> tuple[int, Any, bool]:
+        """(data number, supply pins, whether their nets are all rails or unconnected) of
+        driving part ``ref``: the supply pins as (name, net code) pairs when they are (the
+        same in every group), else as (name, net) pairs; None when the circuit lacks the
+        part. Remembered per reference."""
+        data = self._part_data.get(ref)
+        part = self._circuit.parts.get(ref)
+        data_code = self._data_code(data)
+        if part is None:
+            found = (data_code, None, True)
+        else:
+            pairs = self._keys.supply_pins(part, data)
+            fixed = self._base
+            if all(net in fixed for _, net in pairs):
+                found = (data_code, tuple([(name, fixed[net]) for name, net in pairs]), True)
+            else:
+                found = (data_code, pairs, False)
+        self._supplies[ref] = found
+        return found
