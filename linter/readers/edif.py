@@ -169,7 +169,8 @@ def _flat_circuit(doc: Document, edif: EdifFile, plan: FlatPlan, refs: list[str]
     paths = list(map(_DISPLAY, instances))
     parts = maker.make_many(instances, plan.targets, refs, places[:len(refs)], paths, part_pins)
     del paths, instances, part_pins
-    nets = _flat_nets(refs, pin_counts, slot_names, pin_nets, names, places[len(refs):])
+    nets = _flat_nets(refs, pin_counts, slot_names, pin_nets, names, places[len(refs):],
+                      plan.sizes)
     return Circuit(source=doc.source, format="edif", parts=parts, nets=nets, design=design)
 
 
@@ -208,16 +209,17 @@ def _flat_pins(maker: _PartMaker, targets: list, names: list[str], pin_nets: lis
 
 
 def _flat_nets(refs: list[str], pin_counts: list[int], slot_names: list[str],
-               pin_nets: list[int | None], names: list[str], places: list) -> dict[str, Net]:
+               pin_nets: list[int | None], names: list[str], places: list,
+               sizes: Counter) -> dict[str, Net]:
     """Nets by name in declaration order, each with its (part, pin) pairs in part and pin
-    order: the connected slots sorted by net (a stable sort keeps slot order within a net)."""
+    order: the connected slots sorted by net (a stable sort keeps slot order within a net),
+    ``sizes[n]`` of them on net ``n``."""
     connected = sorted(compress(range(len(pin_nets)), map(is_not, pin_nets, repeat(None))),
                        key=pin_nets.__getitem__)
     slot_refs = list(chain.from_iterable(map(repeat, refs, pin_counts)))
     pairs = tuple(zip(map(slot_refs.__getitem__, connected),
                       map(slot_names.__getitem__, connected)))  # (slices of a tuple are tuples)
     del slot_refs, connected
-    sizes = Counter(pin_nets)
     bounds = list(accumulate(map(sizes.__getitem__, range(len(names))), initial=0))
     net_pins = list(map(pairs.__getitem__, map(slice, bounds, bounds[1:])))
     return dict(zip(names, new_nets(names, net_pins, places)))

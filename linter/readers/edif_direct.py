@@ -27,7 +27,7 @@ from __future__ import annotations
 from collections import Counter
 from dataclasses import dataclass
 from itertools import accumulate, chain, compress, count, repeat
-from operator import attrgetter, eq, floordiv, is_, not_
+from operator import add, attrgetter, eq, floordiv, is_, not_
 
 from linter.errors import NetlistError
 from linter.limits import active
@@ -43,7 +43,8 @@ class FlatPlan:
 
     ``instances`` and ``targets`` are the top view's instances in order and what each places;
     the pins of instance ``i`` are slots ``firsts[i]`` onward of ``pin_nets`` (its view's
-    ports in order), each holding the number of the net it is on (in ``nets``) or None.
+    ports in order), each holding the number of the net it is on (in ``nets``) or None;
+    ``sizes`` counts the pins on each net number (and the unconnected ones under None).
     """
 
     cell: Cell
@@ -54,6 +55,7 @@ class FlatPlan:
     pin_nets: list[int | None]
     nets: list[Net]
     names: list[str]
+    sizes: Counter
 
 
 def flat_plan(edif: EdifFile) -> FlatPlan | None:
@@ -87,10 +89,12 @@ def flat_plan(edif: EdifFile) -> FlatPlan | None:
     names = list(map(attrgetter("name.display"), nets))
     if len(set(names)) != len(names):
         return None
-    connections.update(pin_nets)
-    if min(map(connections.__getitem__, range(len(nets))), default=2) < 2:
+    sizes = Counter(pin_nets)
+    numbers = range(len(nets))  # each net's pins and the top cell's own ports on it
+    if min(map(add, map(sizes.__getitem__, numbers), map(connections.__getitem__, numbers)),
+           default=2) < 2:
         return None
-    return FlatPlan(cell, view, instances, targets, firsts, pin_nets, nets, names)
+    return FlatPlan(cell, view, instances, targets, firsts, pin_nets, nets, names, sizes)
 
 
 _DIMS, _PAIRS_OF, _JOINED = attrgetter("name.dims"), attrgetter("pairs"), attrgetter("joined")
