@@ -5,6 +5,7 @@ from __future__ import annotations
 import math
 import struct
 from dataclasses import dataclass
+from operator import attrgetter
 from typing import Any, Iterable
 
 from linter.config import RuleOption
@@ -137,7 +138,9 @@ class StringHeadroom(Rule):
         ref = name(worst.ref)
         group = result.group
         setter = group.setter
-        string = next(s for s in group.strings if ref in s)
+        strings = group.strings
+        string = (strings[0] if len(strings) == 1 and ref in strings[0]  # (the only one)
+                  else next(s for s in strings if ref in s))
         label = ref if len(string) == 1 else f"{string[0]}–{string[-1]}"
         current = worst.current
         low_at, high_at = swing.low_at, swing.high_at
@@ -152,7 +155,8 @@ class StringHeadroom(Rule):
             severity = context.severity(self)
         # the swing's values are shared by the template's followers: no one changes them
         return Finding(rule=self.id, severity=severity, message=text,
-                       parts=(*(name(leds[i].ref) for i in swing.swinging), setter),
+                       parts=(*map(name, map(_REF, map(leds.__getitem__, swing.swinging))),
+                              setter),
                        group=result.id, values=swing.values, fix=fix)
 
     def _swing_of(self, context: Any, result: GroupResult, limit: float,
@@ -317,6 +321,7 @@ class Swing:
     fix: FixAnswer | None
 
 
+_REF = attrgetter("ref")
 _PACK = struct.Struct("<12d").pack
 _ANSWERS_KEPT = 4096
 """Fix answers kept (by their question's key), all dropped when full."""
