@@ -8,8 +8,8 @@ from linter.findings import Finding
 from linter.fixes_sink import EMITTER_V_FLOOR
 from linter.partdata import Rail
 from linter.results import GroupResult, TransistorResult
-from linter.rulekit import (amps, at_corner, bjt_data, figures_of, ohms, renamer, say,
-                            sink_design, solved_groups, volts)
+from linter.rulekit import (PerTemplate, amps, at_corner, bjt_data, figures_of, flagged, ohms,
+                            renamer, say, sink_design, solved_groups, volts)
 from linter.rules import Rule, register
 from linter.rules.string_headroom import reference_rail
 
@@ -53,8 +53,16 @@ class SinkCompliance(Rule):
     id = "sink-compliance"
     default_severity = "error"
 
-    def check(self, context: Any) -> Iterable[Finding]:
-        for result in solved_groups(context):
+    def check(self, context: Any, by_template: bool = True) -> Iterable[Finding]:
+        """``by_template``: only the groups whose template has a transistor out of
+        regulation at a known rail (:func:`_may_leave`, the loop's own conditions on the
+        template's records, which a follower's figures are) are looked at
+        (:func:`~linter.rulekit.flagged`); False: every solved group, the plain loop."""
+        results = solved_groups(context)
+        if by_template:
+            results = (result for result, _ in flagged(
+                context, PerTemplate(lambda base: _may_leave(context, base))))
+        for result in results:
             if result.group.topology not in REGULATORS:
                 continue
             base, refs = figures_of(result)  # a follower's records are left unbuilt
@@ -134,3 +142,15 @@ class SinkCompliance(Rule):
         return (f"an emitter voltage of {volts(design.v_emitter)} (divider "
                 f"{ohms(design.r_top)}/{ohms(design.r_bottom)} from {reference.name}, emitter "
                 f"{ohms(design.r_emitter)} {design.series}, needs {volts(design.rail_min_v)})")
+
+
+def _may_leave(context: Any, base: GroupResult) -> bool:
+    """Whether a transistor of ``base`` (a template) leaves regulation at a rail the board
+    knows: :meth:`SinkCompliance.check`'s conditions but the name and the topology."""
+    for transistor in base.transistors:
+        if transistor.rail_min is None:
+            continue
+        rail = context.rails.get(transistor.headroom_rail or "")
+        if rail is not None and (transistor.saturated or rail.min < transistor.rail_min):
+            return True
+    return False
