@@ -87,3 +87,17 @@ def test_any_values_give_the_plain_line(mappings, parts, fix) -> None:
     findings = [Finding("r", "warning", "m", parts, values=values, fix=fix)
                 for values in mappings]
     _assert_plain(findings, sample_circuit())
+
+
+def test_shared_values_give_the_plain_line() -> None:
+    shared, mixed = {"b": 1.5, "a": -0.0}, {"a": 1, "b": 2.0}  # invented figures
+    findings = [Finding("r", "info", "m", ("D7",), values=shared),
+                Finding("r", "info", "m", ("D8",), values=mixed),
+                Finding("q", "error", "n", ("R6", "D7"), values=shared),
+                Finding("q", "error", "n", ("R6",), values=mixed),
+                Finding("q", "error", "n", ("R6",), values={"b": 1.5, "a": 0.0})]
+    _assert_plain(findings, sample_circuit())
+    places = sarif._Places(ROOT)
+    for finding in findings:
+        sarif._result_line(finding, 0, sample_circuit(), places)
+    assert [entry[0] for entry in places.values_texts.values()] == [shared, {"b": 1.5, "a": 0.0}]

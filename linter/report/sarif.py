@@ -98,6 +98,9 @@ class _Places:
     def __init__(self, base: Path) -> None:
         self.base = base
         self._artifacts: dict[str, dict[str, str]] = {}
+        self.values_texts: dict[int, tuple[Any, str]] = {}
+        """:func:`_result_line`'s values texts by mapping object (kept with it, so no id
+        is reused): findings share their read-only ``values``."""
 
     def physical(self, location: "SourceLocation") -> dict[str, Any]:
         artifact = self._artifacts.get(location.file)
@@ -180,11 +183,15 @@ def _result_line(finding: Finding, rule_index: int, circuit: "Circuit",
     the JSON report's: keys in order, each float's ``repr``, null where not finite, which is
     what ``plain_data`` and the encoder make of them) in the place of a 0."""
     values = finding.values
-    if type(values) is dict and set(map(type, values)) <= _TEXT_ONLY \
-            and set(map(type, values.values())) <= _FLOAT_ONLY:
-        line = compact_json(_result(finding, rule_index, circuit, places, values=0))
-        if line.endswith(_VALUES_END):
-            return line[:-3] + _values_text(values) + "}}"
+    known = places.values_texts.get(id(values))
+    if known is None or known[0] is not values:
+        if type(values) is not dict or not set(map(type, values)) <= _TEXT_ONLY \
+                or not set(map(type, values.values())) <= _FLOAT_ONLY:
+            return compact_json(_result(finding, rule_index, circuit, places))
+        known = places.values_texts[id(values)] = (values, _values_text(values))
+    line = compact_json(_result(finding, rule_index, circuit, places, values=0))
+    if line.endswith(_VALUES_END):
+        return line[:-3] + known[1] + "}}"
     return compact_json(_result(finding, rule_index, circuit, places))
 
 
