@@ -21,7 +21,9 @@ import time
 from collections import deque
 from contextlib import contextmanager
 from dataclasses import dataclass
+from functools import partial
 from itertools import repeat
+from operator import is_not
 from typing import Iterable, Iterator, Mapping
 
 import numpy as np
@@ -52,6 +54,9 @@ every vertex starts Newton's method from the sum of the probed moves (fewer iter
 
 STAGE_TIMES: dict[str, float] = {}
 """Seconds spent in each stage by the last :func:`analyse` call (for bench scripts)."""
+
+_IS_RESULT = partial(is_not, None)
+"""Whether a slot of the results list holds a result (is not None)."""
 
 _OUTPUTS = ("led_i", "res_p", "q_p", "m_p", "pin_i")
 """The outputs whose extremes choose the sensitivity scheme's vertices."""
@@ -257,7 +262,7 @@ def analyse(groups: Iterable[Group], circuit: Circuit, part_data: PartDataMap,
                 deque(map(results.__setitem__, indices, made.followers(
                     list(map(groups.__getitem__, indices)), refs_maps)), 0)
             work.followers.clear()
-    return tuple(r for r in results if r is not None)
+    return tuple(filter(_IS_RESULT, results))
 
 
 @dataclass(frozen=True, eq=False)
@@ -279,20 +284,20 @@ def _build(groups: tuple[Group, ...], circuit: Circuit, part_data: PartDataMap,
     a follower of it. A group that cannot be modelled gets its ``unsolved`` result in
     ``results`` (its followers are then built each on its own)."""
     work = _Work({}, {}, {})
-    first: dict[tuple, tuple[int, tuple[str, ...]] | None] = {}
+    # per key, its template's followers (indices, references), or None when unmodelled
+    first: dict[tuple, tuple[list[int], list[tuple[str, ...]]] | None] = {}
     keyed = GroupKeys(circuit, part_data, rails).key
     for index, group in enumerate(groups):
         key: tuple | None = None
         if memoise:
             try:
                 key, names = keyed(group)
-                template = first.get(key, ())
+                followers = first.get(key)
             except TypeError:   # a figure that cannot be hashed: built on its own
-                key, template = None, ()
-            if template:
-                indices, references = work.followers[template[0]]
-                indices.append(index)
-                references.append(names)
+                key, followers = None, None
+            if followers is not None:
+                followers[0].append(index)
+                followers[1].append(names)
                 continue
         try:
             model = build_model(group, circuit, part_data, rails)
@@ -302,9 +307,8 @@ def _build(groups: tuple[Group, ...], circuit: Circuit, part_data: PartDataMap,
                 first.setdefault(key, None)
             continue
         if key is not None:
-            first[key] = (index, names)
             work.templates[index] = (names, model.note_parts)
-            work.followers[index] = ([], [])
+            first[key] = work.followers[index] = ([], [])
         work.buckets.setdefault(model.signature, []).append((index, model))
     return work
 
