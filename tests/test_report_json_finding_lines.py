@@ -17,7 +17,7 @@ from types import MappingProxyType
 import numpy as np
 import pytest
 from hypothesis import given, settings, strategies as st
-from report_samples import sample_circuit, sample_result
+from report_samples import sample_result
 
 from linter.engine import CheckRequest, run_check
 from linter.findings import Finding

@@ -6,6 +6,8 @@ building the dict: a 100k-part board has about 21,000 findings holding 320,000 f
 a float's shortest ``repr`` costs more than looking up one already written (the figures of
 renamed groups repeat: :func:`linter.report.json_groups._float`). :func:`finding_dict` is
 the plain record; tests/test_report_json_findings.py holds both to the same bytes.
+:func:`finding_lines` writes a report's findings with one writer that keeps what they share
+(tests/test_report_json_finding_lines.py holds it to :func:`finding_line`).
 """
 
 from __future__ import annotations

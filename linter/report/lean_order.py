@@ -20,6 +20,10 @@ same element of both keys, and each marker sorts below whatever it is compared w
 Guard: a name holding a character below ``\\x03`` (casefolding never makes one, tested over
 every code point) or a digit run too long for one character sends the whole list the plain
 way.
+
+Findings are sorted by their first part's text and the rest of their parts compared only
+when the first parts are the same (:func:`_finding_key_first`, :class:`_Rest`): the same
+order (tests/test_report_lean_order_first.py), a third of the names written.
 """
 
 from __future__ import annotations
