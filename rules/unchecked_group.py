@@ -2,12 +2,11 @@
 
 from __future__ import annotations
 
-from operator import attrgetter, countOf
 from typing import Any, Iterable
 
 from linter.findings import Finding
 from linter.refs import fold_refs
-from linter.rulekit import PerTemplate, figures_of, flagged, part_location, renamed_corner
+from linter.rulekit import figures_of, part_location, renamed_corner
 from linter.rules import Rule, register
 from linter.rules.floating_led import FLOATING_PHRASES
 
@@ -41,16 +40,8 @@ class UncheckedGroup(Rule):
     id = "unchecked-group"
     default_severity = "warning"
 
-    def check(self, context: Any, by_template: bool = True) -> Iterable[Finding]:
-        """``by_template``: on a board whose every group is recognised and solved, only
-        the groups whose template did not converge somewhere are looked at
-        (:func:`~linter.rulekit.flagged`), no step of Python for the others (False: every
-        group, the plain loop; the same findings)."""
-        results = getattr(context, "groups", ()) or ()
-        if by_template and _all_solved(results):
-            results = [result for result, _ in flagged(
-                context, PerTemplate(lambda base: bool(base.not_converged)))]
-        for result in results:
+    def check(self, context: Any) -> Iterable[Finding]:
+        for result in getattr(context, "groups", ()) or ():
             group = result.group
             reason = self._reason(result)
             if reason is None:
@@ -80,16 +71,3 @@ class UncheckedGroup(Rule):
                     f"(first: {first.label()}); figures leave "
                     f"{'them' if count > 1 else 'it'} out")
         return None
-
-
-_STATUS = attrgetter("status")
-_TOPOLOGY = attrgetter("group.topology")
-
-
-def _all_solved(results: Any) -> bool:
-    """Whether every result is solved and its group recognised: then a result's reason
-    (:meth:`UncheckedGroup._reason`) is its template's figures not converging or none,
-    and :func:`~linter.rulekit.solved_groups` holds every result, in order."""
-    results = tuple(results)
-    return (countOf(map(_STATUS, results), "solved") == len(results)
-            and not countOf(map(_TOPOLOGY, results), "unrecognised"))
