@@ -11,7 +11,7 @@ from __future__ import annotations
 import re
 from typing import Iterable
 
-__all__ = ["natural_key", "natural_sorted", "fold_refs", "RANGE_DASH", "MIN_RUN"]
+__all__ = ["natural_key", "split_key", "natural_sorted", "fold_refs", "RANGE_DASH", "MIN_RUN"]
 
 RANGE_DASH = "\u2013"
 """The en dash between the ends of a folded run (``D1–D12``)."""
@@ -22,7 +22,6 @@ MIN_RUN = 3
 _ASCII_DIGITS = "0123456789"
 _CHUNKS = re.compile(r"(\d+)")
 _SPLIT = _CHUNKS.split
-_LETTERS_NUMBER = re.compile(r"(\D*)(\d+)").fullmatch
 _TRAILING_NUMBER = re.compile(r"^(?P<prefix>.*?)(?P<number>[1-9]\d*|0)$")
 
 
@@ -32,10 +31,10 @@ def natural_key(ref: str) -> tuple[tuple[str | tuple[int, str], ...], str]:
     A digit run is compared by its length without leading zeros, then its digits: the order
     of the numbers, without converting them (a run of thousands of digits is no error). The
     common designator (letters, then ASCII digits) is read with two string methods (letters
-    are never digits, so what ``rstrip`` leaves is the text before the only digit run); other
-    names with one number at the end with one match; a name with one or two numbers elsewhere
-    from its split without a loop; any other name in one loop over its chunks (the same key
-    each way: ``tests/test_refs_key.py``).
+    are never digits, so what ``rstrip`` leaves is the text before the only digit run); a name
+    with one or two numbers (``+5V``, ``U1_PA4``, ``G12_N1``) from its split without a loop;
+    any other name in one loop over its chunks (the same key each way:
+    ``tests/test_refs_key.py``). One split is the only regular expression a name meets.
 
     >>> sorted(["D10", "D2", "d1", "R1"], key=natural_key)
     ['d1', 'D2', 'D10', 'R1']
@@ -45,14 +44,9 @@ def natural_key(ref: str) -> tuple[tuple[str | tuple[int, str], ...], str]:
         digits = ref[len(letters):]
         significant = digits.lstrip("0")
         return (letters.casefold(), (len(significant), significant), ""), ref
-    simple = _LETTERS_NUMBER(ref)
-    if simple is not None:
-        prefix, digits = simple.groups()
-        significant = digits.lstrip("0")
-        return (prefix.casefold(), (len(significant), significant), ""), ref
     chunks = _SPLIT(ref)  # text, digits, text, … (always an odd count)
     count = len(chunks)
-    if count == 3:  # one number inside (a net such as ``G12_NB``): unrolled
+    if count == 3:  # one number (a net such as ``G12_NB``, ``+5V``, ``U_1``): unrolled
         before, digits, after = chunks
         significant = digits.lstrip("0")
         return (before.casefold(), (len(significant), significant), after.casefold()), ref
@@ -71,6 +65,25 @@ def natural_key(ref: str) -> tuple[tuple[str | tuple[int, str], ...], str]:
             out.append(chunk.casefold())
         number = not number
     return tuple(out), ref
+
+
+def split_key(name: str) -> tuple[tuple[str | tuple[int, str], ...], str]:
+    """:func:`natural_key` of ``name``, read from its split first: for names that seldom are
+    letters then digits (nets such as ``G12_N1``, ``U1_PA4``, ``+5V``), which
+    :func:`natural_key` would try the designator's road on before splitting them. The same
+    key (``tests/test_refs_key.py``)."""
+    chunks = _SPLIT(name)
+    count = len(chunks)
+    if count == 5:  # two numbers
+        first, digits, middle, more, last = chunks
+        one, two = digits.lstrip("0"), more.lstrip("0")
+        return (first.casefold(), (len(one), one), middle.casefold(), (len(two), two),
+                last.casefold()), name
+    if count == 3:  # one number
+        before, digits, after = chunks
+        significant = digits.lstrip("0")
+        return (before.casefold(), (len(significant), significant), after.casefold()), name
+    return natural_key(name)
 
 
 def natural_sorted(refs: Iterable[str]) -> list[str]:

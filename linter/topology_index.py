@@ -29,7 +29,7 @@ from typing import Any, Callable, Literal, Mapping
 
 from linter.model import Circuit, Part, Pin
 from linter.partdata import BjtData, McuData, MosfetData, PartData, Rail
-from linter.refs import natural_key
+from linter.refs import natural_key, split_key
 
 __all__ = [
     "CircuitIndex",
@@ -118,6 +118,16 @@ class _RoleTable(dict):
 """Digit runs (as :mod:`linter.refs` splits designators)."""
 
 
+class _RailKeys(dict):
+    """Rail name → its :func:`~linter.refs.natural_key` (kept); any other name's key made when
+    asked (:func:`~linter.refs.split_key`, not kept), so one built-in map keys a set of nets."""
+
+    __slots__ = ()
+
+    def __missing__(self, name: str) -> tuple:
+        return split_key(name)
+
+
 class _Memo(dict):
     """A dict that fills itself: a missing key's value is ``compute(key)``, then kept.
 
@@ -183,8 +193,7 @@ class CircuitIndex:
         self.split = _Memo(self._split).__getitem__
         self.mcu_on = _Memo(self._mcu_on).__getitem__
         self.led_rank: dict[str, int] = {}  # LED → its place in natural order (set by topology)
-        self._rail_keys = {net: natural_key(net) for net in rails}
-        self._rail_names = frozenset(self._rail_keys)
+        self._rail_keys = _RailKeys({net: natural_key(net) for net in rails})
         self._rail_tuples: dict[tuple[str, ...], tuple[str, ...]] = {}
         self.walk_tables = (rails, circuit.nets, self._roles, circuit.parts, self.series_pins)
         """What a chain walk reads at each step: rails, nets, roles, parts, series_pins."""
@@ -201,11 +210,10 @@ class CircuitIndex:
 
     def sorted_nets_and_rails(self, names: set[str]) -> tuple[tuple[str, ...], tuple[str, ...]]:
         """``(tuple(natural_sorted(names)), rails_among(...))`` in one call, without a Python
-        step a name but its key (the twin: those two methods; ``tests/test_topology_calls.py``).
+        step a name but its key (a rail's kept, another's made by ``split_key``) (the twin:
+        those two methods; ``tests/test_topology_calls.py``).
         """
-        rail_names = self._rail_names
-        keys = list(map(natural_key, names.difference(rail_names)))
-        keys += map(self._rail_keys.__getitem__, names.intersection(rail_names))
+        keys = list(map(self._rail_keys.__getitem__, names))
         keys.sort()
         ordered = tuple(map(_NAME_OF_KEY, keys))
         found = tuple(filter(self.rails.__contains__, ordered))

@@ -32,6 +32,8 @@ MAX_GROUP_PARTS = 256
 MAX_CONTROL_PARTS = 16
 """A base or gate network larger than this is reported as unrecognised."""
 
+_new_tuple = tuple.__new__
+
 SHOWN_SHARERS = 3
 """How many of the transistors sharing a bias net a note names."""
 
@@ -176,7 +178,8 @@ def walk_chain(index: CircuitIndex, start: str) -> Chain:
     back_parts += ahead_parts
     back_nets.reverse()
     back_nets += ahead_nets
-    return Chain(tuple(back_parts), tuple(back_nets))
+    return _new_tuple(Chain, (tuple(back_parts), tuple(back_nets)))  # (Chain(...) without its
+    # Python-level __new__)
 
 
 def walk_chain_plain(index: CircuitIndex, start: str) -> Chain:

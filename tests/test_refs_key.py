@@ -1,5 +1,5 @@
-"""linter.refs.natural_key (one match for the common designator, an unrolled split for names
-with one or two digit runs elsewhere, one loop otherwise) gives the
+"""linter.refs.natural_key (two string methods for the common designator, an unrolled split
+for names with one or two digit runs, one loop otherwise) gives the
 keys of its plain definition, written out here as the reference (our own former code: split on
 digit runs, each run keyed by its length without leading zeros and its digits, each text
 casefolded). Nothing is pasted from the tool's output.
@@ -11,7 +11,7 @@ from hypothesis import example, given
 from hypothesis import strategies as st
 
 from linter.model import Circuit
-from linter.refs import natural_key
+from linter.refs import natural_key, split_key
 from linter.topology_index import CircuitIndex
 from plain_definitions import plain_key
 
@@ -33,6 +33,20 @@ _NAMEISH = st.text(alphabet=st.sampled_from("DRQdrS/_-.0123456789\u0661\u00df\u0
 @example("S2/R7/X3")  # three runs: the loop
 def test_natural_key_is_theplain_key(name: str) -> None:
     assert natural_key(name) == plain_key(name)
+
+
+@given(st.text(max_size=16) | _NAMEISH)
+@example("")
+@example("D10")
+@example("G12_N1")  # two runs: the five-chunk case
+@example("G12_NB")  # one run inside
+@example("+5V")
+@example("GND")  # no run: natural_key's loop
+@example("\u0661\u0662")
+@example("S2/R7/X3")  # three runs
+@example("G007_N00")
+def test_split_key_is_theplain_key(name: str) -> None:
+    assert split_key(name) == plain_key(name)
 
 
 @given(st.lists(_NAMEISH, max_size=20))
