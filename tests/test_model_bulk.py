@@ -30,7 +30,8 @@ pins = st.lists(st.builds(Pin, texts, maybe_texts), max_size=3).map(tuple)
 
 
 def _same(made: object, plain: object) -> None:
-    """Equal field by field, each of the same type, the location as stored; equal and hashed alike."""
+    """Equal field by field, each of the same type, the location as stored; equal and hashed
+    alike."""
     for item in fields(plain):  # type: ignore[arg-type]
         if item.name == "location":
             mine, theirs = stored_location(made), stored_location(plain)  # type: ignore[arg-type]

@@ -575,7 +575,8 @@ def _nets(parts: dict[str, Part], chosen: dict[int, NetWire], names: dict[int, s
     return nets
 
 
-def _joined(parts: dict[str, Part], names: dict[int, str]) -> dict[str, tuple[tuple[str, str], ...]]:
+def _joined(parts: dict[str, Part], names: dict[int, str]
+            ) -> dict[str, tuple[tuple[str, str], ...]]:
     """The (part, pin) pairs on each net name in ``names``, in part and pin order, by
     built-in passes: the connected pins sorted by net (stable). :func:`_joined_plain` is the
     loop it stands for (``tests/test_edif_leaf_pins.py`` holds the two equal)."""
