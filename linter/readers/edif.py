@@ -226,50 +226,14 @@ def _flat_nets(refs: list[str], pin_counts: list[int], slot_names: list[str],
 
 
 def _parts(leaves: list[Leaf], refs: list[str], places: list[SourceLocation], flat: FlatDesign,
-           net_names: dict[int, str], doc: Document, bulk_pins: bool = True) -> dict[str, Part]:
-    """Parts by reference; each leaf is let go of once its part is made. Their pins are made
-    for all parts at once (:func:`_leaf_pins`) when ``bulk_pins`` is set, else part by part
-    (:meth:`_PartMaker.pins_of`, the plain twin)."""
-    maker = _PartMaker(flat, net_names, doc)
-    make = maker.part
-    pins = _leaf_pins(maker, leaves, flat, net_names) if bulk_pins else None
+           net_names: dict[int, str], doc: Document) -> dict[str, Part]:
+    """Parts by reference; each leaf is let go of once its part is made."""
+    make = _PartMaker(flat, net_names, doc).part
     parts = {}
     for index, (ref, place) in enumerate(zip(refs, places)):
-        parts[ref] = make(leaves[index], ref, place, pins[index] if pins else None)
+        parts[ref] = make(leaves[index], ref, place)
         leaves[index] = None  # type: ignore[call-overload]  # its instance record can go
     return parts
-
-
-_ROUNDS = 8
-"""Rounds of :func:`_leaf_pins` taking every pin node one step up its union–find tree, after
-which the nodes not yet at a root are found one by one (after the net names are chosen the
-deepest pin sits 5 steps below its root on a generated 100,000-part hierarchical board)."""
-
-
-def _leaf_pins(maker: _PartMaker, leaves: list[Leaf], flat: FlatDesign,
-               net_names: dict[int, str]) -> list[tuple[Pin, ...]]:
-    """Each leaf's pins, as :meth:`_PartMaker.pins_of` makes them (one object per name and
-    net), for all leaves at once: every pin node taken up its tree by built-in passes, a
-    round a step, until all stand on their roots (``flat.parent`` is left as it is)."""
-    views = list(map(_VIEW, leaves))
-    sizes = {id(view): len(maker.view_pin_names(view)) for view in views}
-    counts = list(map(sizes.__getitem__, map(id, views)))
-    del views
-    starts = list(map(attrgetter("pins"), leaves))
-    roots = list(chain.from_iterable(map(range, starts, map(add, starts, counts))))
-    parent = flat.parent
-    for _ in range(_ROUNDS):
-        higher = list(map(parent.__getitem__, roots))
-        if higher == roots:
-            break
-        roots = higher
-    else:  # deeper trees: the rest of the way one by one
-        roots = list(map(flat.find, roots))
-    numbers = {root: number for number, root in enumerate(net_names)}
-    _, _, pins = _flat_pins(maker, leaves, list(net_names.values()),
-                            list(map(numbers.get, roots)))
-    firsts = list(accumulate(counts, initial=0))
-    return list(map(pins.__getitem__, map(slice, firsts, firsts[1:])))
 
 
 def _release_instances(edif: EdifFile) -> None:
@@ -435,13 +399,10 @@ class _PartMaker:
         self.names: dict[int, tuple[str, ...]] = {}
         self.kept: list[object] = []  # what the ids above name, kept alive: ids stay unique
 
-    def part(self, leaf: Leaf, ref: str, location: SourceLocation,
-             pins: tuple[Pin, ...] | None = None) -> Part:
-        """The leaf's part; its ``pins`` made here unless given (as :meth:`pins_of` makes them)."""
+    def part(self, leaf: Leaf, ref: str, location: SourceLocation) -> Part:
         instance = leaf.instance
         path = "/".join(leaf.names) if leaf.parents else instance.name.display
-        return self.make(instance, leaf.cell, leaf.view, ref, location, path,
-                         self.pins_of(leaf) if pins is None else pins)
+        return self.make(instance, leaf.cell, leaf.view, ref, location, path, self.pins_of(leaf))
 
     def make(self, instance: Instance, cell: Cell, view: View, ref: str,
              location: SourceLocation, path: str, pins: tuple[Pin, ...]) -> Part:
@@ -554,7 +515,11 @@ def _nets(parts: dict[str, Part], chosen: dict[int, NetWire], names: dict[int, s
           places: list[SourceLocation]) -> dict[str, Net]:
     """Nets in declaration order (``ordered``: the chosen wires by order, ``places``: where
     each was declared); refuses a net with fewer than two connections."""
-    joined = _joined(parts, names)
+    joined: dict[str, list[tuple[str, str]]] = {name: [] for name in names.values()}
+    for ref, part in parts.items():
+        for pin in part.pins:
+            if pin.net is not None:
+                joined[pin.net].append((ref, pin.name))
     outside = Counter(names.get(flat.find(node))  # the top cell's own ports are nodes 0, 1...
                       for node in range(len(pin_names(flat.top_view))))
     aliases: dict[int, dict[str, None]] = {}  # insertion-ordered sets: a ground net merges
@@ -573,35 +538,3 @@ def _nets(parts: dict[str, Part], chosen: dict[int, NetWire], names: dict[int, s
         nets[name] = Net(name, tuple(pins), place,
                          tuple(aliases.get(root, ())))
     return nets
-
-
-def _joined(parts: dict[str, Part], names: dict[int, str]
-            ) -> dict[str, tuple[tuple[str, str], ...]]:
-    """The (part, pin) pairs on each net name in ``names``, in part and pin order, by
-    built-in passes: the connected pins sorted by net (stable). :func:`_joined_plain` is the
-    loop it stands for (``tests/test_edif_leaf_pins.py`` holds the two equal)."""
-    number = {name: at for at, name in enumerate(names.values())}
-    pins = list(chain.from_iterable(map(_PINS, parts.values())))
-    slot_refs = list(chain.from_iterable(map(repeat, parts, map(len, map(_PINS, parts.values())))))
-    slot_nets = list(map(number.get, map(_NET, pins)))
-    connected = sorted(compress(range(len(pins)), map(is_not, slot_nets, repeat(None))),
-                       key=slot_nets.__getitem__)
-    pairs = tuple(zip(map(slot_refs.__getitem__, connected),
-                      map(_NAME, map(pins.__getitem__, connected))))
-    sizes = Counter(slot_nets)
-    bounds = list(accumulate(map(sizes.__getitem__, range(len(number))), initial=0))
-    return dict(zip(number, map(pairs.__getitem__, map(slice, bounds, bounds[1:]))))
-
-
-_PINS, _NET, _NAME = attrgetter("pins"), attrgetter("net"), attrgetter("name")
-
-
-def _joined_plain(parts: dict[str, Part], names: dict[int, str]
-                  ) -> dict[str, list[tuple[str, str]]]:
-    """:func:`_joined` one pin at a time (its plain twin)."""
-    joined: dict[str, list[tuple[str, str]]] = {name: [] for name in names.values()}
-    for ref, part in parts.items():
-        for pin in part.pins:
-            if pin.net is not None:
-                joined[pin.net].append((ref, pin.name))
-    return joined
