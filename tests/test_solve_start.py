@@ -7,10 +7,15 @@ tolerances, so they must agree on which rows converge and, where they do, on the
 voltages within those tolerances; the start step exists to need fewer iterations, which is
 checked as a count (not a time).
 
-The cold start also converges on rows where the plain start ran away (low-side MOSFET
-switches of the 300-part board of seed 11: the plain start's voltages reach 1e24 V and it
-gives up after 400 iterations); a converged row meets the KCL tolerance, so its answer is an
-operating point of the circuit, and a string of LEDs over a MOSFET sink has only one.
+The cold start also reaches conduction in far fewer iterations on the low-side MOSFET
+switches of the 300-part board of seed 11 (12 against 62 and 64 on this machine), because
+from all-zero voltages junction limiting lets a string climb only a logarithmic step per
+iteration. That count is structural; whether the plain start then runs away altogether
+(voltages of 1e24 V, seen on one machine) depends on the BLAS kernel's rounding, so the
+test holds only the budget: within :data:`BUDGET` iterations the cold start solves every row
+and the plain start leaves some unsolved. A converged row meets the KCL tolerance, so its
+answer is an operating point of the circuit, and a string of LEDs over a MOSFET sink has
+only one.
 """
 
 from __future__ import annotations
@@ -35,6 +40,9 @@ from linter.solve import MAX_ITERATIONS, Network, Params  # noqa: E402
 DEMO = ROOT / "fixtures" / "demo"
 VOLT_TOL = 1e-9
 """V: converged voltages agree within the solver's own step tolerance (VOLTAGE_TOL)."""
+BUDGET = 40
+"""Iterations: above the cold start's most on the board (23, a BJT network it does not
+start), below the plain start's on the MOSFET switches (62, 64); from our own runs."""
 
 
 def _cold_solves(request: CheckRequest, monkeypatch: pytest.MonkeyPatch
@@ -92,16 +100,17 @@ def test_cold_start_reaches_the_plain_start_answers_in_fewer_iterations(
     assert started_total < plain_total
 
 
-def test_cold_start_solves_the_switches_the_plain_start_loses(
+def test_cold_start_solves_within_a_budget_the_plain_start_does_not_meet(
         tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> None:
     gained = 0
     for net, params in _cold_solves(_board(tmp_path, 300, 11), monkeypatch):
-        started = solver.solve(net, params)
+        started = solver.solve(net, params, max_iterations=BUDGET)
         plain = solver._solve_rows(net, params, np.zeros((params.rows, net.n_nodes)),
-                                   MAX_ITERATIONS, cold=False)
-        gained += int((started.converged & ~plain.converged).sum())
+                                   BUDGET, cold=False)
         assert started.converged.all()
-        assert (started.residual[started.converged] <= solver.CURRENT_TOL).all()
+        assert (started.residual <= solver.CURRENT_TOL).all()
+        assert not (plain.converged & ~started.converged).any()
+        gained += int((started.converged & ~plain.converged).sum())
     assert gained >= 1
 
 
