@@ -12,7 +12,7 @@ from typing import Any
 
 from linter.engine import CheckRequest, CheckResult
 from linter.findings import Finding
-from linter.model import Circuit, Net, Part, Pin, SourceLocation
+from linter.model import Circuit, Net, Part, Pin, SourceLocation, packed_location
 
 NETLIST = "boards/panel.cir"
 REPO = Path(__file__).resolve().parents[1]
@@ -47,6 +47,18 @@ def sample_circuit() -> Circuit:
             net_pins.setdefault(pin.net or "", []).append((part.ref, pin.name))
     nets = {name: Net(name, tuple(pins), _loc(1)) for name, pins in net_pins.items()}
     return Circuit(NETLIST, "spice", {p.ref: p for p in parts}, nets)
+
+
+def placed_circuit(first_file: str) -> Circuit:
+    """Invented parts placed every way a part can be: packed places in ``first_file`` and
+    in a second file, a part without a place, one with a SourceLocation."""
+    pins = (Pin("1", "A"), Pin("2", "B"))
+    parts = [Part("R1", "resistor", "1k", pins, packed_location(first_file, 3, 9)),
+             Part("R2", "resistor", "1k", pins, packed_location("second.edif", 7, 2)),
+             Part("R3", "resistor", "1k", pins, None),
+             Part("R4", "resistor", "1k", pins, SourceLocation("c.edif", 5, 1)),
+             Part("U1", "mcu", None, pins, packed_location("second.edif", 11, 4))]
+    return Circuit("a.edif", "edif", {p.ref: p for p in parts}, {})
 
 
 @dataclass(frozen=True)

@@ -17,11 +17,11 @@ from types import MappingProxyType
 import numpy as np
 import pytest
 from hypothesis import given, settings, strategies as st
-from report_samples import sample_result
+from report_samples import placed_circuit, sample_result
 
 from linter.engine import CheckRequest, run_check
 from linter.findings import Finding
-from linter.model import Circuit, Part, Pin, SourceLocation, packed_location, stored_location
+from linter.model import SourceLocation, stored_location
 from linter.report import json_findings
 from linter.report.json_findings import finding_line, finding_lines
 from linter.report.json_layout import plain_json
@@ -33,6 +33,8 @@ if str(ROOT) not in sys.path:
 from bench.gen_board import generate, write_all  # noqa: E402
 
 DEMO = ROOT / "fixtures" / "demo"
+ODD_FILE = 'a "b" %d.edif'
+"""A file name with a quote and a percent sign (invented)."""
 
 
 def _assert_one_by_one(findings, circuit) -> None:
@@ -67,20 +69,8 @@ def test_sample_lines_together_are_the_lines_one_by_one() -> None:
     _assert_one_by_one(result.findings, result.circuit)
 
 
-def _odd_circuit() -> Circuit:
-    """Invented parts: packed places in a file named with quotes and a percent sign, in a
-    second file, a part without a place, one with a SourceLocation."""
-    pins = (Pin("1", "A"), Pin("2", "B"))
-    parts = [Part("R1", "resistor", "1k", pins, packed_location('a "b" %d.edif', 3, 9)),
-             Part("R2", "resistor", "1k", pins, packed_location("second.edif", 7, 2)),
-             Part("R3", "resistor", "1k", pins, None),
-             Part("R4", "resistor", "1k", pins, SourceLocation("c.edif", 5, 1)),
-             Part("U1", "mcu", None, pins, packed_location("second.edif", 11, 4))]
-    return Circuit("a.edif", "edif", {p.ref: p for p in parts}, {})
-
-
 def test_odd_findings_together_are_the_lines_one_by_one() -> None:
-    circuit = _odd_circuit()
+    circuit = placed_circuit(ODD_FILE)
     shared = {"b": 1.5, "a": 0.0}
     odd = [  # invented findings
         Finding("r", "error", 'say "hi" \\ µ', ("R1",), values=shared),
@@ -100,7 +90,7 @@ def test_odd_findings_together_are_the_lines_one_by_one() -> None:
 
 
 def test_fields_of_other_types_take_the_plain_writer() -> None:
-    circuit = _odd_circuit()
+    circuit = placed_circuit(ODD_FILE)
     odd = [Finding("r", "info", "m", ("R1",), group=7),      # invented: fields not text
            Finding("r", "info", "m", ("R1",), fix=3.5),
            Finding("r", "info", 5, ("R1",)),
@@ -128,4 +118,4 @@ def test_any_findings_together_are_the_lines_one_by_one(rows, mappings) -> None:
     findings = [Finding(rule, severity, message, tuple(parts), tuple(nets), group,
                         mappings[which], fix, location)
                 for rule, severity, message, parts, nets, group, which, fix, location in rows]
-    _assert_one_by_one(findings, _odd_circuit())
+    _assert_one_by_one(findings, placed_circuit(ODD_FILE))

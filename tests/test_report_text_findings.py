@@ -14,11 +14,11 @@ from pathlib import Path
 from types import MappingProxyType
 
 from hypothesis import given, settings, strategies as st
-from report_samples import sample_result
+from report_samples import placed_circuit, sample_result
 
 from linter.engine import CheckRequest, run_check
 from linter.findings import Finding
-from linter.model import Circuit, Part, Pin, SourceLocation, packed_location, stored_location
+from linter.model import SourceLocation, stored_location
 from linter.refs import fold_refs
 from linter.report import text as text_report
 from linter.report.common import finding_location
@@ -109,20 +109,8 @@ def test_sample_findings_text_is_the_finding_line() -> None:
             "".join(text_report._finding_line(finding, result)._texts)
 
 
-def _packed_circuit() -> Circuit:
-    """Invented parts: packed places in two files (one named with a colon and a tab), a
-    part without a place, one with a SourceLocation."""
-    pins = (Pin("1", "A"), Pin("2", "B"))
-    parts = [Part("R1", "resistor", "1k", pins, packed_location("a:b\tc.edif", 3, 9)),
-             Part("R2", "resistor", "1k", pins, packed_location("second.edif", 7, 2)),
-             Part("R3", "resistor", "1k", pins, None),
-             Part("R4", "resistor", "1k", pins, SourceLocation("c.edif", 5, 1)),
-             Part("U1", "mcu", None, pins, packed_location("second.edif", 11, 4))]
-    return Circuit("a.edif", "edif", {p.ref: p for p in parts}, {})
-
-
 def test_where_text_is_the_location_written() -> None:
-    circuit = _packed_circuit()
+    circuit = placed_circuit("a:b\tc.edif")
     findings = [Finding("r", "info", "m", parts)  # invented
                 for parts in [("R1",), ("R2", "R1"), ("R3",), ("R4",), ("U1.PA4",), ("X9", "R2"),
                               ()]]
