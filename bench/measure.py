@@ -6,7 +6,10 @@ standard output for inspection), then ``runs`` times with its standard output se
 runs every measure once, so that a slow spell of a shared machine falls on all of them. Each run's wall-clock time is taken around the process; its peak resident memory
 is the ``ru_maxrss`` that :func:`os.wait4` returns for that one child (KiB on Linux), both
 taken by ``bench/launch.py``, a small process the command is forked from (forked from this
-harness, a child would be charged with the harness's own resident memory).
+harness, a child would be charged with the harness's own resident memory). It is one
+process's peak: memory of processes the command forks is not in it, so a single-board check
+stays in one process (sharing a 100,000-part board's rules with a forked child once saved
+about 0.1 s of 5 s, and the child's copied pages, some 125 MiB, went uncounted here).
 
 A measure that cannot run (exit status other than 0 or 1, a crash, a missing program) is
 recorded with its error and no number: never a guessed one.

@@ -77,7 +77,7 @@ def _drain(chunks) -> int:
     return written
 
 
-def _pipeline(netlist: Path, bom_path: Path | None, stages: _Stages, jobs: int | None = 1) -> None:
+def _pipeline(netlist: Path, bom_path: Path | None, stages: _Stages) -> None:
     """Every stage of a check, in order (``stages.parts`` gets the circuit's part count)."""
     from linter import limits
     from linter.bom_join import apply_bom
@@ -108,8 +108,7 @@ def _pipeline(netlist: Path, bom_path: Path | None, stages: _Stages, jobs: int |
         rails = stages.run("rails", lambda: resolve_rails(circuit, settings))
     context = AnalysisContext(circuit=circuit, settings=settings, rails=rails,
                               part_data=part_data, bom=bom, bom_discrepancies=discrepancies)
-    _analyse(context, stages, registry, CheckRequest(netlist, bom_path), CheckResult,
-             lambda context, registry: run_rules(context, registry, jobs))
+    _analyse(context, stages, registry, CheckRequest(netlist, bom_path), CheckResult, run_rules)
 
 
 def _analyse(context, stages: _Stages, registry, request, result_type, run_rules) -> None:
@@ -148,11 +147,6 @@ def main(argv: Sequence[str] | None = None) -> int:
     parser.add_argument("--sort", default="cumulative", help="pstats sort key (tottime, …)")
     parser.add_argument("--stages", help="comma-separated stages to profile (default: all)")
     parser.add_argument("--stop-after", metavar="STAGE", help="end after this stage (topology…)")
-    parser.add_argument("--jobs", type=lambda text: None if text == "auto" else int(text),
-                        default=1, metavar="N|auto",
-                        help="processes sharing the rules, as ledlint check --jobs (default 1: "
-                             "all in this process, so that its CPU counts every rule; auto: "
-                             "as ledlint check without --jobs)")
     parser.add_argument("--dump", type=Path, metavar="FILE",
                         help="also write the cProfile statistics to FILE (for pstats callers)")
     args = parser.parse_args(argv)
@@ -160,7 +154,7 @@ def main(argv: Sequence[str] | None = None) -> int:
     stages = _Stages(profiled, bool(args.profile), args.stop_after)
     started, started_cpu = time.perf_counter(), time.process_time()
     try:
-        _pipeline(args.netlist, args.bom, stages, args.jobs)
+        _pipeline(args.netlist, args.bom, stages)
     except _Stop:
         pass
     parts = stages.parts

@@ -177,8 +177,7 @@ def check_board(task: BoardTask) -> BoardOutcome:
     from linter.engine import CheckRequest, run_check
 
     request = CheckRequest(netlist=task.netlist, bom=task.bom, config=task.config,
-                           parts_files=task.parts_files, baseline=task.baseline,
-                           rule_processes=1)  # boards, not rules, share the processes
+                           parts_files=task.parts_files, baseline=task.baseline)
     try:
         return BoardOutcome(task, result=run_check(request))
     except LedlintError as exc:

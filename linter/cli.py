@@ -81,9 +81,8 @@ def _build_parser() -> argparse.ArgumentParser:
                        help="EDIF 2.0.0 or SPICE netlist, or a folder: every netlist below it")
     check.add_argument("more_netlists", type=Path, nargs="*", metavar="NETLIST",
                        help="further netlists or folders, each board checked on its own")
-    check.add_argument("--jobs", "-j", type=int, default=None, metavar="N",
-                       help="processes: several boards N at a time (default 1), or one "
-                            "board's rules shared among N (default: 2 on a large board)")
+    check.add_argument("--jobs", "-j", type=int, default=1, metavar="N",
+                       help="check N boards at a time (separate processes); default 1")
     check.add_argument("--bom", type=Path, help="bill of materials (CSV)")
     check.add_argument("--config", type=Path, help="settings file (default: found upward)")
     check.add_argument("--parts", type=Path, action="append", default=[],
@@ -184,8 +183,7 @@ def _run_check(args: argparse.Namespace) -> int:
             results.append(run_check(CheckRequest(netlist=netlist, bom=args.bom,
                                                   config=args.config,
                                                   parts_files=tuple(args.parts),
-                                                  baseline=args.baseline,
-                                                  rule_processes=args.jobs)))
+                                                  baseline=args.baseline)))
         progress.step(f"writing the {args.format} report")
         to_terminal = args.output is None and sys.stdout.isatty() and "NO_COLOR" not in os.environ
         with paused_gc():  # the reporter's modules imported: no cycles to collect

@@ -75,7 +75,7 @@ def run_many(args: argparse.Namespace) -> int:
         raise UsageError(HTML_REFUSAL)
     with Progress(total=len(tasks) + 1) as progress:
         progress.step(f"checking {len(tasks)} boards")
-        outcomes = run_boards(tasks, args.jobs or 1,
+        outcomes = run_boards(tasks, args.jobs,
                               on_done=lambda done: progress.step(f"checked {done.task.netlist.name}"))
         if len(outcomes) == 1 and not outcomes[0].readable:
             raise UsageError(outcomes[0].error or "")

@@ -21,6 +21,6 @@ def wants_many(args: argparse.Namespace) -> bool:
     UsageError
         ``--jobs`` below 1.
     """
-    if args.jobs is not None and args.jobs < 1:
+    if args.jobs < 1:
         raise UsageError(f"ledlint check: --jobs {args.jobs}: give a whole number of 1 or more")
     return bool(args.more_netlists) or args.netlist.is_dir()

@@ -47,8 +47,6 @@ class CheckRequest:
 
     ``today`` fixes the date waivers' ``until`` is compared with (default: the current date).
     ``baseline`` names a baseline file whose findings are not shown (only counted).
-    ``rule_processes`` share the board's rules (``--jobs`` of one board; None: chosen by
-    :func:`linter.rule_sharing.usable_processes`); the findings are the same either way.
     """
 
     netlist: Path
@@ -57,7 +55,6 @@ class CheckRequest:
     parts_files: tuple[Path, ...] = ()
     today: dt.date | None = None
     baseline: Path | None = None
-    rule_processes: int | None = None
 
 
 @record
@@ -147,35 +144,17 @@ def _notes_as_findings(context: AnalysisContext, registry: Mapping[str, Any]) ->
             for note in context.circuit.notes if note.rule not in registry]
 
 
-def run_rules(context: AnalysisContext, registry: Mapping[str, Any] | None = None,
-              processes: int | None = 1) -> list[Finding]:
-    """The findings of every enabled rule, rules in id order, each rule's findings as it gives them.
-
-    ``processes`` share the rules (:mod:`linter.rule_sharing`; None: two on a large board
-    when two CPUs are usable, else one); the list is the same, element for element.
-    """
+def run_rules(context: AnalysisContext, registry: Mapping[str, Any] | None = None) -> list[Finding]:
+    """The findings of every enabled rule, rules in id order, each rule's findings as it gives them."""
     registry = _rule_registry() if registry is None else registry
     from linter.rulekit import forget_board
-
-    def check(rule_id: str) -> list[Finding]:
-        return list(registry[rule_id]().check(context))
 
     try:
         with paused_gc():  # findings and fix searches are many small acyclic records
             findings = _notes_as_findings(context, registry)
-            enabled = [rule_id for rule_id in sorted(registry) if context.enabled(rule_id)]
-            shared = None
-            if processes != 1:
-                from linter.rule_sharing import shared_findings, usable_processes
-
-                count = usable_processes(processes, len(context.groups))
-                shared = shared_findings(enabled, check, count) if count > 1 else None
-            if shared is None:  # the plain loop
-                for rule_id in enabled:
-                    findings.extend(check(rule_id))
-            else:
-                for rule_id in enabled:
-                    findings.extend(shared[rule_id])
+            for rule_id in sorted(registry):
+                if context.enabled(rule_id):
+                    findings.extend(registry[rule_id]().check(context))
     finally:
         forget_board()
     return findings
@@ -185,7 +164,7 @@ def run_check(request: CheckRequest) -> CheckResult:
     """Read, enrich, analyse and check the netlist named in ``request``."""
     registry = load_check_modules()
     context = analyse(load_inputs(request, registry))
-    findings = run_rules(context, registry, request.rule_processes)
+    findings = run_rules(context, registry)
     today = request.today or dt.date.today()
     kept, waived, notices = apply_waivers(findings, context.settings.waivers, today,
                                           context.severity(STALE_WAIVER, "info"))
