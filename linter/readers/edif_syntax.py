@@ -242,7 +242,11 @@ class FormReader:
         return token  # type: ignore[return-value]
 
     def typed_value(self, form: list, prop: list) -> str | None:
-        """Text of a typedValue: string, integer, number, boolean; None for other types."""
+        """Text of a typedValue: string, integer, number, boolean; None for other types.
+        A value that is not a form at all (``(property TOL 5)``) is malformed."""
+        if not isinstance(form, list):
+            self.fail(prop, f"malformed '{prop[0]}': expected a typed value such as "
+                            f"(string ...) or (integer ...), found {_show(form)}")
         kw = keyword(form)
         values = form[1:]
         if kw == "string":
